@@ -1,0 +1,85 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"os"
+	"runtime"
+	"strings"
+
+	"github.com/spf13/pflag"
+	"github.com/spf13/viper"
+)
+
+// Config is the whole resolved configuration. configs/default.yaml documents every key.
+type Config struct {
+	Database DatabaseConfig `mapstructure:"database"`
+	Workers  int            `mapstructure:"workers"`
+	Output   string         `mapstructure:"output"`
+}
+
+// DatabaseConfig says which PostgreSQL to use.
+type DatabaseConfig struct {
+	// URL of an existing server; empty starts the embedded one.
+	URL string `mapstructure:"url"`
+	// DataDir of the embedded server.
+	DataDir string `mapstructure:"data_dir"`
+}
+
+// flagKeys maps persistent and command flags to configuration keys.
+var flagKeys = map[string]string{
+	"database-url": "database.url",
+	"data-dir":     "database.data_dir",
+	"workers":      "workers",
+	"out":          "output",
+}
+
+func setDefaults(v *viper.Viper) {
+	v.SetDefault("database.url", "")
+	v.SetDefault("database.data_dir", "")
+	v.SetDefault("workers", runtime.NumCPU())
+	v.SetDefault("output", "trussfleet-out")
+}
+
+// loadConfig resolves flags > TRUSSFLEET_* environment > config file > defaults, once.
+func loadConfig(file string, flags *pflag.FlagSet) (Config, error) {
+	v := viper.New()
+	setDefaults(v)
+	v.SetEnvPrefix("TRUSSFLEET")
+	v.SetEnvKeyReplacer(strings.NewReplacer(".", "_"))
+	v.AutomaticEnv()
+	if file == "" {
+		if _, err := os.Stat("trussfleet.yaml"); err == nil {
+			file = "trussfleet.yaml"
+		}
+	}
+	if file != "" {
+		v.SetConfigFile(file)
+		if err := v.ReadInConfig(); err != nil {
+			return Config{}, fmt.Errorf("config file %s: %w", file, err)
+		}
+	}
+	for name, key := range flagKeys {
+		if f := flags.Lookup(name); f != nil {
+			if err := v.BindPFlag(key, f); err != nil {
+				return Config{}, err
+			}
+		}
+	}
+	var cfg Config
+	if err := v.Unmarshal(&cfg); err != nil {
+		return Config{}, fmt.Errorf("configuration: %w", err)
+	}
+	if err := cfg.validate(); err != nil {
+		return Config{}, err
+	}
+	return cfg, nil
+}
+
+func (c Config) validate() error {
+	var errs []error
+	if c.Workers < 1 {
+		errs = append(errs, fmt.Errorf("configuration key workers: must be at least 1, got %d", c.Workers))
+	}
+	return errors.Join(errs...)
+}
