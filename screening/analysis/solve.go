@@ -7,16 +7,20 @@ import (
 	"sort"
 
 	"github.com/trussfleet/trussfleet/screening/truss"
-	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/blas"
+	"gonum.org/v1/gonum/blas/blas64"
+	"gonum.org/v1/gonum/floats"
+	"gonum.org/v1/gonum/lapack/lapack64"
 )
 
 // ErrMechanism is returned (wrapped) when the truss cannot carry load: it is a mechanism,
 // unsupported, or so nearly so that its stiffness matrix is numerically singular.
 var ErrMechanism = errors.New("truss is a mechanism or unsupported (singular stiffness)")
 
-// maxCondition bounds the stiffness matrix's condition number; beyond it the truss is treated
-// as a mechanism. Sound trusses of any proportion the geometry package allows stay far below.
-const maxCondition = 1e12
+// minPivotRatio bounds how much of a diagonal stiffness term the factorisation may cancel:
+// a pivot below it means the matrix is singular to working precision (a mechanism). Sound
+// trusses of any proportion the geometry package allows stay many orders of magnitude above.
+const minPivotRatio = 1e-10
 
 // Options tune the analysis.
 type Options struct {
@@ -61,17 +65,15 @@ func InfluenceLines(t *truss.Truss, opt Options) (*Lines, error) {
 		return nil, err
 	}
 	nd := len(t.DeckJoints)
-	// Right-hand sides: one column per deck panel point, a unit downward load at its y dof.
-	rhs := mat.NewDense(s.n, nd, nil)
+	// Right-hand sides, row-major (one row per equation, one column per deck panel point):
+	// a unit downward load at the panel point's y dof.
+	u := make([]float64, s.n*nd)
 	for k, j := range t.DeckJoints {
 		if d := s.dof[2*j+1]; d >= 0 {
-			rhs.Set(d, k, -1)
+			u[d*nd+k] = -1
 		}
 	}
-	var u mat.Dense
-	if err := s.chol.SolveTo(&u, rhs); err != nil {
-		return nil, fmt.Errorf("%w: %v", ErrMechanism, err)
-	}
+	s.solve(u, nd)
 	out := &Lines{SpanM: t.SpanM(), X: t.DeckX(), Members: make([]Line, m)}
 	ord := make([]float64, m*nd)
 	for i, mb := range t.Members {
@@ -79,7 +81,7 @@ func InfluenceLines(t *truss.Truss, opt Options) (*Lines, error) {
 	}
 	disp := func(dof, k int) float64 {
 		if d := s.dof[dof]; d >= 0 {
-			return u.At(d, k)
+			return u[d*nd+k]
 		}
 		return 0
 	}
@@ -132,7 +134,10 @@ type system struct {
 	dof           []int // global dof (2·joint + axis) to equation number, -1 where restrained
 	cos, sin, len []float64
 	ea            []float64
-	chol          mat.BandCholesky
+	// kd is the half-bandwidth; band holds the Cholesky factor U (K = UᵀU) in LAPACK's
+	// upper band layout, row-major: band[i*(kd+1) + (j-i)] = U[i][j].
+	kd   int
+	band []float64
 }
 
 func newSystem(t *truss.Truss, ea []float64) (*system, error) {
@@ -197,7 +202,9 @@ func newSystem(t *truss.Truss, ea []float64) (*system, error) {
 		}
 	}
 	kd = min(kd, s.n-1)
-	k := mat.NewSymBandDense(s.n, kd, nil)
+	s.kd = kd
+	ld := kd + 1
+	s.band = make([]float64, s.n*ld)
 	for i, mb := range t.Members {
 		c, sn, e := s.cos[i], s.sin[i], s.ea[i]/s.len[i]
 		g := [4]float64{-c, -sn, c, sn}
@@ -207,20 +214,47 @@ func newSystem(t *truss.Truss, ea []float64) (*system, error) {
 				continue
 			}
 			for q := 0; q < 4; q++ {
-				if d[q] < d[p] {
-					continue
+				if d[q] >= d[p] {
+					s.band[d[p]*ld+d[q]-d[p]] += e * g[p] * g[q]
 				}
-				k.SetSymBand(d[p], d[q], k.At(d[p], d[q])+e*g[p]*g[q])
 			}
 		}
 	}
-	if ok := s.chol.Factorize(k); !ok {
+	diag := make([]float64, s.n)
+	for i := range diag {
+		diag[i] = s.band[i*ld]
+	}
+	_, ok := lapack64.Pbtrf(blas64.SymmetricBand{Uplo: blas.Upper, N: s.n, K: kd, Data: s.band, Stride: ld})
+	if !ok {
 		return nil, ErrMechanism
 	}
-	if c := s.chol.Cond(); c > maxCondition || math.IsNaN(c) {
-		return nil, fmt.Errorf("%w: condition number %.3g", ErrMechanism, c)
+	// A pivot that lost nearly all of its diagonal term marks a mechanism that rounding
+	// kept from failing the factorisation outright.
+	for i := range diag {
+		if p := s.band[i*ld]; p*p < minPivotRatio*diag[i] {
+			return nil, fmt.Errorf("%w: pivot %d is %.3g of its stiffness", ErrMechanism, i, p*p/diag[i])
+		}
 	}
 	return s, nil
+}
+
+// solve overwrites the row-major n×nrhs right-hand sides b with the solutions of UᵀU x = b.
+func (s *system) solve(b []float64, nrhs int) {
+	ld := s.kd + 1
+	for i := 0; i < s.n; i++ { // Uᵀ y = b, forward
+		row := b[i*nrhs : (i+1)*nrhs]
+		floats.Scale(1/s.band[i*ld], row)
+		for j := i + 1; j <= min(i+s.kd, s.n-1); j++ {
+			floats.AddScaled(b[j*nrhs:(j+1)*nrhs], -s.band[i*ld+j-i], row)
+		}
+	}
+	for i := s.n - 1; i >= 0; i-- { // U x = y, backward
+		row := b[i*nrhs : (i+1)*nrhs]
+		for j := i + 1; j <= min(i+s.kd, s.n-1); j++ {
+			floats.AddScaled(row, -s.band[i*ld+j-i], b[j*nrhs:(j+1)*nrhs])
+		}
+		floats.Scale(1/s.band[i*ld], row)
+	}
 }
 
 // At gives member i's influence-line ordinate for a unit load at x metres from the left

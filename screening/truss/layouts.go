@@ -1,8 +1,8 @@
 package truss
 
 import (
-	"fmt"
 	"sort"
+	"strconv"
 )
 
 func init() {
@@ -39,14 +39,14 @@ func postTruss(b *builder, p Params, howe bool) {
 	dx := p.SpanM / float64(n)
 	inclined := p.EndPosts == Inclined
 	for i := 0; i <= n; i++ {
-		b.joint(fmt.Sprintf("L%d", i), float64(i)*dx, 0)
+		b.joint(L(i), float64(i)*dx, 0)
 	}
 	first, last := 0, n
 	if inclined {
 		first, last = 1, n-1
 	}
 	for i := first; i <= last; i++ {
-		b.joint(fmt.Sprintf("U%d", i), float64(i)*dx, p.DepthM)
+		b.joint(U(i), float64(i)*dx, p.DepthM)
 	}
 	for i := 0; i < n; i++ {
 		b.member(L(i), L(i+1), BottomChord)
@@ -134,11 +134,11 @@ func warrenVerticals(b *builder, p Params) {
 	b.deckRow("L")
 }
 
-// L and U name the bottom and top joints.
-func L(i int) string { return fmt.Sprintf("L%d", i) }
+// L names the bottom joint i.
+func L(i int) string { return "L" + strconv.Itoa(i) }
 
 // U names the top joint i.
-func U(i int) string { return fmt.Sprintf("U%d", i) }
+func U(i int) string { return "U" + strconv.Itoa(i) }
 
 type builder struct {
 	p     Params
