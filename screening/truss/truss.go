@@ -33,12 +33,12 @@ const (
 
 // Params are the inventory's description of one truss.
 type Params struct {
-	Type     string  // a name from Types, e.g. "pratt"
-	SpanM    float64 // bearing to bearing
-	Panels   int     // number of bottom-chord panels
-	DepthM   float64 // centre-line distance between the chords
-	Deck     string  // "through" (deck at the bottom chord) or "deck" (at the top); "" means through
-	EndPosts string  // "inclined" or "vertical"; "" takes the type's default for the deck position
+	Type     string  `json:"type"`      // a name from Types, e.g. "pratt"
+	SpanM    float64 `json:"span_m"`    // bearing to bearing
+	Panels   int     `json:"panels"`    // number of bottom-chord panels
+	DepthM   float64 `json:"depth_m"`   // centre-line distance between the chords
+	Deck     string  `json:"deck"`      // "through" (deck at the bottom chord) or "deck" (at the top); "" means through
+	EndPosts string  `json:"end_posts"` // "inclined" or "vertical"; "" takes the type's default for the deck position
 }
 
 // Joint is a pin of the truss.
@@ -117,7 +117,7 @@ type Type struct {
 	EvenPanels  bool     // the layout needs an even number of panels
 	MinPanels   int      // at least this many panels
 	EndPosts    []string // end-post forms it offers; empty: the form is fixed by the layout
-	DeckAllowed []string // deck positions it offers, with its default end posts for each
+	DeckAllowed []string // deck positions it offers
 	// DefaultEndPosts maps a deck position to the end-post form used when none is given.
 	DefaultEndPosts map[string]string
 	// DeckNeeds maps a deck position to the end-post form it requires ("" for any).

@@ -1,0 +1,55 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"strings"
+
+	"github.com/spf13/cobra"
+	"github.com/trussfleet/trussfleet/screening/truss"
+)
+
+// geometryFlags are the flags that describe one parametric truss; the lines and envelope
+// commands share them.
+type geometryFlags struct {
+	p truss.Params
+}
+
+func (g *geometryFlags) add(cmd *cobra.Command) {
+	f := cmd.Flags()
+	f.StringVar(&g.p.Type, "type", "pratt", "truss type: "+strings.Join(truss.TypeNames(), ", "))
+	f.Float64Var(&g.p.SpanM, "span", 0, "span between bearings, m")
+	f.IntVar(&g.p.Panels, "panels", 0, "number of panels")
+	f.Float64Var(&g.p.DepthM, "depth", 0, "depth between chord centre lines, m")
+	f.StringVar(&g.p.Deck, "deck", "through", "deck position: through (deck at the bottom chord) or deck (at the top)")
+	f.StringVar(&g.p.EndPosts, "end-posts", "", "pratt and howe: inclined or vertical (default inclined for through, vertical for deck)")
+	for _, name := range []string{"span", "panels", "depth"} {
+		_ = cmd.MarkFlagRequired(name)
+	}
+}
+
+// build lays out the truss, naming the flag at fault when the parameters are bad.
+func (g *geometryFlags) build() (*truss.Truss, error) {
+	t, err := truss.Build(g.p)
+	if err != nil {
+		return nil, fmt.Errorf("truss geometry: %w", err)
+	}
+	return t, nil
+}
+
+// outputFormat validates a --format value against the formats a command offers.
+func outputFormat(got string, allowed ...string) error {
+	for _, a := range allowed {
+		if got == a {
+			return nil
+		}
+	}
+	return fmt.Errorf("--format %q: allowed %s", got, strings.Join(allowed, ", "))
+}
+
+// caution is printed with every result a person reads.
+const caution = "CAUTION: screening only, not a load rating. A licensed engineer's rating under the governing code and the owner's standards decides; check recalled standard values against the edition in force."
+
+func printCaution(w io.Writer) {
+	fmt.Fprintln(w, caution)
+}
