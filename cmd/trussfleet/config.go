@@ -16,6 +16,8 @@ type Config struct {
 	Database DatabaseConfig `mapstructure:"database"`
 	Workers  int            `mapstructure:"workers"`
 	Output   string         `mapstructure:"output"`
+	// Screening settings live in config_screen.go.
+	Screen ScreenConfig `mapstructure:",squash"`
 }
 
 // DatabaseConfig says which PostgreSQL to use.
@@ -39,6 +41,7 @@ func setDefaults(v *viper.Viper) {
 	v.SetDefault("database.data_dir", "")
 	v.SetDefault("workers", runtime.NumCPU())
 	v.SetDefault("output", "trussfleet-out")
+	setScreenDefaults(v)
 }
 
 // loadConfig resolves flags > TRUSSFLEET_* environment > config file > defaults, once.
@@ -81,5 +84,6 @@ func (c Config) validate() error {
 	if c.Workers < 1 {
 		errs = append(errs, fmt.Errorf("configuration key workers: must be at least 1, got %d", c.Workers))
 	}
+	errs = append(errs, c.Screen.validate()...)
 	return errors.Join(errs...)
 }

@@ -1,0 +1,103 @@
+package main
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"github.com/spf13/viper"
+)
+
+// ScreenConfig holds the settings of a screening run. configs/default.yaml documents each.
+type ScreenConfig struct {
+	Scenarios  map[string]ScenarioConfig `mapstructure:"scenarios"`
+	Dynamic    string                    `mapstructure:"dynamic"`
+	Rating     RatingConfig              `mapstructure:"rating"`
+	Thresholds ThresholdConfig           `mapstructure:"thresholds"`
+	ChunkSize  int                       `mapstructure:"chunk_size"`
+}
+
+// ScenarioConfig is one traffic scenario: the envelope over all its trains.
+type ScenarioConfig struct {
+	Trains []string `mapstructure:"trains"`
+}
+
+// RatingConfig selects the rating equation and its factors.
+type RatingConfig struct {
+	Method           string  `mapstructure:"method"`
+	Phi              float64 `mapstructure:"phi"`
+	GammaD           float64 `mapstructure:"gamma_d"`
+	GammaL           float64 `mapstructure:"gamma_l"`
+	GammaDFavourable float64 `mapstructure:"gamma_d_favourable"`
+}
+
+// ThresholdConfig sets when members are flagged.
+type ThresholdConfig struct {
+	Flag          float64 `mapstructure:"flag"`
+	Review        float64 `mapstructure:"review"`
+	WorseFraction float64 `mapstructure:"worse_fraction"`
+}
+
+// The two scenarios every run compares.
+const (
+	scenarioExisting = "existing"
+	scenarioProposed = "proposed"
+)
+
+func setScreenDefaults(v *viper.Viper) {
+	v.SetDefault("scenarios", map[string]any{
+		scenarioExisting: map[string]any{"trains": []string{"northmoor-freight-today"}},
+		scenarioProposed: map[string]any{"trains": []string{"northmoor-freight-heavy", "lm71:alpha=1.0"}},
+	})
+	v.SetDefault("dynamic", "phi3")
+	v.SetDefault("rating.method", "working-stress")
+	v.SetDefault("rating.phi", 0.9)
+	v.SetDefault("rating.gamma_d", 1.25)
+	v.SetDefault("rating.gamma_l", 1.75)
+	v.SetDefault("rating.gamma_d_favourable", 0.9)
+	v.SetDefault("thresholds.flag", 1.0)
+	v.SetDefault("thresholds.review", 1.1)
+	v.SetDefault("thresholds.worse_fraction", 0.10)
+	v.SetDefault("chunk_size", 50)
+}
+
+func (s ScreenConfig) validate() []error {
+	var errs []error
+	bad := func(key, format string, a ...any) {
+		errs = append(errs, fmt.Errorf("configuration key %s: %s", key, fmt.Sprintf(format, a...)))
+	}
+	for _, name := range []string{scenarioExisting, scenarioProposed} {
+		sc, ok := s.Scenarios[name]
+		if !ok || len(sc.Trains) == 0 {
+			bad("scenarios."+name+".trains", "needs at least one train (a stored train name, a train file, or a built-in such as lm71:alpha=1.0)")
+		}
+	}
+	for name := range s.Scenarios {
+		if name != scenarioExisting && name != scenarioProposed {
+			bad("scenarios."+name, "unknown scenario; allowed: %s, %s", scenarioExisting, scenarioProposed)
+		}
+	}
+	switch m := strings.ToLower(s.Rating.Method); m {
+	case "working-stress", "factored":
+	default:
+		bad("rating.method", "%q; allowed: working-stress, factored", s.Rating.Method)
+	}
+	for key, v := range map[string]float64{"rating.phi": s.Rating.Phi, "rating.gamma_d": s.Rating.GammaD, "rating.gamma_l": s.Rating.GammaL, "rating.gamma_d_favourable": s.Rating.GammaDFavourable} {
+		if !(v > 0) || math.IsInf(v, 0) {
+			bad(key, "must be a positive number, got %v", v)
+		}
+	}
+	if !(s.Thresholds.Flag > 0) {
+		bad("thresholds.flag", "must be positive, got %v", s.Thresholds.Flag)
+	}
+	if !(s.Thresholds.Review >= s.Thresholds.Flag) {
+		bad("thresholds.review", "must be at least thresholds.flag (%v), got %v", s.Thresholds.Flag, s.Thresholds.Review)
+	}
+	if !(s.Thresholds.WorseFraction >= 0 && s.Thresholds.WorseFraction < 1) {
+		bad("thresholds.worse_fraction", "must be from 0 to below 1, got %v", s.Thresholds.WorseFraction)
+	}
+	if s.ChunkSize < 1 || s.ChunkSize > 10000 {
+		bad("chunk_size", "must be from 1 to 10000 bridges per job, got %d", s.ChunkSize)
+	}
+	return errs
+}
