@@ -1,0 +1,31 @@
+// Package pgserver runs trussfleet's private PostgreSQL server from the machine's own
+// server binaries, so that nobody has to set up a database to try trussfleet.
+//
+// A Server owns one data directory. Start creates it with initdb on first use, then starts
+// the server with pg_ctl; later runs find it running, or start it again, and reuse its data.
+// The server listens on a Unix socket only (a TCP port on localhost only when asked), and
+// trusts local connections: the socket lives in a directory only the server's own account
+// can enter, so the protection is the file system's.
+//
+// Things that bite, and what this package does about them:
+//
+//   - initdb and postgres refuse to run as root. When the caller is root the server runs as
+//     the system user "postgres" where it exists, else "nobody", and the data directory is
+//     given to that user. Every parent of the data directory must then be searchable by that
+//     user; where one is not (a home directory such as /root is 0700), Start adds search
+//     permission for others (o+x, not read) to that directory and says so through
+//     Options.Logf. Point Options.DataDir elsewhere to avoid it.
+//   - A Unix socket path must fit in about 100 bytes. When the data directory's path is too
+//     long, the socket goes to /tmp/trussfleet-<uid>-<hash of the data directory>, created
+//     0700 for the server's account and checked to be ours before use.
+//   - Two trussfleet processes may start at once: Start holds an exclusive lock on a file
+//     beside the data directory (<data dir>.lock) while it initialises and starts.
+//   - A crash leaves postmaster.pid (and the socket's lock file) behind, and after a restart
+//     their process id may belong to an unrelated process. Start removes such a file when the
+//     process it names is not a postgres serving this data directory.
+//
+// RunChild runs the server in the foreground as a child process instead, killed by the
+// kernel if the parent dies: test harnesses use it so that no server outlives a test binary.
+//
+// The package reads no environment: the caller passes the search path for the binaries.
+package pgserver
