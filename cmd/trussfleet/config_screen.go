@@ -46,8 +46,8 @@ const (
 
 func setScreenDefaults(v *viper.Viper) {
 	v.SetDefault("scenarios", map[string]any{
-		scenarioExisting: map[string]any{"trains": []string{"northmoor-freight-today"}},
-		scenarioProposed: map[string]any{"trains": []string{"northmoor-freight-heavy", "lm71:alpha=1.0"}},
+		scenarioExisting: map[string]any{"trains": []string{"northmoor-freight-today", "eastfell-multiple-unit"}},
+		scenarioProposed: map[string]any{"trains": []string{"northmoor-freight-proposed", "eastfell-multiple-unit"}},
 	})
 	v.SetDefault("dynamic", "phi3")
 	v.SetDefault("rating.method", "working-stress")
