@@ -1,0 +1,69 @@
+package main
+
+import (
+	"os"
+	"path/filepath"
+	"reflect"
+	"strings"
+	"testing"
+
+	"github.com/spf13/pflag"
+)
+
+// TestDefaultYAMLMatchesDefaults: configs/default.yaml documents the defaults; loading it must
+// change nothing.
+func TestDefaultYAMLMatchesDefaults(t *testing.T) {
+	t.Chdir(t.TempDir())
+	fromCode, err := loadConfig("", pflag.NewFlagSet("x", pflag.ContinueOnError))
+	if err != nil {
+		t.Fatal(err)
+	}
+	fromFile, err := loadConfig(filepath.Join(repoRoot(t), "configs", "default.yaml"), pflag.NewFlagSet("x", pflag.ContinueOnError))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !reflect.DeepEqual(fromCode, fromFile) {
+		t.Errorf("defaults differ:\ncode %+v\nfile %+v", fromCode, fromFile)
+	}
+}
+
+func TestPrecedence(t *testing.T) {
+	t.Chdir(t.TempDir())
+	file := filepath.Join(t.TempDir(), "c.yaml")
+	if err := os.WriteFile(file, []byte("workers: 3\nchunk_size: 7\ndatabase:\n  url: postgres://file\n"), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	t.Setenv("TRUSSFLEET_WORKERS", "5")
+	fs := pflag.NewFlagSet("x", pflag.ContinueOnError)
+	fs.String("database-url", "", "")
+	if err := fs.Parse([]string{"--database-url", "postgres://flag"}); err != nil {
+		t.Fatal(err)
+	}
+	cfg, err := loadConfig(file, fs)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// flag > environment > file > default
+	if cfg.Database.URL != "postgres://flag" || cfg.Workers != 5 || cfg.Screen.ChunkSize != 7 || cfg.Screen.Thresholds.Flag != 1 {
+		t.Errorf("got %+v", cfg)
+	}
+}
+
+func TestBadSettingNamesKey(t *testing.T) {
+	t.Chdir(t.TempDir())
+	file := filepath.Join(t.TempDir(), "c.yaml")
+	if err := os.WriteFile(file, []byte("rating:\n  method: guesswork\nthresholds:\n  review: 0.5\n"), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	_, err := loadConfig(file, pflag.NewFlagSet("x", pflag.ContinueOnError))
+	if err == nil || !strings.Contains(err.Error(), "rating.method") || !strings.Contains(err.Error(), "working-stress, factored") || !strings.Contains(err.Error(), "thresholds.review") {
+		t.Errorf("got %v", err)
+	}
+}
+
+// repoRoot is two folders above this package's; t.Chdir moves the working directory, so it is
+// taken from pkgDir, read before any test runs.
+func repoRoot(t *testing.T) string {
+	t.Helper()
+	return filepath.Join(pkgDir, "..", "..")
+}
