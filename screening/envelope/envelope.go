@@ -1,0 +1,302 @@
+package envelope
+
+import (
+	"math"
+	"slices"
+
+	"github.com/trussfleet/trussfleet/screening/traffic"
+)
+
+// Direction is the way a train runs over the bridge.
+type Direction int8
+
+const (
+	// LeftToRight: the train enters at x[0], front first.
+	LeftToRight Direction = iota
+	// RightToLeft: the train enters at x[last], front first.
+	RightToLeft
+)
+
+func (d Direction) String() string {
+	if d == RightToLeft {
+		return "right-to-left"
+	}
+	return "left-to-right"
+}
+
+// MarshalText writes the direction as "left-to-right" or "right-to-left".
+func (d Direction) MarshalText() ([]byte, error) { return []byte(d.String()), nil }
+
+// Placement says where a train stands when it causes an extreme.
+type Placement struct {
+	// Loaded is false when the extreme is zero with no train on the bridge; the other fields
+	// are then zero.
+	Loaded    bool
+	Direction Direction
+	// HeadM is the position of the train's front, in the coordinates of x (it may lie beyond
+	// the bridge when the train is partly on it).
+	HeadM float64
+	// Count is the number of vehicles in the consist's last group, which matters for a
+	// variable consist; 0 for a train without vehicles.
+	Count int
+	// LengthM is the consist's length over buffers, or for a uniform load of variable length
+	// the length of the loaded train (+Inf for one of unlimited length).
+	LengthM float64
+	// LoadedFromM and LoadedToM bound the stretch of the bridge under the train's loads.
+	LoadedFromM, LoadedToM float64
+	// TrailingM is the length of a distributed part cut at the unfavourable length (Cooper's
+	// trailing load), from its start; 0 when it is cut at zero or the train has none.
+	TrailingM float64
+}
+
+// Extreme is one extreme member force (kN, tension positive) and where the train stands.
+type Extreme struct {
+	Value float64
+	// Train names the train that causes it.
+	Train string
+	Placement
+}
+
+// Extremes are a member's largest tension (Max >= 0) and largest compression (Min <= 0).
+type Extremes struct {
+	Max, Min Extreme
+}
+
+// Options scale the train's effect. The zero value applies the full train load and no
+// dynamic allowance.
+type Options struct {
+	// Share is the fraction of the track's load that the truss carries (0.5 for one track
+	// centred between two trusses, common practice); 0 means 1.
+	Share float64
+	// Dynamic is the dynamic allowance; its factor is taken at the span x[last] - x[0] unless
+	// it sets its own determinant length.
+	Dynamic traffic.Dynamic
+}
+
+// Factor is the multiplier Options apply to the static effect of the full train load.
+func (o Options) Factor(spanM float64) float64 {
+	share := o.Share
+	if share == 0 {
+		share = 1
+	}
+	return share * o.Dynamic.Factor(spanM)
+}
+
+// Calculator sweeps trains over influence lines, keeping its scratch space between calls so
+// that a screening run allocates little. A Calculator is not safe for concurrent use; give
+// each goroutine its own. The zero value is ready to use.
+type Calculator struct {
+	m       int
+	streams []stream
+	state   []sweepState
+	maxV    []float64
+	minV    []float64
+	maxAt   []found
+	minAt   []found
+	items   []item
+	events  []event
+	curved  bool
+	runs    []runInfo
+}
+
+type runInfo struct {
+	dir int
+	cnt count
+}
+
+// Envelope computes every member's extremes under the train ld over the lines l, exactly,
+// with values scaled by opt.Factor. It appends to out[:0] (pass the previous result to reuse
+// its storage) and returns it, one entry per line in the order given to NewLines.
+//
+// Axle trains and their distributed parts are swept in both directions: each member's force
+// is linear (quadratic with distributed parts) in the train's position between the positions
+// where an axle or a part's end passes a panel point or a bearing, so the extremes are among
+// those positions and the stationary points between them. One sweep serves all members.
+// A variable consist is swept at every count that shows the bridge a different loading (see
+// Load); a uniform load of variable length is placed over the best feasible interval.
+func (c *Calculator) Envelope(l *Lines, ld *Load, opt Options, out []Extremes) []Extremes {
+	c.reset(l.m)
+	if ld.uniform != nil {
+		out = c.uniform(l, ld, out)
+	} else {
+		out = c.train(l, ld, out)
+	}
+	f := opt.Factor(l.SpanM())
+	for i := range out {
+		for _, e := range []*Extreme{&out[i].Max, &out[i].Min} {
+			e.Value *= f
+			e.Train = ld.name
+		}
+	}
+	return out
+}
+
+func (c *Calculator) reset(m int) {
+	c.m = m
+	c.maxV = resize(c.maxV, m)
+	c.minV = resize(c.minV, m)
+	c.maxAt = slices.Grow(c.maxAt[:0], m)[:m]
+	c.minAt = slices.Grow(c.minAt[:0], m)[:m]
+	for i := range m {
+		c.maxAt[i] = found{run: -1}
+		c.minAt[i] = found{run: -1}
+	}
+	c.runs = c.runs[:0]
+}
+
+func resize(s []float64, n int) []float64 {
+	s = slices.Grow(s[:0], n)[:n]
+	clear(s)
+	return s
+}
+
+func (c *Calculator) train(l *Lines, ld *Load, out []Extremes) []Extremes {
+	counts := ld.counts(l.SpanM())
+	nItems := 0
+	for _, k := range counts {
+		nItems = max(nItems, k.sweep)
+	}
+	c.items = ld.items(nItems, c.items)
+	c.streams = streamsFor(ld)
+	c.curved = len(ld.train.Parts) > 0
+	for len(c.state) < len(c.streams) {
+		c.state = append(c.state, sweepState{})
+	}
+	for si := range c.streams {
+		st := &c.state[si]
+		st.v, st.g, st.c = resize(st.v, c.m), resize(st.g, c.m), resize(st.c, c.m)
+	}
+	refined := ld.hasUnfav || ld.hasCut
+	var prev *grid
+	for d := range 2 {
+		gr := l.dir[d].plain
+		if refined {
+			gr = l.dir[d].refined
+		}
+		if prev == nil || !slices.Equal(prev.x, gr.x) {
+			c.events = events(gr, c.items, c.events)
+		}
+		prev = gr
+		for _, k := range counts {
+			c.runs = append(c.runs, runInfo{dir: d, cnt: k})
+			c.sweep(gr, ld, k.sweep, int16(len(c.runs)-1))
+		}
+	}
+	out = slices.Grow(out[:0], c.m)[:c.m]
+	for i := range c.m {
+		out[i] = Extremes{
+			Max: c.extreme(l, ld, i, c.maxV[i], c.maxAt[i], true),
+			Min: c.extreme(l, ld, i, c.minV[i], c.minAt[i], false),
+		}
+	}
+	return out
+}
+
+// extreme turns a recorded candidate into a result with its placement in the truss's own
+// coordinates.
+func (c *Calculator) extreme(l *Lines, ld *Load, i int, v float64, f found, isMax bool) Extreme {
+	if f.run < 0 || math.Abs(v) < 1e-9 {
+		return Extreme{}
+	}
+	r := c.runs[f.run]
+	refined := ld.hasUnfav || ld.hasCut
+	gr := l.dir[r.dir].plain
+	if refined {
+		gr = l.dir[r.dir].refined
+	}
+	span := l.SpanM()
+	h := f.s + float64(f.side)*1e-9*max(1, span)
+	if r.cnt.report > r.cnt.sweep && h-l.x0 >= ld.r0+float64(r.cnt.sweep-1)*ld.unitLen {
+		h += float64(r.cnt.report-r.cnt.sweep) * ld.unitLen
+	}
+	p := Placement{Loaded: true, Direction: Direction(r.dir), Count: r.cnt.report, LengthM: ld.lengthM(r.cnt.report)}
+	lo, hi := h-p.LengthM, h // loaded stretch, grid coordinates
+	if p.LengthM == 0 {
+		lo, hi = math.Inf(1), math.Inf(-1)
+	}
+	sign := 1.0
+	if !isMax {
+		sign = -1
+	}
+	for _, part := range ld.train.Parts {
+		a, b := h-part.ToM, h-part.FromM
+		switch part.Mode {
+		case traffic.WhereUnfavourable:
+			a, b = signExtent(gr, i, c.m, sign, a, b)
+		case traffic.CutUnfavourable:
+			b = h - part.FromM
+			a = b
+			if c.streams[f.stream].cut && b > l.x0 {
+				k, found := slices.BinarySearch(gr.x, b)
+				if !found {
+					k--
+				}
+				k = min(k, len(gr.x)-1)
+				arg := gr.argMin[k*c.m+i]
+				if !isMax {
+					arg = gr.argMax[k*c.m+i]
+				}
+				a = l.x0
+				if arg >= 0 {
+					a = gr.x[arg]
+				}
+				p.TrailingM = b - a
+			}
+		}
+		if a < b {
+			lo, hi = min(lo, a), max(hi, b)
+		}
+	}
+	p.LoadedFromM, p.LoadedToM = max(lo, l.x0), min(hi, l.xl)
+	p.HeadM = h
+	if r.dir == 1 {
+		p.HeadM = l.x0 + l.xl - h
+		p.LoadedFromM, p.LoadedToM = l.x0+l.xl-p.LoadedToM, l.x0+l.xl-p.LoadedFromM
+	}
+	return Extreme{Value: v, Placement: p}
+}
+
+// signExtent bounds the stretches of [a, b] where member i's line has the given sign.
+func signExtent(gr *grid, i, m int, sign, a, b float64) (lo, hi float64) {
+	lo, hi = math.Inf(1), math.Inf(-1)
+	for k := 0; k+1 < len(gr.x); k++ {
+		e0, e1 := sign*gr.eta[k*m+i], sign*gr.eta[(k+1)*m+i]
+		if e0 < 0 || e1 < 0 || e0+e1 == 0 {
+			continue
+		}
+		sa, sb := max(a, gr.x[k]), min(b, gr.x[k+1])
+		if sa < sb {
+			lo, hi = min(lo, sa), max(hi, sb)
+		}
+	}
+	return lo, hi
+}
+
+// Merge keeps, member by member, the larger tension and the larger compression of dst and
+// src in dst: the envelope over several trains, each extreme naming the train that governs.
+func Merge(dst, src []Extremes) {
+	for i := range dst {
+		if src[i].Max.Value > dst[i].Max.Value {
+			dst[i].Max = src[i].Max
+		}
+		if src[i].Min.Value < dst[i].Min.Value {
+			dst[i].Min = src[i].Min
+		}
+	}
+}
+
+// Compute is the one-call form: the extremes of every member whose influence line has
+// ordinates[i] at the panel points x, under train t. For many trusses or trains, prepare the
+// Lines and the Load once and reuse a Calculator.
+func Compute(x []float64, ordinates [][]float64, t *traffic.Train, opt Options) ([]Extremes, error) {
+	l, err := NewLines(x, ordinates)
+	if err != nil {
+		return nil, err
+	}
+	ld, err := Prepare(t)
+	if err != nil {
+		return nil, err
+	}
+	var c Calculator
+	return c.Envelope(l, ld, opt, nil), nil
+}

@@ -1,0 +1,244 @@
+package envelope
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"slices"
+)
+
+// Lines are the influence lines of one truss's members, prepared for moving loads in both
+// directions. Build them once per truss with NewLines and sweep any number of trains over
+// them; they are read-only afterwards and safe for concurrent use.
+type Lines struct {
+	x0, xl float64
+	m      int
+	// ord[i] are member i's ordinates at x.
+	x   []float64
+	ord [][]float64
+	// dir[0] is the truss as given (trains running left to right); dir[1] its mirror image,
+	// on which a train running right to left is swept as if it ran left to right.
+	dir [2]direction
+}
+
+type direction struct {
+	plain   *grid // the panel points: enough for axles and whole distributed parts
+	refined *grid // panel points and every member's zero crossings, for parts applied by sign
+}
+
+// grid holds, for every vertex j and member i (index j*m+i), how the influence line changes
+// as a point moves rightwards across the vertex: its jump in value (non-zero only at the
+// ends, where the line drops to zero outside the span) and its change of slope. For the
+// refined grid, the same for the line's positive part (eta⁺ = max(eta, 0)) and negative part,
+// and the running extremes of the line's integral that a load cut at the unfavourable length
+// needs.
+type grid struct {
+	x           []float64
+	eta         []float64 // ordinates at x
+	jump, slope []float64
+	endJumps    bool // some line is non-zero at a bearing
+	// refined grid only
+	jumpPos, slopePos, jumpNeg, slopeNeg []float64
+	area                                 []float64 // integral E(x_j) of the line from x0
+	dropMin, dropMax                     []float64 // fall of min(0, min E(x_k≤j)) at j, rise of the max
+	argMin, argMax                       []int32   // k attaining that min (max); -1 for 0 (beyond the left bearing)
+	areaNet, areaPos, areaNeg            []float64 // per member
+}
+
+// NewLines prepares the influence lines of a truss: x are the deck panel points (m,
+// strictly ascending, at least two), ordinates[i][j] member i's force (tension positive) per
+// unit downward load at x[j]. Each line is linear between the given points and zero outside
+// [x[0], x[last]]. The inputs are copied, not kept.
+func NewLines(x []float64, ordinates [][]float64) (*Lines, error) {
+	n := len(x)
+	if n < 2 {
+		return nil, fmt.Errorf("influence lines: need at least two panel points, got %d", n)
+	}
+	for j := 1; j < n; j++ {
+		if !(x[j] > x[j-1]) || math.IsInf(x[j], 0) || math.IsNaN(x[j-1]) {
+			return nil, fmt.Errorf("influence lines: panel points must ascend strictly, x[%d] = %v after %v", j, x[j], x[j-1])
+		}
+	}
+	if len(ordinates) == 0 {
+		return nil, errors.New("influence lines: no members")
+	}
+	for i, o := range ordinates {
+		if len(o) != n {
+			return nil, fmt.Errorf("influence lines: member %d has %d ordinates for %d panel points", i, len(o), n)
+		}
+		for j, v := range o {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return nil, fmt.Errorf("influence lines: member %d ordinate %d is %v", i, j, v)
+			}
+		}
+	}
+	l := &Lines{x0: x[0], xl: x[n-1], m: len(ordinates), x: slices.Clone(x)}
+	for _, o := range ordinates {
+		l.ord = append(l.ord, slices.Clone(o))
+	}
+	mx := make([]float64, n)
+	mord := make([][]float64, l.m)
+	for j := range x {
+		mx[j] = l.x0 + l.xl - x[n-1-j]
+	}
+	for i, o := range l.ord {
+		mo := make([]float64, n)
+		for j := range o {
+			mo[j] = o[n-1-j]
+		}
+		mord[i] = mo
+	}
+	for d, in := range [2]struct {
+		x   []float64
+		ord [][]float64
+	}{{l.x, l.ord}, {mx, mord}} {
+		l.dir[d].plain = newGrid(in.x, in.ord, false)
+		rx := refine(in.x, in.ord)
+		rord := make([][]float64, l.m)
+		for i, o := range in.ord {
+			rord[i] = make([]float64, len(rx))
+			for j, xv := range rx {
+				rord[i][j] = interpolate(in.x, o, xv)
+			}
+		}
+		l.dir[d].refined = newGrid(rx, rord, true)
+	}
+	return l, nil
+}
+
+// Members is the number of influence lines.
+func (l *Lines) Members() int { return l.m }
+
+// SpanM is the length over which the lines are non-zero, x[last] - x[0].
+func (l *Lines) SpanM() float64 { return l.xl - l.x0 }
+
+// refine adds every member's zero crossings to the panel points, so that each line's positive
+// and negative parts are linear between the refined points too.
+func refine(x []float64, ord [][]float64) []float64 {
+	out := slices.Clone(x)
+	tiny := 1e-12 * (x[len(x)-1] - x[0])
+	for _, o := range ord {
+		for k := 0; k+1 < len(x); k++ {
+			a, b := o[k], o[k+1]
+			if a*b < 0 {
+				xc := x[k] + (x[k+1]-x[k])*a/(a-b)
+				if xc-x[k] > tiny && x[k+1]-xc > tiny {
+					out = append(out, xc)
+				}
+			}
+		}
+	}
+	slices.Sort(out)
+	return slices.CompactFunc(out, func(a, b float64) bool { return math.Abs(b-a) <= tiny })
+}
+
+func interpolate(xs, ys []float64, x float64) float64 {
+	n := len(xs)
+	if x < xs[0] || x > xs[n-1] {
+		return 0
+	}
+	k, found := slices.BinarySearch(xs, x)
+	if found {
+		return ys[k]
+	}
+	return ys[k-1] + (ys[k]-ys[k-1])*(x-xs[k-1])/(xs[k]-xs[k-1])
+}
+
+func newGrid(x []float64, ord [][]float64, refined bool) *grid {
+	n, m := len(x), len(ord)
+	g := &grid{x: x, eta: make([]float64, n*m)}
+	for i, o := range ord {
+		for j, v := range o {
+			g.eta[j*m+i] = v
+		}
+	}
+	g.jump, g.slope = changes(x, ord, func(v float64) float64 { return v })
+	g.endJumps = slices.ContainsFunc(g.jump, func(v float64) bool { return v != 0 })
+	g.areaNet = make([]float64, m)
+	g.areaPos = make([]float64, m)
+	g.areaNeg = make([]float64, m)
+	for i, o := range ord {
+		g.areaPos[i], g.areaNeg[i] = Areas(x, o)
+		g.areaNet[i] = g.areaPos[i] + g.areaNeg[i]
+	}
+	if !refined {
+		return g
+	}
+	// On the refined grid every zero crossing is a vertex, so the clipped lines are exact.
+	g.jumpPos, g.slopePos = changes(x, ord, func(v float64) float64 { return max(v, 0) })
+	g.jumpNeg, g.slopeNeg = changes(x, ord, func(v float64) float64 { return min(v, 0) })
+	g.area = make([]float64, n*m)
+	g.dropMin, g.dropMax = make([]float64, n*m), make([]float64, n*m)
+	g.argMin, g.argMax = make([]int32, n*m), make([]int32, n*m)
+	for i, o := range ord {
+		e, lo, hi := 0.0, 0.0, 0.0
+		argLo, argHi := int32(-1), int32(-1)
+		for j := range x {
+			if j > 0 {
+				e += (o[j-1] + o[j]) / 2 * (x[j] - x[j-1])
+			}
+			g.area[j*m+i] = e
+			if e < lo {
+				g.dropMin[j*m+i] = lo - e
+				lo, argLo = e, int32(j)
+			}
+			if e > hi {
+				g.dropMax[j*m+i] = hi - e
+				hi, argHi = e, int32(j)
+			}
+			g.argMin[j*m+i], g.argMax[j*m+i] = argLo, argHi
+		}
+	}
+	return g
+}
+
+// changes gives, at each vertex, the jump in value and the change in slope of f(eta) as a
+// point crosses the vertex rightwards, the line being zero outside [x0, xl].
+func changes(x []float64, ord [][]float64, f func(float64) float64) (jump, slope []float64) {
+	n, m := len(x), len(ord)
+	jump, slope = make([]float64, n*m), make([]float64, n*m)
+	for i, o := range ord {
+		left := 0.0
+		for j := range x {
+			right := 0.0
+			if j+1 < n {
+				right = (f(o[j+1]) - f(o[j])) / (x[j+1] - x[j])
+			}
+			slope[j*m+i] = right - left
+			left = right
+		}
+		jump[i] = f(o[0])
+		jump[(n-1)*m+i] = -f(o[n-1])
+	}
+	return jump, slope
+}
+
+// Areas gives the positive and negative areas (m per unit load; neg <= 0) of a
+// piecewise-linear influence line with ordinates eta at the ascending points x.
+func Areas(x, eta []float64) (pos, neg float64) {
+	for k := 1; k < len(x); k++ {
+		a, b, dx := eta[k-1], eta[k], x[k]-x[k-1]
+		if a*b >= 0 {
+			if a+b > 0 {
+				pos += (a + b) / 2 * dx
+			} else {
+				neg += (a + b) / 2 * dx
+			}
+			continue
+		}
+		z := dx * a / (a - b) // distance to the zero crossing
+		if a > 0 {
+			pos, neg = pos+a*z/2, neg+b*(dx-z)/2
+		} else {
+			neg, pos = neg+a*z/2, pos+b*(dx-z)/2
+		}
+	}
+	return pos, neg
+}
+
+// DeadLoad is the member force (kN) from a uniform dead load of qKNPerM over the whole span:
+// q times the net area of the influence line.
+func DeadLoad(x, eta []float64, qKNPerM float64) float64 {
+	pos, neg := Areas(x, eta)
+	return qKNPerM * (pos + neg)
+}

@@ -1,0 +1,373 @@
+package envelope
+
+import (
+	"cmp"
+	"math"
+	"slices"
+
+	"github.com/trussfleet/trussfleet/screening/traffic"
+)
+
+// event: item it of the train reaches vertex j of the grid when the front stands at s.
+type event struct {
+	s  float64
+	it int32
+	j  int32
+}
+
+// stream is one of the functions of the train position that a sweep follows. A train of
+// axles and whole parts has one, giving both extremes. A part applied where unfavourable
+// differs by sense, so each sense gets its own; a part cut at the unfavourable length is
+// either absent or present with its rear end at the best vertex, one stream each.
+type stream struct {
+	max, min bool
+	cut      bool
+	curved   bool
+}
+
+// found is a candidate extreme: the front at s (grid coordinates), on the side of s (-1:
+// just before, +1: just after, 0: at s) where a jump of the influence line at a bearing
+// makes the extreme a limit, in sweep run of the given stream.
+type found struct {
+	s      float64
+	side   int8
+	stream int8
+	run    int16
+}
+
+// sweepState is the per-member state of one stream: value, slope and curvature in s.
+type sweepState struct {
+	v, g, c []float64
+}
+
+func streamsFor(ld *Load) []stream {
+	curved := len(ld.train.Parts) > 0
+	switch {
+	case !ld.hasUnfav && !ld.hasCut:
+		return []stream{{max: true, min: true, curved: curved}}
+	case !ld.hasUnfav:
+		return []stream{{max: true, min: true, curved: curved}, {max: true, cut: true, curved: true}, {min: true, cut: true, curved: true}}
+	case !ld.hasCut:
+		return []stream{{max: true, curved: true}, {min: true, curved: true}}
+	}
+	return []stream{{max: true, curved: true}, {max: true, cut: true, curved: true}, {min: true, curved: true}, {min: true, cut: true, curved: true}}
+}
+
+// events lists, in order of the front's position, every position where an item of the train
+// reaches a vertex of the grid: between two of them every stream is linear or quadratic.
+func events(gr *grid, items []item, dst []event) []event {
+	dst = dst[:0]
+	for k, it := range items {
+		for j, x := range gr.x {
+			dst = append(dst, event{s: x + it.d, it: int32(k), j: int32(j)})
+		}
+	}
+	slices.SortFunc(dst, func(a, b event) int { return cmp.Compare(a.s, b.s) })
+	return dst
+}
+
+// sweep moves the train with n vehicles in its last group across the grid, front first from
+// the left, and records each member's extremes in c.best. Items of vehicles beyond n are
+// skipped, so one event list serves every count.
+func (c *Calculator) sweep(gr *grid, ld *Load, n int, run int16) {
+	m := c.m
+	nx := len(gr.x)
+	streams := c.streams
+	for si := range streams {
+		st := &c.state[si]
+		clear(st.g)
+		clear(st.c)
+		for i := range m {
+			v := 0.0
+			for _, a := range ld.ahead {
+				switch {
+				case a.mode != traffic.WhereUnfavourable:
+					v += a.q * gr.areaNet[i]
+				case streams[si].max:
+					v += a.q * gr.areaPos[i]
+				default:
+					v += a.q * gr.areaNeg[i]
+				}
+			}
+			st.v[i] = v
+		}
+	}
+	items := c.items
+	ev := c.events
+	// Before the first event nothing has reached the bridge (parts reaching ahead cover it).
+	sPrev := math.Inf(-1)
+	if len(ev) > 0 {
+		sPrev = ev[0].s - 1
+	}
+	for si := range streams {
+		c.offer(si, sPrev, 0, run)
+	}
+	if !c.curved && len(streams) == 1 {
+		c.sweepLinear(gr, n, run, sPrev)
+		return
+	}
+	endJump := gr.endJumps
+	for g0 := 0; g0 < len(ev); {
+		s := ev[g0].s
+		g1, active := g0, false
+		for ; g1 < len(ev) && ev[g1].s == s; g1++ {
+			if items[ev[g1].it].unit <= int32(n) {
+				active = true
+			}
+		}
+		if !active {
+			g0 = g1
+			continue
+		}
+		dt := s - sPrev
+		for si, sm := range streams {
+			st := &c.state[si]
+			if sm.curved {
+				c.advanceCurved(si, dt, sPrev, run)
+			} else {
+				for i := range m {
+					st.v[i] += st.g[i] * dt
+				}
+			}
+		}
+		enter, exit := false, false
+		if endJump {
+			for _, e := range ev[g0:g1] {
+				if it := items[e.it]; it.kind == axle && it.unit <= int32(n) {
+					enter = enter || e.j == 0
+					exit = exit || int(e.j) == nx-1
+				}
+			}
+		}
+		if enter {
+			for si := range streams {
+				c.offer(si, s, -1, run)
+			}
+		}
+		// Value jumps at the point itself: an axle arriving on the bridge, and a cut part's
+		// best rear end moving to the vertex just reached.
+		cutJump := false
+		for _, e := range ev[g0:g1] {
+			it := items[e.it]
+			if it.unit > int32(n) {
+				continue
+			}
+			base := int(e.j) * m
+			switch {
+			case it.kind == axle && e.j == 0 && endJump:
+				for si := range streams {
+					addScaled(c.state[si].v, gr.jump[base:base+m], it.w)
+				}
+			case it.kind == cutFront:
+				cutJump = true
+				for si, sm := range streams {
+					if !sm.cut {
+						continue
+					}
+					drop := gr.dropMin
+					if !sm.max {
+						drop = gr.dropMax
+					}
+					addScaled(c.state[si].v, drop[base:base+m], it.w)
+				}
+			}
+		}
+		point := pointSide(enter || cutJump, exit)
+		for si := range streams {
+			c.offer(si, s, point, run)
+		}
+		if exit {
+			for _, e := range ev[g0:g1] {
+				if it := items[e.it]; it.kind == axle && int(e.j) == nx-1 && it.unit <= int32(n) {
+					base := int(e.j) * m
+					for si := range streams {
+						addScaled(c.state[si].v, gr.jump[base:base+m], it.w)
+					}
+				}
+			}
+			for si := range streams {
+				c.offer(si, s, 1, run)
+			}
+		}
+		for _, e := range ev[g0:g1] {
+			it := items[e.it]
+			if it.unit > int32(n) {
+				continue
+			}
+			base := int(e.j) * m
+			for si, sm := range streams {
+				st := &c.state[si]
+				switch it.kind {
+				case axle:
+					addScaled(st.g, gr.slope[base:base+m], it.w)
+				case wholeEnd:
+					addScaled(st.g, gr.jump[base:base+m], it.w)
+					addScaled(st.c, gr.slope[base:base+m], it.w)
+				case unfavEnd:
+					jump, slope := gr.jumpPos, gr.slopePos
+					if !sm.max {
+						jump, slope = gr.jumpNeg, gr.slopeNeg
+					}
+					addScaled(st.g, jump[base:base+m], it.w)
+					addScaled(st.c, slope[base:base+m], it.w)
+				case cutFront:
+					if sm.cut {
+						addScaled(st.g, gr.jump[base:base+m], it.w)
+						addScaled(st.c, gr.slope[base:base+m], it.w)
+					}
+				}
+			}
+		}
+		sPrev = s
+		g0 = g1
+	}
+}
+
+// sweepLinear is sweep for the common case of axles only: one stream, straight between
+// events, no jumps except at bearings with non-zero ordinates.
+func (c *Calculator) sweepLinear(gr *grid, n int, run int16, sPrev float64) {
+	m := c.m
+	nx := len(gr.x)
+	st := &c.state[0]
+	v, g := st.v, st.g
+	bmax, bmin := c.maxV, c.minV
+	items, ev := c.items, c.events
+	endJump := gr.endJumps
+	for g0 := 0; g0 < len(ev); {
+		s := ev[g0].s
+		g1, active, jumps := g0, false, false
+		for ; g1 < len(ev) && ev[g1].s == s; g1++ {
+			e := ev[g1]
+			if items[e.it].unit <= int32(n) {
+				active = true
+				jumps = jumps || (endJump && (e.j == 0 || int(e.j) == nx-1))
+			}
+		}
+		if !active {
+			g0 = g1
+			continue
+		}
+		dt := s - sPrev
+		if jumps {
+			for i := range m {
+				v[i] += g[i] * dt
+			}
+			c.sweepJumps(gr, ev[g0:g1], n, s, run)
+		} else {
+			for i := range m {
+				vi := v[i] + g[i]*dt
+				v[i] = vi
+				if vi > bmax[i] {
+					bmax[i] = vi
+					c.maxAt[i] = found{s: s, run: run}
+				} else if vi < bmin[i] {
+					bmin[i] = vi
+					c.minAt[i] = found{s: s, run: run}
+				}
+			}
+		}
+		for _, e := range ev[g0:g1] {
+			it := items[e.it]
+			if it.unit > int32(n) {
+				continue
+			}
+			base := int(e.j) * m
+			addScaled(g, gr.slope[base:base+m], it.w)
+		}
+		sPrev = s
+		g0 = g1
+	}
+}
+
+// sweepJumps handles a group of events at s that includes an axle reaching a bearing where
+// some line has a non-zero ordinate: the left limit, the value at s (axle on the bridge) and
+// the right limit all count.
+func (c *Calculator) sweepJumps(gr *grid, group []event, n int, s float64, run int16) {
+	m, nx := c.m, len(gr.x)
+	v := c.state[0].v
+	c.offer(0, s, -1, run)
+	for _, e := range group {
+		if it := c.items[e.it]; it.unit <= int32(n) && e.j == 0 {
+			addScaled(v, gr.jump[:m], it.w)
+		}
+	}
+	enter, exit := false, false
+	for _, e := range group {
+		if c.items[e.it].unit <= int32(n) {
+			enter = enter || e.j == 0
+			exit = exit || int(e.j) == nx-1
+		}
+	}
+	c.offer(0, s, pointSide(enter, exit), run)
+	for _, e := range group {
+		if it := c.items[e.it]; it.unit <= int32(n) && int(e.j) == nx-1 {
+			base := int(e.j) * m
+			addScaled(v, gr.jump[base:base+m], it.w)
+		}
+	}
+	c.offer(0, s, 1, run)
+}
+
+// advanceCurved moves stream si on by dt, offering any interior stationary point.
+func (c *Calculator) advanceCurved(si int, dt, sPrev float64, run int16) {
+	st := &c.state[si]
+	sm := c.streams[si]
+	for i := range c.m {
+		v, g, cc := st.v[i], st.g[i], st.c[i]
+		if cc != 0 {
+			gEnd := g + cc*dt
+			if (cc < 0 && sm.max && g > 0 && gEnd < 0) || (cc > 0 && sm.min && g < 0 && gEnd > 0) {
+				t := -g / cc
+				val := v + g*t/2 // v + g t + cc t²/2 with t = -g/cc
+				if cc < 0 && val > c.maxV[i] {
+					c.maxV[i] = val
+					c.maxAt[i] = found{s: sPrev + t, stream: int8(si), run: run}
+				}
+				if cc > 0 && val < c.minV[i] {
+					c.minV[i] = val
+					c.minAt[i] = found{s: sPrev + t, stream: int8(si), run: run}
+				}
+			}
+		}
+		st.v[i] = v + g*dt + cc*dt*dt/2
+		st.g[i] = g + cc*dt
+	}
+}
+
+// offer records stream si's current values where they beat the extremes so far.
+func (c *Calculator) offer(si int, s float64, side int8, run int16) {
+	sm := c.streams[si]
+	v := c.state[si].v
+	for i := range c.m {
+		if sm.max && v[i] > c.maxV[i] {
+			c.maxV[i] = v[i]
+			c.maxAt[i] = found{s: s, side: side, stream: int8(si), run: run}
+		}
+		if sm.min && v[i] < c.minV[i] {
+			c.minV[i] = v[i]
+			c.minAt[i] = found{s: s, side: side, stream: int8(si), run: run}
+		}
+	}
+}
+
+func addScaled(dst, src []float64, w float64) {
+	src = src[:len(dst)]
+	for i := range dst {
+		dst[i] += w * src[i]
+	}
+}
+
+// pointSide is where to report a value taken at a position where the line jumps at a
+// bearing. A value that includes an axle just arrived (and none just leaving) holds on the
+// right of the position too, one that includes an axle about to leave holds on the left;
+// reporting the placement there, a hair's breadth off the jump, makes it reproducible in
+// floating point. Only arrivals and departures at the same position keep the exact point.
+func pointSide(arrive, leave bool) int8 {
+	switch {
+	case arrive && !leave:
+		return 1
+	case leave && !arrive:
+		return -1
+	}
+	return 0
+}
