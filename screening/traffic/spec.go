@@ -5,59 +5,62 @@ import (
 	"fmt"
 	"io/fs"
 	"os"
-	"path/filepath"
+	"path"
 	"slices"
 	"strings"
 )
 
 // ParseSpec resolves a train named on the command line: a built-in model with parameters
-// ("lm71:alpha=1.33", "sw2", "cooper:e=80", "uniform:q=20,min=12,max=48"), or a train file,
-// given as a path or as a file name (with or without .yaml) in dir. dir may be empty. An
-// unknown name is an error that lists the built-in models and the trains in dir.
-func ParseSpec(spec, dir string) (*Train, error) {
+// ("lm71:alpha=1.33", "sw2", "cooper:e=80", "uniform:q=20,min=12,max=48"), a train file path,
+// or the name of a file (with or without .yaml) in trains, a folder of train files such as
+// the embedded example trains or os.DirFS(dir); trains may be nil. An unknown name is an
+// error that lists the built-in models and the files in trains.
+func ParseSpec(spec string, trains fs.FS) (*Train, error) {
 	spec = strings.TrimSpace(spec)
 	if t, ok, err := Builtin(spec); ok {
 		return t, err
 	}
-	for _, path := range candidates(spec, dir) {
-		data, err := os.ReadFile(path)
-		if errors.Is(err, fs.ErrNotExist) {
-			continue
-		}
-		if err != nil {
-			return nil, fmt.Errorf("train %q: %w", spec, err)
-		}
-		return ParseTrainFile(path, data)
+	data, err := os.ReadFile(spec)
+	if err == nil {
+		return ParseTrainFile(spec, data)
 	}
-	msg := fmt.Sprintf("train %q: no built-in model or train file of that name; built-in: %s", spec, strings.Join(BuiltinNames(), "; "))
-	if files := trainFiles(dir); len(files) > 0 {
-		msg += fmt.Sprintf("; files in %s: %s", dir, strings.Join(files, ", "))
+	if !errors.Is(err, fs.ErrNotExist) {
+		return nil, fmt.Errorf("train %q: %w", spec, err)
+	}
+	if trains != nil && fs.ValidPath(spec) {
+		names := []string{spec}
+		if path.Ext(spec) == "" {
+			names = append(names, spec+".yaml", spec+".yml")
+		}
+		for _, name := range names {
+			data, err := fs.ReadFile(trains, name)
+			if errors.Is(err, fs.ErrNotExist) {
+				continue
+			}
+			if err != nil {
+				return nil, fmt.Errorf("train %q: %w", spec, err)
+			}
+			return ParseTrainFile(name, data)
+		}
+	}
+	msg := fmt.Sprintf("train %q: no built-in model, train file or named train of that name; built-in: %s", spec, strings.Join(BuiltinNames(), "; "))
+	if files := trainFiles(trains); len(files) > 0 {
+		msg += "; named trains: " + strings.Join(files, ", ")
 	}
 	return nil, errors.New(msg)
 }
 
-func candidates(spec, dir string) []string {
-	out := []string{spec}
-	if dir != "" && !filepath.IsAbs(spec) {
-		out = append(out, filepath.Join(dir, spec))
-		if filepath.Ext(spec) == "" {
-			out = append(out, filepath.Join(dir, spec+".yaml"), filepath.Join(dir, spec+".yml"))
-		}
-	}
-	return out
-}
-
-func trainFiles(dir string) []string {
-	if dir == "" {
+func trainFiles(trains fs.FS) []string {
+	if trains == nil {
 		return nil
 	}
-	entries, err := os.ReadDir(dir)
+	entries, err := fs.ReadDir(trains, ".")
 	if err != nil {
 		return nil
 	}
 	var out []string
 	for _, e := range entries {
-		if ext := filepath.Ext(e.Name()); !e.IsDir() && (ext == ".yaml" || ext == ".yml") {
+		if ext := path.Ext(e.Name()); !e.IsDir() && (ext == ".yaml" || ext == ".yml") {
 			out = append(out, strings.TrimSuffix(e.Name(), ext))
 		}
 	}

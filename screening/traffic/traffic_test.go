@@ -129,14 +129,14 @@ func TestBuiltinErrors(t *testing.T) {
 			}
 		})
 	}
-	_, err := ParseSpec("lm72", "")
+	_, err := ParseSpec("lm72", nil)
 	if err == nil || !strings.Contains(err.Error(), "lm71:alpha=1") || !strings.Contains(err.Error(), "uniform:q=?") {
 		t.Fatalf("unknown name: %v", err)
 	}
 }
 
 func TestParseSpecUniform(t *testing.T) {
-	tr, err := ParseSpec("uniform:q=20,min=12,max=48", "")
+	tr, err := ParseSpec("uniform:q=20,min=12,max=48", nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -162,7 +162,7 @@ func TestExampleTrains(t *testing.T) {
 	}
 	for _, c := range cases {
 		t.Run(c.spec, func(t *testing.T) {
-			tr, err := ParseSpec(c.spec, dir)
+			tr, err := ParseSpec(c.spec, os.DirFS(dir))
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -185,7 +185,7 @@ func TestExampleTrains(t *testing.T) {
 			}
 		})
 	}
-	mu, _ := ParseSpec("eastfell-multiple-unit", dir)
+	mu, _ := ParseSpec("eastfell-multiple-unit", os.DirFS(dir))
 	// 75 ft = 22.86 m; axles at 7 ft = 2.1336 m (1 ft = 0.3048 m)
 	if v := mu.Consist[0].Vehicle; !near(v.LengthM, 22.86, tol) || !near(v.Axles[0].AtM, 2.1336, tol) {
 		t.Errorf("imperial conversion: length %v m, first axle %v m", v.LengthM, v.Axles[0].AtM)
@@ -193,7 +193,7 @@ func TestExampleTrains(t *testing.T) {
 	if got := mu.LengthM(9); !near(got, 9*22.86, tol) {
 		t.Errorf("9 cars %v m", got)
 	}
-	_, err := ParseSpec("nonesuch", dir)
+	_, err := ParseSpec("nonesuch", os.DirFS(dir))
 	if err == nil || !strings.Contains(err.Error(), "northmoor-freight-today") {
 		t.Errorf("unknown train should list the files: %v", err)
 	}

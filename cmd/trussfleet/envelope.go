@@ -1,0 +1,221 @@
+package main
+
+import (
+	"encoding/csv"
+	"encoding/json"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+	"strings"
+	"text/tabwriter"
+
+	"github.com/spf13/cobra"
+	"github.com/trussfleet/trussfleet/configs"
+	"github.com/trussfleet/trussfleet/screening/analysis"
+	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/traffic"
+)
+
+func init() { commands = append(commands, newEnvelopeCmd) }
+
+func newEnvelopeCmd(a *app) *cobra.Command {
+	var g geometryFlags
+	var specs []string
+	var share float64
+	var dynamic, format string
+	cmd := &cobra.Command{
+		Use:   "envelope",
+		Short: "Print every member's largest tension and compression under one or more trains",
+		Example: "  trussfleet envelope --type pratt --span 60 --panels 12 --depth 7.5 --train lm71:alpha=1.33\n" +
+			"  trussfleet envelope --type pratt --span 60 --panels 12 --depth 7.5 --train northmoor-freight-proposed --train uniform:q=80,min=12,max=48 --dynamic phi3 --format json",
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, _ []string) error {
+			if err := outputFormat(format, "table", "csv", "json"); err != nil {
+				return err
+			}
+			if len(specs) == 0 {
+				return fmt.Errorf("--train: give at least one train; built-in: %s; named trains are train files in configs/trains", strings.Join(traffic.BuiltinNames(), "; "))
+			}
+			if !(share > 0) || share > 1 {
+				return fmt.Errorf("--share: must lie in (0, 1], got %v", share)
+			}
+			dyn, err := traffic.ParseDynamic(dynamic)
+			if err != nil {
+				return fmt.Errorf("--dynamic: %w", err)
+			}
+			t, err := g.build()
+			if err != nil {
+				return err
+			}
+			il, err := analysis.InfluenceLines(t, analysis.Options{})
+			if err != nil {
+				return err
+			}
+			ord := make([][]float64, len(il.Members))
+			for i, m := range il.Members {
+				ord[i] = m.Ordinates
+			}
+			lines, err := envelope.NewLines(il.X, ord)
+			if err != nil {
+				return err
+			}
+			opt := envelope.Options{Share: share, Dynamic: dyn}
+			var calc envelope.Calculator
+			var all, one []envelope.Extremes
+			var names []string
+			for _, spec := range specs {
+				tr, err := traffic.ParseSpec(spec, configs.Trains())
+				if err != nil {
+					return fmt.Errorf("--train: %w", err)
+				}
+				ld, err := envelope.Prepare(tr)
+				if err != nil {
+					return fmt.Errorf("--train %s: %w", spec, err)
+				}
+				names = append(names, tr.Name)
+				one = calc.Envelope(lines, ld, opt, one)
+				if all == nil {
+					all = append([]envelope.Extremes(nil), one...)
+				} else {
+					envelope.Merge(all, one)
+				}
+			}
+			doc := envelopeDoc{
+				Caution: caution, Trains: names, Share: share, Dynamic: dyn.String(),
+				DynamicFactor: dyn.Factor(lines.SpanM()),
+			}
+			for i, m := range il.Members {
+				doc.Members = append(doc.Members, memberEnvelope{Label: m.Label, Kind: string(m.Kind), Max: extremeDoc(all[i].Max), Min: extremeDoc(all[i].Min)})
+			}
+			w := cmd.OutOrStdout()
+			switch format {
+			case "json":
+				enc := json.NewEncoder(w)
+				enc.SetIndent("", "  ")
+				return enc.Encode(doc)
+			case "csv":
+				return envelopeCSV(w, doc)
+			}
+			return envelopeTable(w, t.Params.Type, lines.SpanM(), doc)
+		},
+	}
+	g.add(cmd)
+	f := cmd.Flags()
+	f.StringArrayVar(&specs, "train", nil, "train: a built-in model (lm71:alpha=1, sw0, sw2, unloaded, cooper:e=80, cooper-alt:e=80, uniform:q=Q,min=M,max=M), a train file, or a named train; repeat for several")
+	f.Float64Var(&share, "share", 0.5, "share of the track load carried by one truss (0.5: one track centred between two trusses)")
+	f.StringVar(&dynamic, "dynamic", "none", "dynamic allowance: none, fixed:0.2, phi2, phi3, arema (optionally :l=M determinant length, arema :s=M truss spacing)")
+	f.StringVar(&format, "format", "table", "output: table, csv or json")
+	return cmd
+}
+
+type envelopeDoc struct {
+	Caution       string           `json:"caution"`
+	Trains        []string         `json:"trains"`
+	Share         float64          `json:"share"`
+	Dynamic       string           `json:"dynamic"`
+	DynamicFactor float64          `json:"dynamic_factor"`
+	Members       []memberEnvelope `json:"members"`
+}
+
+type memberEnvelope struct {
+	Label string      `json:"label"`
+	Kind  string      `json:"kind"`
+	Max   extremeJSON `json:"max"`
+	Min   extremeJSON `json:"min"`
+}
+
+// extremeJSON is one extreme; the placement fields are absent when no train is on the bridge.
+type extremeJSON struct {
+	Value       float64  `json:"value"`
+	Train       string   `json:"train,omitempty"`
+	HeadM       *float64 `json:"head_m,omitempty"`
+	Direction   string   `json:"direction,omitempty"`
+	Count       int      `json:"count,omitempty"`
+	LengthM     *float64 `json:"length_m,omitempty"`
+	LoadedFromM *float64 `json:"loaded_from_m,omitempty"`
+	LoadedToM   *float64 `json:"loaded_to_m,omitempty"`
+	TrailingM   *float64 `json:"trailing_m,omitempty"`
+}
+
+func extremeDoc(e envelope.Extreme) extremeJSON {
+	out := extremeJSON{Value: clean(e.Value)}
+	if !e.Loaded {
+		return out
+	}
+	ptr := func(v float64) *float64 {
+		if math.IsInf(v, 0) || math.IsNaN(v) {
+			return nil
+		}
+		return &v
+	}
+	out.Train, out.Direction, out.Count = e.Train, e.Direction.String(), e.Count
+	out.HeadM, out.LengthM = ptr(e.HeadM), ptr(e.LengthM)
+	out.LoadedFromM, out.LoadedToM = ptr(e.LoadedFromM), ptr(e.LoadedToM)
+	if e.TrailingM > 0 {
+		out.TrailingM = ptr(e.TrailingM)
+	}
+	return out
+}
+
+func (e extremeJSON) cells() []string {
+	if e.Direction == "" {
+		return []string{"0", "—", "", "", "", ""}
+	}
+	f := func(p *float64, prec int) string {
+		if p == nil {
+			return "—"
+		}
+		return strconv.FormatFloat(*p, 'f', prec, 64)
+	}
+	count := ""
+	if e.Count > 0 {
+		count = strconv.Itoa(e.Count)
+	}
+	dir := "→"
+	if e.Direction == envelope.RightToLeft.String() {
+		dir = "←"
+	}
+	return []string{fmt.Sprintf("%.1f", e.Value), e.Train, f(e.HeadM, 2) + " " + dir, count, f(e.LoadedFromM, 2) + "–" + f(e.LoadedToM, 2), ""}
+}
+
+func envelopeTable(w io.Writer, typ string, span float64, doc envelopeDoc) error {
+	fmt.Fprintf(w, "%s truss, span %g m. Member forces in kN (tension +), share %g, dynamic %s (factor %.3f).\n", typ, span, doc.Share, doc.Dynamic, doc.DynamicFactor)
+	fmt.Fprintf(w, "Trains: %s. Head: position of the train's front (m), arrow: direction of travel.\n\n", strings.Join(doc.Trains, "; "))
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprintln(tw, "member\tmax\ttrain\thead\tcount\tloaded\t\tmin\ttrain\thead\tcount\tloaded\t")
+	for _, m := range doc.Members {
+		fmt.Fprintln(tw, m.Label+"\t"+strings.Join(m.Max.cells(), "\t")+"\t"+strings.Join(m.Min.cells(), "\t"))
+	}
+	if err := tw.Flush(); err != nil {
+		return err
+	}
+	fmt.Fprintln(w)
+	printCaution(w)
+	return nil
+}
+
+func envelopeCSV(w io.Writer, doc envelopeDoc) error {
+	cw := csv.NewWriter(w)
+	_ = cw.Write([]string{"member", "kind", "sense", "value_kn", "train", "head_m", "direction", "count", "loaded_from_m", "loaded_to_m", "trailing_m"})
+	num := func(p *float64) string {
+		if p == nil {
+			return ""
+		}
+		return strconv.FormatFloat(*p, 'g', 10, 64)
+	}
+	for _, m := range doc.Members {
+		for _, s := range []struct {
+			sense string
+			e     extremeJSON
+		}{{"max", m.Max}, {"min", m.Min}} {
+			count := ""
+			if s.e.Count > 0 {
+				count = strconv.Itoa(s.e.Count)
+			}
+			_ = cw.Write([]string{m.Label, m.Kind, s.sense, strconv.FormatFloat(s.e.Value, 'g', 10, 64), s.e.Train, num(s.e.HeadM), s.e.Direction, count, num(s.e.LoadedFromM), num(s.e.LoadedToM), num(s.e.TrailingM)})
+		}
+	}
+	cw.Flush()
+	return cw.Error()
+}
