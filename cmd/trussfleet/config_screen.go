@@ -57,7 +57,7 @@ func setScreenDefaults(v *viper.Viper) {
 	v.SetDefault("rating.gamma_d_favourable", 0.9)
 	v.SetDefault("thresholds.flag", 1.0)
 	v.SetDefault("thresholds.review", 1.1)
-	v.SetDefault("thresholds.worse_fraction", 0.10)
+	v.SetDefault("thresholds.worse_fraction", 0.20)
 	v.SetDefault("chunk_size", 50)
 }
 

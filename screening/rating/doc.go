@@ -10,8 +10,8 @@
 // with C the capacity in the sense checked (scaled by the member's condition factor), D and L
 // taken positive where they act in that sense. Tension and compression are checked
 // separately. Where the inventory holds no capacity but a rating factor RF_ref for a reference
-// train, the load-effect ratio gives RF = RF_ref · L_ref(1 + I_ref) / (L (1 + I)), in the sense
-// the reference train governs.
+// train, the load-effect ratio gives RF = RF_ref · L_ref(1 + I_ref) / (L (1 + I)), in each
+// sense the reference train loads (conservative where it did not govern).
 //
 // RF ≥ 1 means the member carries the loading under the idealisation; it is a screening
 // figure, not a load rating. Forces are in kN, tension positive.

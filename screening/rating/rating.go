@@ -150,29 +150,35 @@ func FromCapacities(m Member, d Demand, meth Method) (rfs []Factor, missing []Se
 }
 
 // FromStoredRating rates a member by the load-effect ratio against its reference train:
-// RF = RF_ref · L_ref(1 + I_ref) / (L (1 + I)), in the sense the reference train governs
-// (its larger live effect). The other sense, if the new loading acts in it and the reference
-// did not, is reported as missing: the stored rating says nothing about it.
+// RF = RF_ref · L_ref(1 + I_ref) / (L (1 + I)), in each sense the reference train loads.
+// A stored rating factor is the lowest over the senses the reference loading checked, so in
+// the sense it did not govern it understates that sense's own factor: the ratio is then
+// conservative. A sense the reference train hardly loads (below minorShare of its larger
+// effect) is not covered by the stored rating: where the new loading acts in it by more than
+// that share of its own larger effect, it is reported as missing.
 func FromStoredRating(m Member, ref, d Demand) (rfs []Factor, missing []Sense) {
-	gov := Tension
-	if ref.live(Compression) > ref.live(Tension) {
-		gov = Compression
-	}
-	lref := ref.live(gov)
+	refScale := math.Max(ref.live(Tension), ref.live(Compression))
 	scale := math.Max(d.live(Tension), d.live(Compression))
 	for _, s := range [...]Sense{Tension, Compression} {
 		l := d.live(s)
 		if l <= negligible*scale || l <= 0 {
 			continue
 		}
-		if s != gov || !(lref > 0) {
-			missing = append(missing, s)
+		lref := ref.live(s)
+		if !(refScale > 0) || lref < minorShare*refScale {
+			if l >= minorShare*scale {
+				missing = append(missing, s)
+			}
 			continue
 		}
 		rfs = append(rfs, Factor{Sense: s, RF: m.RatingFactor * lref / l, Basis: FromRatio})
 	}
 	return rfs, missing
 }
+
+// minorShare is the share of a loading's larger live effect below which its other sense is
+// taken as not checked by a stored rating.
+const minorShare = 0.05
 
 // Worst gives the smallest of the factors (RF +Inf and ok false when there are none).
 func Worst(rfs []Factor) (Factor, bool) {

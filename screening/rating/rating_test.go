@@ -144,3 +144,21 @@ func TestSummariseAndRank(t *testing.T) {
 		}
 	}
 }
+
+// TestStoredRatingBothSenses: a reversing diagonal rated by a stored factor. The stored factor
+// is the lower of the two senses' factors, so applying it to the other sense by the
+// load-effect ratio understates that sense (conservative, by the algebra of the
+// working-stress equation). A sense the reference hardly loads is not covered.
+func TestStoredRatingBothSenses(t *testing.T) {
+	ref := Demand{LiveMax: 400, LiveMin: -100, Impact: 1.2}
+	nw := Demand{LiveMax: 500, LiveMin: -150, Impact: 1.2}
+	rfs, missing := FromStoredRating(Member{RatingFactor: 1.2, ReferenceTrain: "r"}, ref, nw)
+	if len(missing) != 0 || len(rfs) != 2 || !near(rfs[0].RF, 1.2*400/500) || !near(rfs[1].RF, 1.2*100/150) {
+		t.Fatalf("rfs %+v missing %v", rfs, missing)
+	}
+	// The reference loads compression by 1 % of its tension; the new loading by 30 %.
+	rfs, missing = FromStoredRating(Member{RatingFactor: 1.2, ReferenceTrain: "r"}, Demand{LiveMax: 400, LiveMin: -4, Impact: 1}, Demand{LiveMax: 500, LiveMin: -150, Impact: 1})
+	if len(rfs) != 1 || rfs[0].Sense != Tension || len(missing) != 1 || missing[0] != Compression {
+		t.Fatalf("rfs %+v missing %v", rfs, missing)
+	}
+}

@@ -1,0 +1,83 @@
+package main
+
+import (
+	"fmt"
+	"os"
+	"path/filepath"
+
+	"github.com/spf13/cobra"
+	"github.com/trussfleet/trussfleet/configs"
+	"github.com/trussfleet/trussfleet/screening/fleetgen"
+	"github.com/trussfleet/trussfleet/screening/traffic"
+)
+
+func init() { commands = append(commands, newFleetCmd) }
+
+func newFleetCmd(a *app) *cobra.Command {
+	cmd := &cobra.Command{Use: "fleet", Short: "Invented fleets for demonstrations and benchmarks"}
+	var n int
+	var seed uint64
+	var out, ref string
+	gen := &cobra.Command{
+		Use:   "generate",
+		Short: "Write bridges.csv and members.csv of an invented fleet of the Northmoor & Eastfell Railway",
+		Args:  cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, _ []string) error {
+			if n < 1 {
+				return fmt.Errorf("--bridges must be at least 1, got %d", n)
+			}
+			refTrain, err := traffic.ParseSpec(ref, configs.Trains())
+			if err != nil {
+				return err
+			}
+			if err := os.MkdirAll(out, 0o755); err != nil {
+				return err
+			}
+			opt := fleetgen.Defaults(n)
+			opt.Seed, opt.Reference = seed, refTrain
+			return writeFleet(opt, out, func(b, m string) {
+				fmt.Fprintf(cmd.OutOrStdout(), "wrote %d invented bridges: %s, %s\n", n, b, m)
+			})
+		},
+	}
+	gen.Flags().IntVar(&n, "bridges", 40, "number of bridges")
+	gen.Flags().Uint64Var(&seed, "seed", 1893, "random seed (the same seed gives the same fleet)")
+	gen.Flags().StringVar(&out, "out", "fleet", "output folder")
+	gen.Flags().StringVar(&ref, "reference-train", "northmoor-freight-today", "reference train of the stored rating factors")
+	cmd.AddCommand(gen)
+	return cmd
+}
+
+// writeFleet writes the two files through temporary names, so that a failed run leaves no
+// half-written inventory behind.
+func writeFleet(opt fleetgen.Options, dir string, done func(b, m string)) error {
+	bPath, mPath := filepath.Join(dir, "bridges.csv"), filepath.Join(dir, "members.csv")
+	bf, err := os.CreateTemp(dir, ".bridges-*.csv")
+	if err != nil {
+		return err
+	}
+	defer os.Remove(bf.Name())
+	mf, err := os.CreateTemp(dir, ".members-*.csv")
+	if err != nil {
+		bf.Close()
+		return err
+	}
+	defer os.Remove(mf.Name())
+	genErr := fleetgen.Generate(opt, bf, mf)
+	for _, f := range []*os.File{bf, mf} {
+		if err := f.Close(); err != nil && genErr == nil {
+			genErr = err
+		}
+	}
+	if genErr != nil {
+		return genErr
+	}
+	if err := os.Rename(bf.Name(), bPath); err != nil {
+		return err
+	}
+	if err := os.Rename(mf.Name(), mPath); err != nil {
+		return err
+	}
+	done(bPath, mPath)
+	return nil
+}
