@@ -1,0 +1,108 @@
+package store
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"time"
+
+	"github.com/jackc/pgx/v5"
+)
+
+// Bridge is one span of the inventory, a row of the bridges table. Pointer fields are
+// optional (NULL when nil).
+type Bridge struct {
+	BridgeID   string // the owner's asset key
+	Name       string
+	Line       string // the railway line the span carries
+	ChainageKM *float64
+	TrussType  string // a truss type name, e.g. "pratt"
+	SpanM      float64
+	Panels     int
+	DepthM     float64
+	Deck       string // "through" or "deck"
+	EndPosts   string // "" takes the type's default
+	Trusses    int
+	// TrussShare is the share of one track's load the analysed truss carries.
+	TrussShare float64
+	Tracks     int
+	// DeadLoadKNPerM is the dead load one main truss carries, kN per metre of span.
+	DeadLoadKNPerM float64
+	YearBuilt      *int
+	Latitude       *float64
+	Longitude      *float64
+	LastInspected  *time.Time // a date
+}
+
+// BridgeSummary is a bridge with what is stored about its members.
+type BridgeSummary struct {
+	Bridge
+	Members   int
+	UpdatedAt time.Time
+}
+
+var bridgesTable = table{
+	name: "bridges",
+	key:  []string{"bridge_id"},
+	cols: []string{"name", "line", "chainage_km", "truss_type", "span_m", "panels", "depth_m", "deck", "end_posts",
+		"trusses", "truss_share", "tracks", "dead_load_kn_per_m", "year_built", "latitude", "longitude", "last_inspected"},
+	touch: "updated_at",
+}
+
+// bridgeColumns is the select list matching scanBridge.
+const bridgeColumns = `b.bridge_id, b.name, b.line, b.chainage_km, b.truss_type, b.span_m, b.panels, b.depth_m, b.deck,
+	b.end_posts, b.trusses, b.truss_share, b.tracks, b.dead_load_kn_per_m, b.year_built, b.latitude, b.longitude,
+	b.last_inspected`
+
+func (b Bridge) values() []any {
+	return []any{b.BridgeID, b.Name, b.Line, b.ChainageKM, b.TrussType, b.SpanM, b.Panels, b.DepthM, b.Deck, b.EndPosts,
+		b.Trusses, b.TrussShare, b.Tracks, b.DeadLoadKNPerM, b.YearBuilt, b.Latitude, b.Longitude, b.LastInspected}
+}
+
+func (b *Bridge) pointers() []any {
+	return []any{&b.BridgeID, &b.Name, &b.Line, &b.ChainageKM, &b.TrussType, &b.SpanM, &b.Panels, &b.DepthM, &b.Deck,
+		&b.EndPosts, &b.Trusses, &b.TrussShare, &b.Tracks, &b.DeadLoadKNPerM, &b.YearBuilt, &b.Latitude, &b.Longitude,
+		&b.LastInspected}
+}
+
+// ErrNotFound is returned (wrapped) when a named row does not exist.
+var ErrNotFound = errors.New("not found")
+
+// Bridges returns every bridge, ordered by bridge_id.
+func (db *DB) Bridges(ctx context.Context) ([]Bridge, error) {
+	rows, err := db.Pool.Query(ctx, "SELECT "+bridgeColumns+" FROM bridges b ORDER BY b.bridge_id")
+	if err != nil {
+		return nil, fmt.Errorf("listing bridges: %w", err)
+	}
+	return pgx.CollectRows(rows, func(r pgx.CollectableRow) (Bridge, error) {
+		var b Bridge
+		return b, r.Scan(b.pointers()...)
+	})
+}
+
+// Bridge returns one bridge by its asset key.
+func (db *DB) Bridge(ctx context.Context, bridgeID string) (Bridge, error) {
+	var b Bridge
+	err := db.Pool.QueryRow(ctx, "SELECT "+bridgeColumns+" FROM bridges b WHERE b.bridge_id = $1", bridgeID).Scan(b.pointers()...)
+	if errors.Is(err, pgx.ErrNoRows) {
+		return b, fmt.Errorf("bridge %q: %w", bridgeID, ErrNotFound)
+	}
+	if err != nil {
+		return b, fmt.Errorf("reading bridge %q: %w", bridgeID, err)
+	}
+	return b, nil
+}
+
+// BridgeSummaries returns every bridge with its member count, ordered by bridge_id.
+func (db *DB) BridgeSummaries(ctx context.Context) ([]BridgeSummary, error) {
+	rows, err := db.Pool.Query(ctx, "SELECT "+bridgeColumns+`, b.updated_at,
+		(SELECT count(*) FROM members m WHERE m.bridge_id = b.bridge_id)
+		FROM bridges b ORDER BY b.bridge_id`)
+	if err != nil {
+		return nil, fmt.Errorf("listing bridges: %w", err)
+	}
+	return pgx.CollectRows(rows, func(r pgx.CollectableRow) (BridgeSummary, error) {
+		var s BridgeSummary
+		return s, r.Scan(append(s.pointers(), &s.UpdatedAt, &s.Members)...)
+	})
+}

@@ -1,0 +1,78 @@
+package store
+
+import (
+	"context"
+	"fmt"
+
+	"github.com/jackc/pgx/v5"
+)
+
+// Member is one member's stored capacity, a row of the members table. A member has a
+// tension capacity, a compression capacity, or both; or instead a rating factor for a named
+// reference loading (the stored capacity ratio). Capacities are magnitudes in kN before
+// the condition factor.
+type Member struct {
+	BridgeID              string
+	Member                string // the geometry's label, e.g. "U1-L2"
+	CapacityTensionKN     *float64
+	CapacityCompressionKN *float64
+	RatingFactor          *float64
+	ReferenceTrain        *string
+	ConditionFactor       float64 // 0 < f <= 1; 1 for a member in as-built condition
+	AreaMM2               *float64
+	FatigueCategory       string
+}
+
+var membersTable = table{
+	name: "members",
+	key:  []string{"bridge_id", "member"},
+	cols: []string{"capacity_tension_kn", "capacity_compression_kn", "rating_factor", "reference_train",
+		"condition_factor", "area_mm2", "fatigue_category"},
+	touch: "updated_at",
+}
+
+const memberColumns = `bridge_id, member, capacity_tension_kn, capacity_compression_kn, rating_factor, reference_train,
+	condition_factor, area_mm2, fatigue_category`
+
+func (m Member) values() []any {
+	return []any{m.BridgeID, m.Member, m.CapacityTensionKN, m.CapacityCompressionKN, m.RatingFactor, m.ReferenceTrain,
+		m.ConditionFactor, m.AreaMM2, m.FatigueCategory}
+}
+
+func (m *Member) pointers() []any {
+	return []any{&m.BridgeID, &m.Member, &m.CapacityTensionKN, &m.CapacityCompressionKN, &m.RatingFactor,
+		&m.ReferenceTrain, &m.ConditionFactor, &m.AreaMM2, &m.FatigueCategory}
+}
+
+// Members returns the stored members of one bridge, ordered by label.
+func (db *DB) Members(ctx context.Context, bridgeID string) ([]Member, error) {
+	rows, err := db.Pool.Query(ctx, "SELECT "+memberColumns+" FROM members WHERE bridge_id = $1 ORDER BY member", bridgeID)
+	if err != nil {
+		return nil, fmt.Errorf("reading members of bridge %q: %w", bridgeID, err)
+	}
+	return collectMembers(rows)
+}
+
+// AllMembers returns the stored members of every bridge, grouped by bridge_id.
+func (db *DB) AllMembers(ctx context.Context) (map[string][]Member, error) {
+	rows, err := db.Pool.Query(ctx, "SELECT "+memberColumns+" FROM members ORDER BY bridge_id, member")
+	if err != nil {
+		return nil, fmt.Errorf("reading members: %w", err)
+	}
+	ms, err := collectMembers(rows)
+	if err != nil {
+		return nil, err
+	}
+	out := map[string][]Member{}
+	for _, m := range ms {
+		out[m.BridgeID] = append(out[m.BridgeID], m)
+	}
+	return out, nil
+}
+
+func collectMembers(rows pgx.Rows) ([]Member, error) {
+	return pgx.CollectRows(rows, func(r pgx.CollectableRow) (Member, error) {
+		var m Member
+		return m, r.Scan(m.pointers()...)
+	})
+}

@@ -1,0 +1,93 @@
+package store
+
+import (
+	"context"
+	"errors"
+	"fmt"
+
+	"github.com/jackc/pgx/v5/pgxpool"
+	"github.com/trussfleet/trussfleet/store/pgserver"
+)
+
+// Options say which PostgreSQL to use.
+type Options struct {
+	// URL of an existing server. Empty: start (or reuse) the embedded server.
+	URL string
+	// DataDir of the embedded server; required when URL is empty.
+	DataDir string
+	// BinDir holds the PostgreSQL server binaries; empty searches SearchPath and then
+	// /usr/lib/postgresql/*/bin.
+	BinDir string
+	// SearchPath is a PATH-style list of directories to search for the binaries.
+	SearchPath string
+	// TCPPort makes the embedded server also listen on localhost at this port; 0: socket only.
+	TCPPort int
+	// Logf receives what the embedded server did that a user should know of; nil discards.
+	Logf func(format string, args ...any)
+	// MaxConns bounds the pool; 0 takes pgx's default.
+	MaxConns int32
+}
+
+// DB is an open connection pool to trussfleet's database.
+type DB struct {
+	// Pool is the pgx pool, for packages that add their own tables through sql/.
+	Pool *pgxpool.Pool
+	// URL the pool was opened with.
+	URL string
+	// Server is the embedded server started or reused, nil when a URL was given.
+	Server *pgserver.Server
+}
+
+// Embedded returns the embedded server the options describe, without starting it.
+func Embedded(opts Options) (*pgserver.Server, error) {
+	if opts.DataDir == "" {
+		return nil, errors.New("no database URL and no data directory for the embedded server")
+	}
+	return pgserver.New(pgserver.Options{
+		DataDir:    opts.DataDir,
+		BinDir:     opts.BinDir,
+		SearchPath: opts.SearchPath,
+		TCPPort:    opts.TCPPort,
+		Logf:       opts.Logf,
+	})
+}
+
+// Open connects to the configured server, starting the embedded one when no URL is given
+// and it is not running. It does not migrate; call Migrate.
+func Open(ctx context.Context, opts Options) (*DB, error) {
+	db := &DB{URL: opts.URL}
+	if db.URL == "" {
+		srv, err := Embedded(opts)
+		if err != nil {
+			return nil, err
+		}
+		if err := srv.Start(ctx); err != nil {
+			return nil, err
+		}
+		db.Server, db.URL = srv, srv.URL(pgserver.Database)
+	}
+	cfg, err := pgxpool.ParseConfig(db.URL)
+	if err != nil {
+		// The URL may hold a password: name the problem, not the string.
+		return nil, fmt.Errorf("database URL: %w", err)
+	}
+	if opts.MaxConns > 0 {
+		cfg.MaxConns = opts.MaxConns
+	}
+	pool, err := pgxpool.NewWithConfig(ctx, cfg)
+	if err != nil {
+		return nil, fmt.Errorf("opening database: %w", err)
+	}
+	if err := pool.Ping(ctx); err != nil {
+		pool.Close()
+		return nil, fmt.Errorf("connecting to database %s on %s: %w", cfg.ConnConfig.Database, cfg.ConnConfig.Host, err)
+	}
+	db.Pool = pool
+	return db, nil
+}
+
+// Close closes the pool. The embedded server keeps running for the next command; stop it
+// with its Stop method (trussfleet db stop).
+func (db *DB) Close() {
+	db.Pool.Close()
+}
