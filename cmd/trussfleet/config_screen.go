@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"strings"
+	"time"
 
 	"github.com/spf13/viper"
 )
@@ -15,6 +16,11 @@ type ScreenConfig struct {
 	Rating     RatingConfig              `mapstructure:"rating"`
 	Thresholds ThresholdConfig           `mapstructure:"thresholds"`
 	ChunkSize  int                       `mapstructure:"chunk_size"`
+	// Jobs is the number of jobs one process works at once (each with Workers goroutines).
+	Jobs int `mapstructure:"jobs"`
+	// JobTimeout bounds one job; RescueAfter hands a job whose worker died to another.
+	JobTimeout  time.Duration `mapstructure:"job_timeout"`
+	RescueAfter time.Duration `mapstructure:"rescue_after"`
 }
 
 // ScenarioConfig is one traffic scenario: the envelope over all its trains.
@@ -59,6 +65,9 @@ func setScreenDefaults(v *viper.Viper) {
 	v.SetDefault("thresholds.review", 1.1)
 	v.SetDefault("thresholds.worse_fraction", 0.20)
 	v.SetDefault("chunk_size", 50)
+	v.SetDefault("jobs", 2)
+	v.SetDefault("job_timeout", "2m")
+	v.SetDefault("rescue_after", "5m")
 }
 
 func (s ScreenConfig) validate() []error {
@@ -95,6 +104,15 @@ func (s ScreenConfig) validate() []error {
 	}
 	if !(s.Thresholds.WorseFraction >= 0 && s.Thresholds.WorseFraction < 1) {
 		bad("thresholds.worse_fraction", "must be from 0 to below 1, got %v", s.Thresholds.WorseFraction)
+	}
+	if s.Jobs < 1 || s.Jobs > 64 {
+		bad("jobs", "must be from 1 to 64 jobs at once, got %d", s.Jobs)
+	}
+	if s.JobTimeout < time.Second {
+		bad("job_timeout", "must be at least 1s, got %v", s.JobTimeout)
+	}
+	if s.RescueAfter <= s.JobTimeout {
+		bad("rescue_after", "must be longer than job_timeout (%v), got %v", s.JobTimeout, s.RescueAfter)
 	}
 	if s.ChunkSize < 1 || s.ChunkSize > 10000 {
 		bad("chunk_size", "must be from 1 to 10000 bridges per job, got %d", s.ChunkSize)

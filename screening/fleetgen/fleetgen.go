@@ -192,7 +192,7 @@ func writeMembers(w *csv.Writer, r *rand.Rand, b screening.Bridge, year int, res
 			if !ok {
 				continue // a member the reference train does not load: nothing to store
 			}
-			row = []string{b.ID, m.Label, "", "", f(round(rf, 0.01)), refName, "", f(area), "71"}
+			row = []string{b.ID, m.Label, "", "", f(round(rf, 0.01)), refName, "1", f(area), "71"}
 		}
 		if err := w.Write(row); err != nil {
 			return err

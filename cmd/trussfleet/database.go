@@ -1,0 +1,55 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"log/slog"
+	"os"
+	"path/filepath"
+
+	"github.com/trussfleet/trussfleet/store"
+)
+
+// defaultDataDir is $XDG_DATA_HOME/trussfleet/pg, or ~/.local/share/trussfleet/pg.
+func defaultDataDir() (string, error) {
+	if d := os.Getenv("XDG_DATA_HOME"); d != "" {
+		return filepath.Join(d, "trussfleet", "pg"), nil
+	}
+	home, err := os.UserHomeDir()
+	if err != nil {
+		return "", fmt.Errorf("no data directory for the embedded server: set --data-dir or database.data_dir: %w", err)
+	}
+	return filepath.Join(home, ".local", "share", "trussfleet", "pg"), nil
+}
+
+// storeOptions turns the configuration into the store's options.
+func (a *app) storeOptions() (store.Options, error) {
+	opt := store.Options{URL: a.cfg.Database.URL, DataDir: a.cfg.Database.DataDir, SearchPath: os.Getenv("PATH"),
+		Logf: func(format string, args ...any) { slog.Info(fmt.Sprintf(format, args...)) }}
+	if opt.URL == "" && opt.DataDir == "" {
+		d, err := defaultDataDir()
+		if err != nil {
+			return opt, err
+		}
+		opt.DataDir = d
+	}
+	return opt, nil
+}
+
+// openDatabase connects (starting the embedded server when no URL is configured) and brings
+// the schema up to date.
+func (a *app) openDatabase(ctx context.Context) (*store.DB, error) {
+	opt, err := a.storeOptions()
+	if err != nil {
+		return nil, err
+	}
+	db, err := store.Open(ctx, opt)
+	if err != nil {
+		return nil, err
+	}
+	if _, err := db.Migrate(ctx); err != nil {
+		db.Close()
+		return nil, err
+	}
+	return db, nil
+}

@@ -1,0 +1,202 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"log/slog"
+	"os"
+	"os/signal"
+	"syscall"
+	"time"
+
+	"github.com/spf13/cobra"
+	"github.com/trussfleet/trussfleet/store"
+)
+
+func init() { commands = append(commands, newScreenCmd) }
+
+// Exit codes a scheduler can act on.
+const (
+	exitBridgesFailed = 3   // the run completed, but some bridges could not be screened
+	exitRunFailed     = 4   // the run could not complete
+	exitInterrupted   = 130 // stopped by a signal; finished bridges are kept
+)
+
+func newScreenCmd(a *app) *cobra.Command {
+	var changed bool
+	var resume int64
+	cmd := &cobra.Command{
+		Use:   "screen",
+		Short: "Screen every bridge against the existing and the proposed traffic",
+		Long: `screen creates a run, queues its bridges as jobs in PostgreSQL and works them in this
+process (other "trussfleet worker" processes on the same database share the work). Each
+bridge's results are committed with its job, exactly once. Ctrl-C stops cleanly: finished
+bridges stay, the run is marked interrupted, and --resume ID finishes it.
+
+Exit codes: 0 completed; 3 completed with bridges that could not be screened; 4 the run
+failed; 130 interrupted.`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, _ []string) error {
+			ctx, stop := signal.NotifyContext(cmd.Context(), os.Interrupt, syscall.SIGTERM)
+			defer stop()
+			db, err := a.openDatabase(ctx)
+			if err != nil {
+				return err
+			}
+			defer db.Close()
+			return a.screen(ctx, db, cmd.OutOrStdout(), cmd.ErrOrStderr(), changed, resume)
+		},
+	}
+	cmd.Flags().BoolVar(&changed, "changed", false, "screen only bridges whose inputs changed since the last completed run; carry the others forward")
+	cmd.Flags().Int64Var(&resume, "resume", 0, "finish an interrupted run instead of starting a new one")
+	cmd.Flags().Int("workers", 0, "goroutines screening bridges in this process (default: CPUs)")
+	return cmd
+}
+
+// screen runs (or resumes) a run to its end in this process and prints its summary.
+func (a *app) screen(ctx context.Context, db *store.DB, out, errw io.Writer, changed bool, resume int64) error {
+	s := a.cfg.Screen
+	wc, err := db.NewWorkerClient(store.WorkerOptions{
+		Jobs: s.Jobs, Threads: a.cfg.Workers, JobTimeout: s.JobTimeout, RescueAfter: s.RescueAfter,
+	})
+	if err != nil {
+		return err
+	}
+	id := resume
+	if resume == 0 {
+		plan, err := buildPlan(ctx, db, a.cfg)
+		if err != nil {
+			return err
+		}
+		id, err = wc.CreateRun(ctx, store.NewRun{ProgramVersion: version, Config: a.cfg, Plan: plan,
+			PlanHash: plan.Hash(), ChunkSize: s.ChunkSize, Changed: changed})
+		if err != nil {
+			return err
+		}
+	} else {
+		run, err := db.GetRun(ctx, resume)
+		if err != nil {
+			return err
+		}
+		if run.Status == store.RunCompleted {
+			fmt.Fprintf(out, "run %d is already complete\n", resume)
+			return a.printSummary(ctx, db, out, resume)
+		}
+		if err := db.SetRunStatus(ctx, resume, store.RunRunning); err != nil {
+			return err
+		}
+	}
+	if err := wc.Start(context.WithoutCancel(ctx)); err != nil {
+		return err
+	}
+	status, err := waitForRun(ctx, db, id, errw)
+	stopCtx, cancel := context.WithTimeout(context.Background(), 30*time.Second)
+	defer cancel()
+	if errors.Is(err, context.Canceled) {
+		// Running jobs are cancelled: their transactions roll back and they run again on resume.
+		_ = wc.StopAndCancel(stopCtx)
+		if serr := db.SetRunStatus(stopCtx, id, store.RunInterrupted); serr != nil {
+			return serr
+		}
+		p, _ := db.Progress(stopCtx, id)
+		fmt.Fprintf(out, "\nrun %d interrupted: %d of %d bridges kept; finish it with `trussfleet screen --resume %d`\n",
+			id, p.Done+p.Failed+p.Carried, p.Total, id)
+		return &exitError{code: exitInterrupted, err: fmt.Errorf("run %d interrupted", id)}
+	}
+	if serr := wc.Stop(stopCtx); serr != nil && err == nil {
+		err = serr
+	}
+	if err != nil {
+		return &exitError{code: exitRunFailed, err: err}
+	}
+	if status != store.RunCompleted {
+		return &exitError{code: exitRunFailed, err: fmt.Errorf("run %d ended %s", id, status)}
+	}
+	if err := a.printSummary(ctx, db, out, id); err != nil {
+		return err
+	}
+	if p, err := db.Progress(ctx, id); err == nil && p.Failed > 0 {
+		return &exitError{code: exitBridgesFailed, err: fmt.Errorf("run %d: %d bridges could not be screened (see `trussfleet rank --run %d`)", id, p.Failed, id)}
+	}
+	return nil
+}
+
+// waitForRun polls the run until it is no longer running, showing progress: a bar on a
+// terminal, a log line every few seconds otherwise.
+func waitForRun(ctx context.Context, db *store.DB, id int64, errw io.Writer) (string, error) {
+	tty := isTerminal(errw)
+	start := time.Now()
+	var lastLog time.Time
+	first := -1
+	tick := time.NewTicker(250 * time.Millisecond)
+	defer tick.Stop()
+	for {
+		select {
+		case <-ctx.Done():
+			return "", ctx.Err()
+		case <-tick.C:
+		}
+		run, err := db.GetRun(ctx, id)
+		if err != nil {
+			return "", err
+		}
+		p, err := db.Progress(ctx, id)
+		if err != nil {
+			return "", err
+		}
+		done := p.Total - p.Pending
+		if first < 0 {
+			first = done
+		}
+		el := time.Since(start).Seconds()
+		rate := float64(done-first) / max(el, 1e-3)
+		eta := "?"
+		if rate > 0 {
+			eta = (time.Duration(float64(p.Pending)/rate) * time.Second).Round(time.Second).String()
+		}
+		switch {
+		case tty:
+			fmt.Fprintf(errw, "\r%s %d/%d bridges  %.0f/s  ETA %s   ", bar(done, p.Total, 30), done, p.Total, rate, eta)
+		case time.Since(lastLog) > 5*time.Second || run.Status != store.RunRunning:
+			slog.Info("screening", "run", id, "done", done, "total", p.Total, "failed", p.Failed, "per_s", fmt.Sprintf("%.0f", rate), "eta", eta)
+			lastLog = time.Now()
+		}
+		if run.Status != store.RunRunning {
+			if tty {
+				fmt.Fprintln(errw)
+			}
+			return run.Status, nil
+		}
+		if p.Pending > 0 {
+			if n, err := db.OpenJobs(ctx, id); err == nil && n == 0 {
+				return run.Status, fmt.Errorf("run %d: %d bridges pending but no jobs left to work them", id, p.Pending)
+			}
+		}
+	}
+}
+
+func bar(done, total, width int) string {
+	n := 0
+	if total > 0 {
+		n = done * width / total
+	}
+	b := make([]byte, width)
+	for i := range b {
+		b[i] = '.'
+		if i < n {
+			b[i] = '#'
+		}
+	}
+	return "[" + string(b) + "]"
+}
+
+func isTerminal(w io.Writer) bool {
+	f, ok := w.(*os.File)
+	if !ok {
+		return false
+	}
+	st, err := f.Stat()
+	return err == nil && st.Mode()&os.ModeCharDevice != 0
+}

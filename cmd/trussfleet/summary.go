@@ -1,0 +1,62 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"io"
+	"strings"
+	"text/tabwriter"
+
+	"github.com/trussfleet/trussfleet/screening/rating"
+	"github.com/trussfleet/trussfleet/store"
+)
+
+// printSummary prints a run's counts per flag and its ten highest-priority bridges.
+func (a *app) printSummary(ctx context.Context, db *store.DB, w io.Writer, id int64) error {
+	run, err := db.GetRun(ctx, id)
+	if err != nil {
+		return err
+	}
+	p, err := db.Progress(ctx, id)
+	if err != nil {
+		return err
+	}
+	counts, flagged, err := db.FlagTotals(ctx, id)
+	if err != nil {
+		return err
+	}
+	fmt.Fprintf(w, "\nRun %d %s: %d bridges (%d screened, %d carried forward, %d failed), %d with flags.\n",
+		id, run.Status, p.Total, p.Done, p.Carried, p.Failed, flagged)
+	fmt.Fprint(w, "Members flagged:")
+	for _, f := range rating.Flags {
+		fmt.Fprintf(w, "  %s %d", f, counts[string(f)])
+	}
+	fmt.Fprintln(w)
+	rows, err := db.Ranked(ctx, id, 10)
+	if err != nil {
+		return err
+	}
+	fmt.Fprintln(w, "\nTop of the priority list:")
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprintln(tw, "rank\tbridge\tname\tworst member\tRF existing\tRF proposed\tflags")
+	for _, r := range rows {
+		flags := strings.Join(r.Flags, ",")
+		if r.Status == "failed" {
+			flags = "FAILED: " + r.Error
+		}
+		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%s\n", r.Rank, r.BridgeID, r.Name, r.WorstMember, fmtRF(r.RFExisting), fmtRF(r.RFProposed), flags)
+	}
+	if err := tw.Flush(); err != nil {
+		return err
+	}
+	fmt.Fprintln(w)
+	printCaution(w)
+	return nil
+}
+
+func fmtRF(v *float64) string {
+	if v == nil {
+		return "—"
+	}
+	return fmt.Sprintf("%.2f", *v)
+}

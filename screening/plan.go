@@ -1,0 +1,137 @@
+package screening
+
+import (
+	"crypto/sha256"
+	"encoding/hex"
+	"encoding/json"
+	"fmt"
+	"sort"
+
+	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/rating"
+	"github.com/trussfleet/trussfleet/screening/traffic"
+)
+
+// TrainRef is a train as a run used it: the name it was asked for by, and either the built-in
+// spec or the train file's text, so that the run can be repeated from its record alone.
+type TrainRef struct {
+	// Asked is how the configuration or the inventory named the train.
+	Asked string `json:"asked"`
+	// Name is the train's own name.
+	Name string `json:"name"`
+	// Builtin is the spec of a built-in model ("lm71:alpha=1"); Source the YAML of a train
+	// file. Exactly one is set.
+	Builtin  string `json:"builtin,omitempty"`
+	Source   string `json:"source,omitempty"`
+	FileName string `json:"file_name,omitempty"`
+}
+
+// Train rebuilds the train.
+func (r TrainRef) Train() (*traffic.Train, error) {
+	if r.Builtin != "" {
+		t, ok, err := traffic.Builtin(r.Builtin)
+		if !ok && err == nil {
+			err = fmt.Errorf("train %q: %q is no built-in model", r.Asked, r.Builtin)
+		}
+		return t, err
+	}
+	return traffic.ParseTrainFile(r.FileName, []byte(r.Source))
+}
+
+// Plan is everything a run computes from besides the inventory: the resolved trains and the
+// rating settings. It is stored with the run (as JSON) and hashed for incremental runs.
+type Plan struct {
+	Existing   []TrainRef `json:"existing"`
+	Proposed   []TrainRef `json:"proposed"`
+	References []TrainRef `json:"references"`
+	Dynamic    string     `json:"dynamic"`
+	Method     string     `json:"method"` // working-stress or factored
+	Phi        float64    `json:"phi"`
+	GammaD     float64    `json:"gamma_d"`
+	GammaL     float64    `json:"gamma_l"`
+	GammaDFav  float64    `json:"gamma_d_favourable"`
+	Flag       float64    `json:"flag"`
+	Review     float64    `json:"review"`
+	Worse      float64    `json:"worse_fraction"`
+}
+
+// Hash is a stable digest of the plan.
+func (p Plan) Hash() string {
+	b, err := json.Marshal(p)
+	if err != nil {
+		panic(err) // a Plan holds only strings and numbers
+	}
+	s := sha256.Sum256(b)
+	return hex.EncodeToString(s[:])
+}
+
+// Settings prepares the plan's trains and rating settings for ScreenBridge.
+func (p Plan) Settings() (*Settings, error) {
+	build := func(refs []TrainRef) ([]*traffic.Train, error) {
+		var out []*traffic.Train
+		for _, r := range refs {
+			t, err := r.Train()
+			if err != nil {
+				return nil, err
+			}
+			out = append(out, t)
+		}
+		return out, nil
+	}
+	s := &Settings{References: map[string]*envelope.Load{}}
+	ex, err := build(p.Existing)
+	if err != nil {
+		return nil, fmt.Errorf("existing traffic: %w", err)
+	}
+	if s.Existing, err = NewScenario("existing", ex); err != nil {
+		return nil, err
+	}
+	pr, err := build(p.Proposed)
+	if err != nil {
+		return nil, fmt.Errorf("proposed traffic: %w", err)
+	}
+	if s.Proposed, err = NewScenario("proposed", pr); err != nil {
+		return nil, err
+	}
+	for _, r := range p.References {
+		t, err := r.Train()
+		if err != nil {
+			return nil, fmt.Errorf("reference train: %w", err)
+		}
+		ld, err := envelope.Prepare(t)
+		if err != nil {
+			return nil, fmt.Errorf("reference train %s: %w", r.Asked, err)
+		}
+		s.References[r.Asked] = ld
+	}
+	if s.Dynamic, err = traffic.ParseDynamic(p.Dynamic); err != nil {
+		return nil, fmt.Errorf("dynamic allowance: %w", err)
+	}
+	s.Method = rating.WorkingStress
+	switch p.Method {
+	case "working-stress", "":
+	case "factored":
+		s.Method = rating.Method{Factored: true, Phi: p.Phi, GammaD: p.GammaD, GammaL: p.GammaL, GammaDFavourable: p.GammaDFav}
+		if err := s.Method.Validate(); err != nil {
+			return nil, err
+		}
+	default:
+		return nil, fmt.Errorf("rating method %q: allowed working-stress, factored", p.Method)
+	}
+	s.Thresholds = rating.Thresholds{Flag: p.Flag, Review: p.Review, WorseFraction: p.Worse}
+	return s, nil
+}
+
+// TrainNames lists a scenario's train names.
+func TrainNames(refs []TrainRef) []string {
+	out := make([]string, len(refs))
+	for i, r := range refs {
+		out[i] = r.Name
+	}
+	return out
+}
+
+// SortRefs orders train references by the name asked, for a stable plan.
+func SortRefs(refs []TrainRef) {
+	sort.Slice(refs, func(i, j int) bool { return refs[i].Asked < refs[j].Asked })
+}

@@ -1,0 +1,329 @@
+package store
+
+import (
+	"context"
+	"crypto/sha256"
+	"encoding/hex"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"log/slog"
+	"sync"
+	"time"
+
+	"github.com/jackc/pgx/v5"
+	"github.com/riverqueue/river"
+	"github.com/riverqueue/river/riverdriver/riverpgxv5"
+	"github.com/trussfleet/trussfleet/screening"
+)
+
+// ScreenQueue is the River queue the screening jobs go to.
+const ScreenQueue = "screening"
+
+// ChunkArgs is a River job: screen these bridges of this run.
+type ChunkArgs struct {
+	RunID   int64    `json:"run_id"`
+	Bridges []string `json:"bridges"`
+}
+
+// Kind names the job kind in River's tables.
+func (ChunkArgs) Kind() string { return "trussfleet.screen_chunk" }
+
+// InsertOpts puts the job on the screening queue.
+func (ChunkArgs) InsertOpts() river.InsertOpts {
+	return river.InsertOpts{Queue: ScreenQueue, MaxAttempts: chunkMaxAttempts}
+}
+
+// chunkMaxAttempts bounds the retries of a failing job; its last attempt records the error
+// on its bridges instead of failing again.
+const chunkMaxAttempts = 8
+
+// WorkerOptions configure a process's share of the work.
+type WorkerOptions struct {
+	// Jobs is the number of jobs worked at once; Threads the goroutines each job screens
+	// its bridges with.
+	Jobs, Threads int
+	// JobTimeout bounds one job; a job running longer than RescueAfter (its worker died) is
+	// handed to another worker.
+	JobTimeout, RescueAfter time.Duration
+	// Logger receives River's log lines; nil discards them.
+	Logger *slog.Logger
+	// OnChunk is told, after each committed job, how many bridges it wrote.
+	OnChunk func(runID int64, bridges int)
+}
+
+// Client is a River client that works screening jobs (or, with NewInsertClient, only
+// inserts them).
+type Client struct {
+	db    *DB
+	river *river.Client[pgx.Tx]
+}
+
+func riverLogger(l *slog.Logger) *slog.Logger {
+	if l != nil {
+		return l
+	}
+	return slog.New(slog.NewTextHandler(io.Discard, nil))
+}
+
+// NewInsertClient gives a client that creates runs but works no jobs.
+func (db *DB) NewInsertClient() (*Client, error) {
+	rc, err := river.NewClient(riverpgxv5.New(db.Pool), &river.Config{Logger: riverLogger(nil)})
+	if err != nil {
+		return nil, err
+	}
+	return &Client{db: db, river: rc}, nil
+}
+
+// NewWorkerClient gives a client that works the screening jobs of every open run; Start it.
+func (db *DB) NewWorkerClient(opt WorkerOptions) (*Client, error) {
+	w := &chunkWorker{db: db, opt: opt, settings: map[int64]*screening.Settings{}}
+	workers := river.NewWorkers()
+	if err := river.AddWorkerSafely(workers, w); err != nil {
+		return nil, err
+	}
+	cfg := &river.Config{
+		Logger:               riverLogger(opt.Logger),
+		Queues:               map[string]river.QueueConfig{ScreenQueue: {MaxWorkers: max(opt.Jobs, 1)}},
+		Workers:              workers,
+		JobTimeout:           opt.JobTimeout,
+		RescueStuckJobsAfter: opt.RescueAfter,
+		FetchCooldown:        50 * time.Millisecond,
+		FetchPollInterval:    500 * time.Millisecond,
+		MaxAttempts:          chunkMaxAttempts,
+	}
+	rc, err := river.NewClient(riverpgxv5.New(db.Pool), cfg)
+	if err != nil {
+		return nil, err
+	}
+	return &Client{db: db, river: rc}, nil
+}
+
+// Start begins working jobs until Stop.
+func (c *Client) Start(ctx context.Context) error { return c.river.Start(ctx) }
+
+// Stop lets running jobs finish (until ctx ends, then cancels them) and stops.
+func (c *Client) Stop(ctx context.Context) error { return c.river.Stop(ctx) }
+
+// StopAndCancel cancels running jobs (their transactions roll back; they run again later)
+// and stops.
+func (c *Client) StopAndCancel(ctx context.Context) error { return c.river.StopAndCancel(ctx) }
+
+// CreateRun records a run, its bridges and its jobs in one transaction, and returns its id.
+// With NewRun.Changed, bridges whose input hash equals the latest completed run's are carried
+// forward with their results, and only the others get jobs.
+func (c *Client) CreateRun(ctx context.Context, nr NewRun) (int64, error) {
+	cfg, err := json.Marshal(nr.Config)
+	if err != nil {
+		return 0, fmt.Errorf("run configuration: %w", err)
+	}
+	plan, err := json.Marshal(nr.Plan)
+	if err != nil {
+		return 0, fmt.Errorf("run plan: %w", err)
+	}
+	sum := sha256.Sum256(append(append([]byte{}, cfg...), plan...))
+	chunk := max(nr.ChunkSize, 1)
+	var id int64
+	err = pgx.BeginFunc(ctx, c.db.Pool, func(tx pgx.Tx) error {
+		var base *int64
+		mode := "full"
+		if nr.Changed {
+			mode = "changed"
+			err := tx.QueryRow(ctx, "SELECT id FROM runs WHERE status = 'completed' ORDER BY id DESC LIMIT 1").Scan(&base)
+			if err != nil && !errors.Is(err, pgx.ErrNoRows) {
+				return err
+			}
+		}
+		if err := tx.QueryRow(ctx, `INSERT INTO runs (program_version, config, config_hash, trains, mode, base_run_id)
+			VALUES ($1, $2, $3, $4, $5, $6) RETURNING id`,
+			nr.ProgramVersion, cfg, hex.EncodeToString(sum[:]), plan, mode, base).Scan(&id); err != nil {
+			return err
+		}
+		if _, err := tx.Exec(ctx, `INSERT INTO run_bridges (run_id, bridge_id, input_hash)
+			SELECT $1, b.bridge_id, `+inputHash+` FROM bridges b`, id, nr.PlanHash); err != nil {
+			return err
+		}
+		if base != nil {
+			if err := carryForward(ctx, tx, id, *base); err != nil {
+				return err
+			}
+		}
+		rows, err := tx.Query(ctx, `SELECT bridge_id FROM run_bridges WHERE run_id = $1 AND status = 'pending'
+			ORDER BY bridge_id`, id)
+		if err != nil {
+			return err
+		}
+		pending, err := pgx.CollectRows(rows, pgx.RowTo[string])
+		if err != nil {
+			return err
+		}
+		var jobs []river.InsertManyParams
+		for start := 0; start < len(pending); start += chunk {
+			ids := pending[start:min(start+chunk, len(pending))]
+			jobs = append(jobs, river.InsertManyParams{Args: ChunkArgs{RunID: id, Bridges: ids}})
+		}
+		if len(jobs) > 0 {
+			if _, err := c.river.InsertManyFastTx(ctx, tx, jobs); err != nil {
+				return fmt.Errorf("queueing jobs: %w", err)
+			}
+		}
+		_, err = tx.Exec(ctx, `UPDATE runs SET bridges_total = (SELECT count(*) FROM run_bridges WHERE run_id = $1),
+			status = CASE WHEN $2 THEN 'completed' ELSE status END,
+			finished_at = CASE WHEN $2 THEN now() END WHERE id = $1`, id, len(jobs) == 0)
+		return err
+	})
+	if err != nil {
+		return 0, fmt.Errorf("creating run: %w", err)
+	}
+	return id, nil
+}
+
+// carryForward marks the bridges whose inputs are unchanged since the base run as carried and
+// copies their results into the new run, so that the new run is a complete picture.
+func carryForward(ctx context.Context, tx pgx.Tx, id, base int64) error {
+	if _, err := tx.Exec(ctx, `UPDATE run_bridges r SET status = 'carried',
+		source_run_id = coalesce(o.source_run_id, o.run_id), error = o.error, worst_member = o.worst_member,
+		rf_existing = o.rf_existing, rf_proposed = o.rf_proposed, demand_increase = o.demand_increase,
+		headroom = o.headroom, flags = o.flags, flag_counts = o.flag_counts, governing_train = o.governing_train,
+		governing_sense = o.governing_sense, governing_head_m = o.governing_head_m,
+		governing_direction = o.governing_direction, governing_from_m = o.governing_from_m,
+		governing_to_m = o.governing_to_m, screened_at = o.screened_at
+		FROM run_bridges o
+		WHERE r.run_id = $1 AND o.run_id = $2 AND o.bridge_id = r.bridge_id AND o.input_hash = r.input_hash
+		AND o.status IN ('done', 'carried')`, id, base); err != nil {
+		return err
+	}
+	if _, err := tx.Exec(ctx, `INSERT INTO member_results SELECT $1, m.bridge_id, m.scenario, m.member, m.kind,
+		m.dead_kn, m.live_max_kn, m.live_min_kn, m.impact, m.rf_tension, m.rf_compression, m.basis, m.max_train,
+		m.max_head_m, m.max_direction, m.max_from_m, m.max_to_m, m.min_train, m.min_head_m, m.min_direction,
+		m.min_from_m, m.min_to_m
+		FROM member_results m JOIN run_bridges r ON r.run_id = $1 AND r.bridge_id = m.bridge_id AND r.status = 'carried'
+		WHERE m.run_id = $2`, id, base); err != nil {
+		return err
+	}
+	_, err := tx.Exec(ctx, `INSERT INTO member_assessments SELECT $1, m.bridge_id, m.member, m.rf_existing,
+		m.rf_proposed, m.sense_proposed, m.demand_increase, m.flags
+		FROM member_assessments m JOIN run_bridges r ON r.run_id = $1 AND r.bridge_id = m.bridge_id AND r.status = 'carried'
+		WHERE m.run_id = $2`, id, base)
+	return err
+}
+
+// OpenJobs counts the jobs of a run that are still to be worked (available, running, waiting
+// to retry or scheduled).
+func (db *DB) OpenJobs(ctx context.Context, runID int64) (int, error) {
+	var n int
+	err := db.Pool.QueryRow(ctx, `SELECT count(*) FROM river_job WHERE kind = $1
+		AND state IN ('available', 'running', 'retryable', 'scheduled', 'pending')
+		AND (args->>'run_id')::bigint = $2`, ChunkArgs{}.Kind(), runID).Scan(&n)
+	return n, err
+}
+
+// chunkWorker works ChunkArgs jobs.
+type chunkWorker struct {
+	river.WorkerDefaults[ChunkArgs]
+	db  *DB
+	opt WorkerOptions
+
+	mu       sync.Mutex
+	settings map[int64]*screening.Settings
+}
+
+// Timeout bounds one job.
+func (w *chunkWorker) Timeout(*river.Job[ChunkArgs]) time.Duration { return w.opt.JobTimeout }
+
+func (w *chunkWorker) runSettings(ctx context.Context, runID int64) (*screening.Settings, error) {
+	w.mu.Lock()
+	defer w.mu.Unlock()
+	if s, ok := w.settings[runID]; ok {
+		return s, nil
+	}
+	run, err := w.db.GetRun(ctx, runID)
+	if err != nil {
+		return nil, err
+	}
+	var plan screening.Plan
+	if err := json.Unmarshal(run.Plan, &plan); err != nil {
+		return nil, fmt.Errorf("run %d plan: %w", runID, err)
+	}
+	s, err := plan.Settings()
+	if err != nil {
+		return nil, fmt.Errorf("run %d plan: %w", runID, err)
+	}
+	w.settings[runID] = s
+	return s, nil
+}
+
+// Work screens the job's bridges that are still pending and commits their results together
+// with the job's completion, so that a bridge's results are written exactly once.
+func (w *chunkWorker) Work(ctx context.Context, job *river.Job[ChunkArgs]) error {
+	a := job.Args
+	set, err := w.runSettings(ctx, a.RunID)
+	if err != nil {
+		return w.giveUp(ctx, job, err)
+	}
+	inputs, err := w.db.chunkInputs(ctx, a.RunID, a.Bridges)
+	if err != nil {
+		return w.giveUp(ctx, job, err)
+	}
+	results, err := screening.ScreenAll(ctx, inputs, set, w.opt.Threads)
+	if err != nil {
+		return err // cancelled: the job runs again
+	}
+	var wrote int
+	err = pgx.BeginFunc(ctx, w.db.Pool, func(tx pgx.Tx) error {
+		n, err := writeResults(ctx, tx, a.RunID, results)
+		if err != nil {
+			return err
+		}
+		wrote = n
+		if err := finishRunIfDone(ctx, tx, a.RunID); err != nil {
+			return err
+		}
+		_, err = river.JobCompleteTx[*riverpgxv5.Driver](ctx, tx, job)
+		return err
+	})
+	if err != nil {
+		return w.giveUp(ctx, job, fmt.Errorf("writing results: %w", err))
+	}
+	if w.opt.OnChunk != nil {
+		w.opt.OnChunk(a.RunID, wrote)
+	}
+	return nil
+}
+
+// giveUp returns err for River to retry, except on the job's last attempt: then it records
+// the error on the job's pending bridges, so that the run can end.
+func (w *chunkWorker) giveUp(ctx context.Context, job *river.Job[ChunkArgs], cause error) error {
+	if job.Attempt < job.MaxAttempts || ctx.Err() != nil {
+		return cause
+	}
+	err := pgx.BeginFunc(ctx, w.db.Pool, func(tx pgx.Tx) error {
+		if _, err := tx.Exec(ctx, `UPDATE run_bridges SET status = 'failed', error = $3, screened_at = now()
+			WHERE run_id = $1 AND bridge_id = ANY($2) AND status = 'pending'`,
+			job.Args.RunID, job.Args.Bridges, fmt.Sprintf("job failed after %d attempts: %v", job.Attempt, cause)); err != nil {
+			return err
+		}
+		if err := finishRunIfDone(ctx, tx, job.Args.RunID); err != nil {
+			return err
+		}
+		_, err := river.JobCompleteTx[*riverpgxv5.Driver](ctx, tx, job)
+		return err
+	})
+	if err != nil {
+		return errors.Join(cause, err)
+	}
+	return nil
+}
+
+// finishRunIfDone marks the run completed when no bridge is pending. The run row is locked
+// first, so that of two jobs committing at once the later one sees the other's bridges done.
+func finishRunIfDone(ctx context.Context, tx pgx.Tx, runID int64) error {
+	if _, err := tx.Exec(ctx, "SELECT 1 FROM runs WHERE id = $1 FOR UPDATE", runID); err != nil {
+		return err
+	}
+	_, err := tx.Exec(ctx, `UPDATE runs SET status = 'completed', finished_at = now()
+		WHERE id = $1 AND status IN ('running', 'interrupted')
+		AND NOT EXISTS (SELECT 1 FROM run_bridges WHERE run_id = $1 AND status = 'pending')`, runID)
+	return err
+}

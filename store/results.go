@@ -1,0 +1,260 @@
+package store
+
+import (
+	"context"
+	"encoding/json"
+	"math"
+	"strings"
+
+	"github.com/jackc/pgx/v5"
+	"github.com/trussfleet/trussfleet/screening"
+	"github.com/trussfleet/trussfleet/screening/rating"
+	"github.com/trussfleet/trussfleet/screening/truss"
+)
+
+// chunkInputs loads the bridges of a job that are still pending in the run, with their
+// members, as screening inputs.
+func (db *DB) chunkInputs(ctx context.Context, runID int64, ids []string) ([]screening.Bridge, error) {
+	rows, err := db.Pool.Query(ctx, "SELECT "+bridgeColumns+` FROM bridges b
+		JOIN run_bridges r ON r.bridge_id = b.bridge_id AND r.run_id = $1 AND r.status = 'pending'
+		WHERE b.bridge_id = ANY($2) ORDER BY b.bridge_id`, runID, ids)
+	if err != nil {
+		return nil, err
+	}
+	bridges, err := pgx.CollectRows(rows, func(r pgx.CollectableRow) (Bridge, error) {
+		var b Bridge
+		return b, r.Scan(b.pointers()...)
+	})
+	if err != nil {
+		return nil, err
+	}
+	rows, err = db.Pool.Query(ctx, "SELECT "+memberColumns+" FROM members WHERE bridge_id = ANY($1)", ids)
+	if err != nil {
+		return nil, err
+	}
+	members, err := collectMembers(rows)
+	if err != nil {
+		return nil, err
+	}
+	out := make([]screening.Bridge, len(bridges))
+	index := make(map[string]int, len(bridges))
+	for i, b := range bridges {
+		out[i] = ScreeningInput(b, nil)
+		index[b.BridgeID] = i
+	}
+	for _, m := range members {
+		if i, ok := index[m.BridgeID]; ok {
+			out[i].Members[m.Member] = RatingMember(m)
+		}
+	}
+	return out, nil
+}
+
+// ScreeningInput turns an inventory row and its members into what screening needs.
+func ScreeningInput(b Bridge, members []Member) screening.Bridge {
+	sb := screening.Bridge{
+		ID:             b.BridgeID,
+		Truss:          truss.Params{Type: b.TrussType, SpanM: b.SpanM, Panels: b.Panels, DepthM: b.DepthM, Deck: b.Deck, EndPosts: b.EndPosts},
+		TrussShare:     b.TrussShare,
+		Tracks:         b.Tracks,
+		DeadLoadKNPerM: b.DeadLoadKNPerM,
+		Members:        make(map[string]rating.Member, len(members)),
+	}
+	for _, m := range members {
+		sb.Members[m.Member] = RatingMember(m)
+	}
+	return sb
+}
+
+// RatingMember turns a members row into the rating package's view of it.
+func RatingMember(m Member) rating.Member {
+	r := rating.Member{ConditionFactor: m.ConditionFactor}
+	if m.CapacityTensionKN != nil {
+		r.CapacityTension = *m.CapacityTensionKN
+	}
+	if m.CapacityCompressionKN != nil {
+		r.CapacityCompression = *m.CapacityCompressionKN
+	}
+	if m.RatingFactor != nil && m.ReferenceTrain != nil {
+		r.RatingFactor, r.ReferenceTrain = *m.RatingFactor, *m.ReferenceTrain
+	}
+	return r
+}
+
+var memberResultColumns = []string{"run_id", "bridge_id", "scenario", "member", "kind", "dead_kn", "live_max_kn",
+	"live_min_kn", "impact", "rf_tension", "rf_compression", "basis", "max_train", "max_head_m", "max_direction",
+	"max_from_m", "max_to_m", "min_train", "min_head_m", "min_direction", "min_from_m", "min_to_m"}
+
+var memberAssessmentColumns = []string{"run_id", "bridge_id", "member", "rf_existing", "rf_proposed",
+	"sense_proposed", "demand_increase", "flags"}
+
+// writeResults writes the results of the bridges that are still pending, locking their rows
+// first: a second attempt at the same job (a rescued job whose first attempt committed) finds
+// them done and writes nothing. It returns the number of bridges written.
+func writeResults(ctx context.Context, tx pgx.Tx, runID int64, results []screening.Result) (int, error) {
+	ids := make([]string, len(results))
+	for i, r := range results {
+		ids[i] = r.BridgeID
+	}
+	rows, err := tx.Query(ctx, `SELECT bridge_id FROM run_bridges WHERE run_id = $1 AND bridge_id = ANY($2)
+		AND status = 'pending' ORDER BY bridge_id FOR UPDATE`, runID, ids)
+	if err != nil {
+		return 0, err
+	}
+	still, err := pgx.CollectRows(rows, pgx.RowTo[string])
+	if err != nil {
+		return 0, err
+	}
+	pending := make(map[string]bool, len(still))
+	for _, id := range still {
+		pending[id] = true
+	}
+	var mr, ma [][]any
+	var u bridgeUpdates
+	for _, r := range results {
+		if !pending[r.BridgeID] {
+			continue
+		}
+		u.add(r)
+		for _, m := range r.Members {
+			mr = append(mr, memberResultRow(runID, r.BridgeID, "existing", m, m.Existing, m.Assessment.Existing))
+			mr = append(mr, memberResultRow(runID, r.BridgeID, "proposed", m, m.Proposed, m.Assessment.Proposed))
+			a := m.Assessment
+			flags := make([]string, len(a.Flags))
+			for i, f := range a.Flags {
+				flags[i] = string(f)
+			}
+			sense := ""
+			if a.HasPr {
+				sense = a.WorstPr.Sense.String()
+			}
+			ma = append(ma, []any{runID, r.BridgeID, m.Label, rfOrNil(a.WorstEx, a.HasEx), rfOrNil(a.WorstPr, a.HasPr),
+				sense, num(a.DemandIncrease), flags})
+		}
+	}
+	if len(u.ids) == 0 {
+		return 0, nil
+	}
+	if _, err := tx.CopyFrom(ctx, pgx.Identifier{"member_results"}, memberResultColumns, pgx.CopyFromRows(mr)); err != nil {
+		return 0, err
+	}
+	if _, err := tx.CopyFrom(ctx, pgx.Identifier{"member_assessments"}, memberAssessmentColumns, pgx.CopyFromRows(ma)); err != nil {
+		return 0, err
+	}
+	if _, err := tx.Exec(ctx, `UPDATE run_bridges r SET status = u.status, error = u.error,
+		worst_member = u.worst, rf_existing = u.rfe, rf_proposed = u.rfp, demand_increase = u.inc,
+		headroom = u.head, flags = string_to_array(u.flags, ','), flag_counts = u.counts::jsonb,
+		governing_train = u.gtrain, governing_sense = u.gsense, governing_head_m = u.ghead,
+		governing_direction = u.gdir, governing_from_m = u.gfrom, governing_to_m = u.gto, screened_at = now()
+		FROM unnest($2::text[], $3::text[], $4::text[], $5::text[], $6::float8[], $7::float8[], $8::float8[],
+			$9::float8[], $10::text[], $11::text[], $12::text[], $13::text[], $14::float8[], $15::text[], $16::float8[],
+			$17::float8[])
+			AS u(id, status, error, worst, rfe, rfp, inc, head, flags, counts, gtrain, gsense, ghead, gdir, gfrom, gto)
+		WHERE r.run_id = $1 AND r.bridge_id = u.id`,
+		runID, u.ids, u.status, u.errs, u.worst, u.rfe, u.rfp, u.inc, u.head, u.flags, u.counts, u.gtrain, u.gsense,
+		u.ghead, u.gdir, u.gfrom, u.gto); err != nil {
+		return 0, err
+	}
+	return len(u.ids), nil
+}
+
+// bridgeUpdates gathers run_bridges columns for one UPDATE ... FROM unnest.
+type bridgeUpdates struct {
+	ids, status, errs, flags, counts, gtrain, gsense, gdir []string
+	worst                                                  []*string
+	rfe, rfp, inc, head, ghead, gfrom, gto                 []*float64
+}
+
+func (u *bridgeUpdates) add(r screening.Result) {
+	u.ids = append(u.ids, r.BridgeID)
+	if r.Err != nil {
+		u.status = append(u.status, "failed")
+		u.errs = append(u.errs, r.Err.Error())
+		u.worst = append(u.worst, nil)
+		u.rfe, u.rfp, u.inc, u.head = append(u.rfe, nil), append(u.rfp, nil), append(u.inc, nil), append(u.head, nil)
+		u.flags, u.counts = append(u.flags, ""), append(u.counts, "{}")
+		u.gtrain, u.gsense, u.gdir = append(u.gtrain, ""), append(u.gsense, ""), append(u.gdir, "")
+		u.ghead, u.gfrom, u.gto = append(u.ghead, nil), append(u.gfrom, nil), append(u.gto, nil)
+		return
+	}
+	s := r.Summary
+	u.status = append(u.status, "done")
+	u.errs = append(u.errs, "")
+	var worst *string
+	if s.Worst >= 0 {
+		worst = &r.Members[s.Worst].Label
+	}
+	u.worst = append(u.worst, worst)
+	u.rfe = append(u.rfe, rfOrNil(s.WorstEx, s.Worst >= 0 && !math.IsInf(s.WorstEx.RF, 0)))
+	u.rfp = append(u.rfp, rfOrNil(s.WorstPr, s.Worst >= 0))
+	u.inc = append(u.inc, num(s.DemandIncrease))
+	u.head = append(u.head, num(s.Headroom))
+	var flags []string
+	counts := map[string]int{}
+	for _, f := range rating.Flags {
+		if n := s.FlagCounts[f]; n > 0 {
+			flags = append(flags, string(f))
+			counts[string(f)] = n
+		}
+	}
+	cj, _ := json.Marshal(counts)
+	u.flags = append(u.flags, strings.Join(flags, ","))
+	u.counts = append(u.counts, string(cj))
+	if g := r.Governing; g != nil && g.Loaded {
+		u.gtrain = append(u.gtrain, g.Train)
+		u.gsense = append(u.gsense, s.WorstPr.Sense.String())
+		u.gdir = append(u.gdir, g.Direction.String())
+		u.ghead, u.gfrom, u.gto = append(u.ghead, num(g.HeadM)), append(u.gfrom, num(g.LoadedFromM)), append(u.gto, num(g.LoadedToM))
+	} else {
+		u.gtrain, u.gsense, u.gdir = append(u.gtrain, ""), append(u.gsense, ""), append(u.gdir, "")
+		u.ghead, u.gfrom, u.gto = append(u.ghead, nil), append(u.gfrom, nil), append(u.gto, nil)
+	}
+}
+
+func memberResultRow(runID int64, bridge, scenario string, m screening.MemberResult, e screening.Envelope, rfs []rating.Factor) []any {
+	var rt, rc *float64
+	basis := ""
+	for _, f := range rfs {
+		v := num(f.RF)
+		if f.Sense == rating.Tension {
+			rt = v
+		} else {
+			rc = v
+		}
+		basis = f.Basis
+	}
+	return []any{runID, bridge, scenario, m.Label, string(m.Kind), m.Dead, e.Max.Value, e.Min.Value, e.Impact, rt, rc, basis,
+		e.Max.Train, placementNum(e.Max.Loaded, e.Max.HeadM), dirText(e.Max.Loaded, e.Max.Direction.String()),
+		placementNum(e.Max.Loaded, e.Max.LoadedFromM), placementNum(e.Max.Loaded, e.Max.LoadedToM),
+		e.Min.Train, placementNum(e.Min.Loaded, e.Min.HeadM), dirText(e.Min.Loaded, e.Min.Direction.String()),
+		placementNum(e.Min.Loaded, e.Min.LoadedFromM), placementNum(e.Min.Loaded, e.Min.LoadedToM)}
+}
+
+func placementNum(loaded bool, v float64) *float64 {
+	if !loaded {
+		return nil
+	}
+	return num(v)
+}
+
+func dirText(loaded bool, d string) string {
+	if !loaded {
+		return ""
+	}
+	return d
+}
+
+// num stores a finite number; NaN and ±Inf (no value) become NULL.
+func num(v float64) *float64 {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return nil
+	}
+	return &v
+}
+
+func rfOrNil(f rating.Factor, ok bool) *float64 {
+	if !ok {
+		return nil
+	}
+	return num(f.RF)
+}

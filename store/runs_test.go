@@ -1,0 +1,201 @@
+package store_test
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"io/fs"
+	"testing"
+	"time"
+
+	"github.com/trussfleet/trussfleet/configs"
+	"github.com/trussfleet/trussfleet/screening"
+	"github.com/trussfleet/trussfleet/screening/fleetgen"
+	"github.com/trussfleet/trussfleet/screening/traffic"
+	"github.com/trussfleet/trussfleet/store"
+	"github.com/trussfleet/trussfleet/store/pgtest"
+)
+
+// seedFleet loads an invented fleet straight into the tables (the importers have tests of
+// their own) and stores the example trains.
+func seedFleet(t *testing.T, db *store.DB, n int) {
+	t.Helper()
+	ctx := context.Background()
+	ref, err := traffic.ParseSpec("northmoor-freight-today", configs.Trains())
+	if err != nil {
+		t.Fatal(err)
+	}
+	var bridges, members bytes.Buffer
+	opt := fleetgen.Defaults(n)
+	opt.Reference = ref
+	if err := fleetgen.Generate(opt, &bridges, &members); err != nil {
+		t.Fatal(err)
+	}
+	conn, err := db.Pool.Acquire(ctx)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer conn.Release()
+	for table, data := range map[string]*bytes.Buffer{"bridges": &bridges} {
+		if _, err := conn.Conn().PgConn().CopyFrom(ctx, data, "COPY "+table+" (bridge_id, name, line, chainage_km, truss_type, span_m, panels, depth_m, deck, end_posts, trusses, truss_share, tracks, dead_load_kn_per_m, year_built, latitude, longitude, last_inspected) FROM STDIN (FORMAT csv, HEADER true, FORCE_NOT_NULL (end_posts))"); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if _, err := conn.Conn().PgConn().CopyFrom(ctx, &members, "COPY members (bridge_id, member, capacity_tension_kn, capacity_compression_kn, rating_factor, reference_train, condition_factor, area_mm2, fatigue_category) FROM STDIN (FORMAT csv, HEADER true, FORCE_NOT_NULL (fatigue_category))"); err != nil {
+		t.Fatal(err)
+	}
+	names, _ := fs.Glob(configs.Trains(), "*.yaml")
+	for _, f := range names {
+		src, _ := fs.ReadFile(configs.Trains(), f)
+		tr, err := traffic.ParseTrainFile(f, src)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if _, err := conn.Exec(ctx, "INSERT INTO trains (name, file_name, source, sha256) VALUES ($1, $2, $3, $4)",
+			tr.Name, f, string(src), "0000000000000000000000000000000000000000000000000000000000000000"); err != nil {
+			t.Fatal(err)
+		}
+	}
+}
+
+func testPlan(t *testing.T, db *store.DB) screening.Plan {
+	t.Helper()
+	ctx := context.Background()
+	p := screening.Plan{Dynamic: "phi3", Method: "working-stress", Flag: 1, Review: 1.1, Worse: 0.2}
+	for _, n := range []string{"northmoor-freight-today", "eastfell-multiple-unit"} {
+		r, err := db.ResolveTrain(ctx, n)
+		if err != nil {
+			t.Fatal(err)
+		}
+		p.Existing = append(p.Existing, r)
+	}
+	for _, n := range []string{"northmoor-freight-proposed", "lm71:alpha=1"} {
+		r, err := db.ResolveTrain(ctx, n)
+		if err != nil {
+			t.Fatal(err)
+		}
+		p.Proposed = append(p.Proposed, r)
+	}
+	refs, err := db.ReferenceTrains(ctx)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, n := range refs {
+		r, err := db.ResolveTrain(ctx, n)
+		if err != nil {
+			t.Fatal(err)
+		}
+		p.References = append(p.References, r)
+	}
+	return p
+}
+
+func runToEnd(t *testing.T, db *store.DB, id int64, jobs int) {
+	t.Helper()
+	ctx := context.Background()
+	wc, err := db.NewWorkerClient(store.WorkerOptions{Jobs: jobs, Threads: 2, JobTimeout: time.Minute, RescueAfter: 2 * time.Minute})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := wc.Start(ctx); err != nil {
+		t.Fatal(err)
+	}
+	defer wc.Stop(ctx)
+	deadline := time.Now().Add(60 * time.Second)
+	for time.Now().Before(deadline) {
+		r, err := db.GetRun(ctx, id)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if r.Status == store.RunCompleted {
+			return
+		}
+		time.Sleep(50 * time.Millisecond)
+	}
+	t.Fatalf("run %d did not complete", id)
+}
+
+// TestRunScreensEveryBridgeOnce: a run over an invented fleet ends with exactly one result
+// set per bridge, and its stored numbers are the ones screening computes for that bridge.
+func TestRunScreensEveryBridgeOnce(t *testing.T) {
+	ctx := context.Background()
+	db := pgtest.DB(t)
+	seedFleet(t, db, 23)
+	plan := testPlan(t, db)
+	ic, err := db.NewInsertClient()
+	if err != nil {
+		t.Fatal(err)
+	}
+	id, err := ic.CreateRun(ctx, store.NewRun{ProgramVersion: "test", Config: map[string]any{"k": 1}, Plan: plan, PlanHash: plan.Hash(), ChunkSize: 4})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if n, err := db.OpenJobs(ctx, id); err != nil || n != 6 {
+		t.Fatalf("open jobs %d (%v), want 6 chunks of up to 4 bridges", n, err)
+	}
+	runToEnd(t, db, id, 2)
+	p, err := db.Progress(ctx, id)
+	if err != nil || p.Done != 23 || p.Pending != 0 {
+		t.Fatalf("progress %+v, %v", p, err)
+	}
+	var results, distinct, members int
+	if err := db.Pool.QueryRow(ctx, `SELECT count(*), count(DISTINCT (bridge_id, scenario, member)) FROM member_results WHERE run_id = $1`, id).Scan(&results, &distinct); err != nil {
+		t.Fatal(err)
+	}
+	// Every member of every bridge: the geometry's member count, per scenario.
+	set, err := plan.Settings()
+	if err != nil {
+		t.Fatal(err)
+	}
+	bridges, err := db.Bridges(ctx)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, b := range bridges {
+		ms, err := db.Members(ctx, b.BridgeID)
+		if err != nil {
+			t.Fatal(err)
+		}
+		res := screening.ScreenBridge(store.ScreeningInput(b, ms), set)
+		if res.Err != nil {
+			t.Fatal(res.Err)
+		}
+		members += len(res.Members)
+		var rfp *float64
+		if err := db.Pool.QueryRow(ctx, `SELECT rf_proposed FROM run_bridges WHERE run_id = $1 AND bridge_id = $2`, id, b.BridgeID).Scan(&rfp); err != nil {
+			t.Fatal(err)
+		}
+		if rfp == nil || *rfp != res.Summary.WorstPr.RF {
+			t.Errorf("%s: stored RF %v, computed %v", b.BridgeID, rfp, res.Summary.WorstPr.RF)
+		}
+	}
+	if results != 2*members || distinct != results {
+		t.Errorf("member results %d (distinct %d), want %d", results, distinct, 2*members)
+	}
+	ranked, err := db.Ranked(ctx, id, 0)
+	if err != nil || len(ranked) != 23 {
+		t.Fatalf("ranked %d, %v", len(ranked), err)
+	}
+	for i := 1; i < len(ranked); i++ {
+		a, b := ranked[i-1].RFProposed, ranked[i].RFProposed
+		if a != nil && b != nil && *a > *b {
+			t.Errorf("rank %d RF %v above rank %d RF %v", i, *a, i+1, *b)
+		}
+	}
+	// A nightly run with nothing changed carries every bridge forward and queues nothing.
+	id2, err := ic.CreateRun(ctx, store.NewRun{ProgramVersion: "test", Config: map[string]any{"k": 1}, Plan: plan, PlanHash: plan.Hash(), ChunkSize: 4, Changed: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	r2, _ := db.GetRun(ctx, id2)
+	p2, _ := db.Progress(ctx, id2)
+	var copied int
+	_ = db.Pool.QueryRow(ctx, `SELECT count(*) FROM member_results WHERE run_id = $1`, id2).Scan(&copied)
+	if r2.Status != store.RunCompleted || p2.Carried != 23 || copied != results {
+		t.Errorf("unchanged nightly run: status %s, %+v, %d results", r2.Status, p2, copied)
+	}
+	var raw json.RawMessage = r2.Plan
+	if len(raw) == 0 {
+		t.Error("run has no plan")
+	}
+}
