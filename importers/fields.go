@@ -1,0 +1,131 @@
+package importers
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"time"
+)
+
+// Unit conversions for imperial columns (exact by definition for the foot; the kip is
+// 1000 lbf with the standard acceleration, to the precision the domain brief gives).
+const (
+	metresPerFoot  = 0.3048
+	kmPerMile      = 1.609344
+	kNPerKip       = 4.4482216
+	kNPerMPerKipFt = kNPerKip / metresPerFoot // kip/ft -> kN/m
+	mm2PerIn2      = 645.16
+)
+
+// row parses the fields of one record, recording each problem against its column.
+type row struct {
+	src  *csvSource
+	errs *errorList
+	line int
+	ok   bool
+}
+
+func (p *row) fail(name, value, format string, args ...any) {
+	p.ok = false
+	p.errs.add(&FieldError{Line: p.line, Column: p.src.col(name), Field: name, Value: value, Msg: fmt.Sprintf(format, args...)})
+}
+
+// text returns a field, failing when a required one is empty.
+func (p *row) text(name, v string, required bool) string {
+	if v == "" && required {
+		p.fail(name, v, "a value is required")
+	}
+	return v
+}
+
+// number parses a decimal number. Empty gives nil (failing when required). Only plain
+// decimal notation is accepted: strconv also takes hex floats, "Inf" and "NaN", which have
+// no place in an inventory.
+func (p *row) number(name, v string, required bool) *float64 {
+	if v == "" {
+		if required {
+			p.fail(name, v, "a value is required")
+		}
+		return nil
+	}
+	if !plainDecimal(v) {
+		p.fail(name, v, "not a number (use a decimal point, no thousands separators or units)")
+		return nil
+	}
+	f, err := strconv.ParseFloat(v, 64)
+	if err != nil || math.IsInf(f, 0) || math.IsNaN(f) {
+		p.fail(name, v, "not a finite number")
+		return nil
+	}
+	return &f
+}
+
+func plainDecimal(v string) bool {
+	digits := false
+	for i := 0; i < len(v); i++ {
+		switch c := v[i]; {
+		case c >= '0' && c <= '9':
+			digits = true
+		case c == '.' || c == '-' || c == '+' || c == 'e' || c == 'E':
+		default:
+			return false
+		}
+	}
+	return digits
+}
+
+// quantity parses a metric column or its imperial alternative, converted to SI.
+func (p *row) quantity(c column, metric, imperial string) *float64 {
+	if p.src.has(c.alt) {
+		f := p.number(c.alt, imperial, c.required)
+		if f != nil {
+			*f *= c.factor
+		}
+		return f
+	}
+	return p.number(c.name, metric, c.required)
+}
+
+// positive checks that a present value is > 0. name is the column the value came from.
+func (p *row) positive(name, raw string, f *float64) {
+	if f != nil && !(*f > 0) {
+		p.fail(name, raw, "must be greater than zero")
+	}
+}
+
+// integer parses a whole number; empty gives def (failing when required).
+func (p *row) integer(name, v string, required bool, def int) int {
+	if v == "" {
+		if required {
+			p.fail(name, v, "a value is required")
+		}
+		return def
+	}
+	n, err := strconv.Atoi(v)
+	if err != nil {
+		p.fail(name, v, "not a whole number")
+		return def
+	}
+	return n
+}
+
+// date parses an ISO 8601 calendar date (YYYY-MM-DD); empty gives nil.
+func (p *row) date(name, v string) *time.Time {
+	if v == "" {
+		return nil
+	}
+	d, err := time.Parse(time.DateOnly, v)
+	if err != nil {
+		p.fail(name, v, "not a date in the form YYYY-MM-DD")
+		return nil
+	}
+	return &d
+}
+
+// pick returns the column a quantity was read from, for messages.
+func (p *row) pick(c column) string {
+	if p.src.has(c.alt) {
+		return c.alt
+	}
+	return c.name
+}

@@ -1,0 +1,130 @@
+package importers
+
+import (
+	"context"
+	"crypto/sha256"
+	"encoding/hex"
+	"fmt"
+	"io"
+	"os"
+	"strings"
+
+	"github.com/trussfleet/trussfleet/store"
+)
+
+// Options control an import.
+type Options struct {
+	// Check validates the file and computes the counts an import would give, inside a
+	// transaction that is rolled back: nothing is written.
+	Check bool
+}
+
+// Result says what an import did (or, with Options.Check, would do).
+type Result struct {
+	File    string
+	Kind    store.Kind
+	Counts  store.Counts
+	Ignored []string // columns of the file that trussfleet does not use
+	Checked bool     // Options.Check: nothing was written
+	BatchID int64    // the import_batches row, 0 when nothing was written
+	SHA256  string   // of the file as read
+}
+
+// ImportBridgesFile imports a bridges CSV file from disk.
+func ImportBridgesFile(ctx context.Context, db *store.DB, path string, opts Options) (Result, error) {
+	return withFile(path, func(f *os.File) (Result, error) { return ImportBridges(ctx, db, path, f, opts) })
+}
+
+// ImportMembersFile imports a members CSV file from disk.
+func ImportMembersFile(ctx context.Context, db *store.DB, path string, opts Options) (Result, error) {
+	return withFile(path, func(f *os.File) (Result, error) { return ImportMembers(ctx, db, path, f, opts) })
+}
+
+func withFile(path string, f func(*os.File) (Result, error)) (Result, error) {
+	file, err := os.Open(path)
+	if err != nil {
+		return Result{File: path}, err
+	}
+	defer file.Close()
+	return f(file)
+}
+
+// ImportBridges checks and loads a bridges CSV read from r; file names it in messages and
+// in the import record. On any error nothing is written and the error is a *FileErrors.
+func ImportBridges(ctx context.Context, db *store.DB, file string, r io.Reader, opts Options) (Result, error) {
+	return load(ctx, db, store.KindBridges, file, r, opts, []string{"bridge_id"},
+		func(r io.Reader, emit func(store.Staged[store.Bridge]) bool) (Report, error) {
+			return ParseBridges(file, r, emit)
+		})
+}
+
+// ImportMembers checks and loads a members CSV read from r against the bridges stored in
+// db, as ImportBridges does.
+func ImportMembers(ctx context.Context, db *store.DB, file string, r io.Reader, opts Options) (Result, error) {
+	bridges, err := db.Bridges(ctx)
+	if err != nil {
+		return Result{File: file}, err
+	}
+	geom := NewStoredGeometry(bridges)
+	return load(ctx, db, store.KindMembers, file, r, opts, []string{"bridge_id", "member"},
+		func(r io.Reader, emit func(store.Staged[store.Member]) bool) (Report, error) {
+			return ParseMembers(file, r, geom, emit)
+		})
+}
+
+// load streams one CSV file through parse into a staging table and merges it, or writes
+// nothing when any row is bad or a key repeats.
+func load[T store.Row](ctx context.Context, db *store.DB, kind store.Kind, file string, r io.Reader, opts Options,
+	key []string, parse func(io.Reader, func(store.Staged[T]) bool) (Report, error)) (Result, error) {
+	res := Result{File: file, Kind: kind, Checked: opts.Check}
+	im, err := db.BeginImport(ctx, kind, file)
+	if err != nil {
+		return res, err
+	}
+	defer im.Rollback(ctx)
+	h := sha256.New()
+	var rep Report
+	var perr error
+	_, err = store.Stage(ctx, im, func(yield func(store.Staged[T]) bool) {
+		rep, perr = parse(io.TeeReader(r, h), yield)
+	})
+	res.Ignored = rep.Ignored
+	if perr != nil {
+		return res, perr
+	}
+	if err != nil {
+		return res, fmt.Errorf("%s: %w", file, err)
+	}
+	if err := duplicateErrors(ctx, im, file, key, rep); err != nil {
+		return res, err
+	}
+	if res.Counts, err = im.Merge(ctx); err != nil {
+		return res, fmt.Errorf("%s: %w", file, err)
+	}
+	res.SHA256 = hex.EncodeToString(h.Sum(nil))
+	if opts.Check {
+		return res, nil // the deferred rollback discards it all
+	}
+	if err := im.Commit(ctx, res.SHA256, res.Counts); err != nil {
+		return res, err
+	}
+	res.BatchID = im.ID()
+	return res, nil
+}
+
+// duplicateErrors reports every key that appears on more than one line, at each repeat.
+func duplicateErrors(ctx context.Context, im *store.Import, file string, key []string, rep Report) error {
+	dups, err := im.Duplicates(ctx, MaxErrors)
+	if err != nil || len(dups) == 0 {
+		return err
+	}
+	errs := &errorList{file: file}
+	last := key[len(key)-1]
+	for _, d := range dups {
+		for _, line := range d.Lines[1:] {
+			errs.add(&FieldError{Line: line, Column: rep.columns[last], Field: last, Value: d.Key[len(d.Key)-1],
+				Msg: fmt.Sprintf("%s %s repeated: first on line %d", strings.Join(key, ", "), strings.Join(d.Key, ", "), d.Lines[0])})
+		}
+	}
+	return errs.err()
+}

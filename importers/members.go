@@ -1,0 +1,162 @@
+package importers
+
+import (
+	"fmt"
+	"io"
+	"strings"
+
+	"github.com/trussfleet/trussfleet/screening/truss"
+	"github.com/trussfleet/trussfleet/store"
+)
+
+// memberRecord is a members.csv row as text; ParseMembers checks and converts it.
+type memberRecord struct {
+	SrcLine                string `csv:"__line"`
+	BridgeID               string `csv:"bridge_id"`
+	Member                 string `csv:"member"`
+	CapacityTensionKN      string `csv:"capacity_tension_kn"`
+	CapacityTensionKip     string `csv:"capacity_tension_kip"`
+	CapacityCompressionKN  string `csv:"capacity_compression_kn"`
+	CapacityCompressionKip string `csv:"capacity_compression_kip"`
+	RatingFactor           string `csv:"rating_factor"`
+	ReferenceTrain         string `csv:"reference_train"`
+	ConditionFactor        string `csv:"condition_factor"`
+	AreaMM2                string `csv:"area_mm2"`
+	AreaIn2                string `csv:"area_in2"`
+	FatigueCategory        string `csv:"fatigue_category"`
+}
+
+func (r memberRecord) srcLine() string { return r.SrcLine }
+
+var (
+	colTension     = column{name: "capacity_tension_kn", alt: "capacity_tension_kip", factor: kNPerKip}
+	colCompression = column{name: "capacity_compression_kn", alt: "capacity_compression_kip", factor: kNPerKip}
+	colArea        = column{name: "area_mm2", alt: "area_in2", factor: mm2PerIn2}
+
+	// memberColumns are the columns of members.csv (docs/inventory.md).
+	memberColumns = []column{
+		{name: "bridge_id", required: true}, {name: "member", required: true}, colTension, colCompression,
+		{name: "rating_factor"}, {name: "reference_train"}, {name: "condition_factor"}, colArea,
+		{name: "fatigue_category"},
+	}
+)
+
+// maxFatigueCategory bounds the length of a fatigue detail category's name ("71", "E'").
+const maxFatigueCategory = 16
+
+// Geometry tells the member parser about the stored bridges.
+type Geometry interface {
+	// Labels returns the member labels of a stored bridge, keyed by their upper-case form
+	// (the file's case does not matter), in the geometry's order, a short description of the
+	// truss, and false when no bridge of that id is stored.
+	Labels(bridgeID string) (labels map[string]string, ordered []string, desc string, ok bool)
+}
+
+// StoredGeometry builds each stored bridge's truss on first use and keeps its labels.
+type StoredGeometry struct {
+	bridges map[string]store.Bridge
+	cache   map[string]*labelSet
+}
+
+type labelSet struct {
+	set     map[string]string
+	ordered []string
+	desc    string
+}
+
+// NewStoredGeometry indexes the bridges for label look-ups.
+func NewStoredGeometry(bridges []store.Bridge) *StoredGeometry {
+	g := &StoredGeometry{bridges: make(map[string]store.Bridge, len(bridges)), cache: map[string]*labelSet{}}
+	for _, b := range bridges {
+		g.bridges[b.BridgeID] = b
+	}
+	return g
+}
+
+// Labels implements Geometry.
+func (g *StoredGeometry) Labels(bridgeID string) (map[string]string, []string, string, bool) {
+	if ls, ok := g.cache[bridgeID]; ok {
+		return ls.set, ls.ordered, ls.desc, true
+	}
+	b, ok := g.bridges[bridgeID]
+	if !ok {
+		return nil, nil, "", false
+	}
+	ls := &labelSet{set: map[string]string{}}
+	p := geometryOf(b)
+	ls.desc = fmt.Sprintf("%s %s truss, %d panels", b.TrussType, b.Deck, b.Panels)
+	if t, err := truss.Build(p); err == nil {
+		ls.ordered = t.Labels()
+		for _, l := range ls.ordered {
+			ls.set[strings.ToUpper(l)] = l
+		}
+	} else {
+		// Stored bridges were built on import; one that no longer builds has no labels.
+		ls.desc += fmt.Sprintf(" that cannot be built (%v)", err)
+	}
+	g.cache[bridgeID] = ls
+	return ls.set, ls.ordered, ls.desc, true
+}
+
+// ParseMembers reads a members CSV file from r, checking every row against the stored
+// bridges' geometry, and calls emit with each good row, as ParseBridges does.
+func ParseMembers(file string, r io.Reader, geom Geometry, emit func(store.Staged[store.Member]) bool) (Report, error) {
+	return parseRows(file, r, memberColumns, func(rec memberRecord, p *row) bool {
+		m, ok := parseMember(rec, p, geom)
+		return !ok || emit(store.Staged[store.Member]{Line: p.line, Row: m})
+	})
+}
+
+func parseMember(r memberRecord, p *row, geom Geometry) (store.Member, bool) {
+	m := store.Member{
+		BridgeID:        p.text("bridge_id", r.BridgeID, true),
+		Member:          p.text("member", r.Member, true),
+		FatigueCategory: r.FatigueCategory,
+		ConditionFactor: 1,
+	}
+	m.CapacityTensionKN = p.quantity(colTension, r.CapacityTensionKN, r.CapacityTensionKip)
+	p.positive(p.pick(colTension), pickRaw(p, colTension, r.CapacityTensionKN, r.CapacityTensionKip), m.CapacityTensionKN)
+	m.CapacityCompressionKN = p.quantity(colCompression, r.CapacityCompressionKN, r.CapacityCompressionKip)
+	p.positive(p.pick(colCompression), pickRaw(p, colCompression, r.CapacityCompressionKN, r.CapacityCompressionKip), m.CapacityCompressionKN)
+	m.AreaMM2 = p.quantity(colArea, r.AreaMM2, r.AreaIn2)
+	p.positive(p.pick(colArea), pickRaw(p, colArea, r.AreaMM2, r.AreaIn2), m.AreaMM2)
+	m.RatingFactor = p.number("rating_factor", r.RatingFactor, false)
+	p.positive("rating_factor", r.RatingFactor, m.RatingFactor)
+	if r.ReferenceTrain != "" {
+		m.ReferenceTrain = &r.ReferenceTrain
+	}
+	switch {
+	case r.RatingFactor != "" && r.ReferenceTrain == "":
+		p.fail("reference_train", r.ReferenceTrain, "a rating_factor needs the reference_train it was rated for")
+	case r.RatingFactor == "" && r.ReferenceTrain != "":
+		p.fail("rating_factor", r.RatingFactor, "reference_train %q is given without a rating_factor", r.ReferenceTrain)
+	}
+	if f := p.number("condition_factor", r.ConditionFactor, false); f != nil {
+		m.ConditionFactor = *f
+		if !(*f > 0 && *f <= 1) {
+			p.fail("condition_factor", r.ConditionFactor, "must be greater than 0 and at most 1 (1: no loss of capacity)")
+		}
+	}
+	if len(r.FatigueCategory) > maxFatigueCategory {
+		p.fail("fatigue_category", r.FatigueCategory, "longer than %d characters", maxFatigueCategory)
+	}
+	noCapacity := r.CapacityTensionKN == "" && r.CapacityTensionKip == "" &&
+		r.CapacityCompressionKN == "" && r.CapacityCompressionKip == "" && r.RatingFactor == ""
+	if noCapacity {
+		p.fail(p.pick(colTension), "", "no capacity: give capacity_tension and/or capacity_compression, "+
+			"or a rating_factor with its reference_train")
+	}
+	if m.BridgeID != "" && m.Member != "" {
+		set, ordered, desc, ok := geom.Labels(m.BridgeID)
+		switch {
+		case !ok:
+			p.fail("bridge_id", r.BridgeID, "no such bridge in the inventory (import its bridges.csv row first)")
+		case set[strings.ToUpper(m.Member)] == "":
+			p.fail("member", r.Member, "bridge %s (%s) has no member of that label; its members are: %s",
+				m.BridgeID, desc, strings.Join(ordered, ", "))
+		default:
+			m.Member = set[strings.ToUpper(m.Member)]
+		}
+	}
+	return m, p.ok
+}
