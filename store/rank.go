@@ -87,3 +87,55 @@ func (db *DB) FlagTotals(ctx context.Context, runID int64) (members map[string]i
 		runID).Scan(&bridgesFlagged)
 	return members, bridgesFlagged, err
 }
+
+// FlaggedMember is one member of the member-level priority list.
+type FlaggedMember struct {
+	BridgeRank     int
+	BridgeID       string
+	Name           string
+	Member         string
+	Kind           string
+	RFExisting     *float64
+	RFProposed     *float64
+	Sense          string
+	DemandIncrease float64
+	Flags          []string
+	DeadKN         float64
+	LiveMaxKN      float64
+	LiveMinKN      float64
+	Impact         float64
+	Train          string // the proposed train governing the member's rated sense
+	HeadM          *float64
+	Direction      string
+	FromM, ToM     *float64
+}
+
+// FlaggedMembers lists a run's members that carry any flag, in the bridges' priority order
+// and, within a bridge, by proposed RF.
+func (db *DB) FlaggedMembers(ctx context.Context, runID int64) ([]FlaggedMember, error) {
+	rows, err := db.Pool.Query(ctx, `WITH ranked AS (
+			SELECT r.bridge_id, row_number() OVER (ORDER BY `+rankOrder+`) AS rank FROM run_bridges r
+			WHERE r.run_id = $1 AND r.status <> 'pending')
+		SELECT k.rank, a.bridge_id, coalesce(b.name, ''), a.member, p.kind, a.rf_existing, a.rf_proposed,
+			a.sense_proposed, a.demand_increase, a.flags, p.dead_kn, p.live_max_kn, p.live_min_kn, p.impact,
+			CASE WHEN a.sense_proposed = 'compression' THEN p.min_train ELSE p.max_train END,
+			CASE WHEN a.sense_proposed = 'compression' THEN p.min_head_m ELSE p.max_head_m END,
+			CASE WHEN a.sense_proposed = 'compression' THEN p.min_direction ELSE p.max_direction END,
+			CASE WHEN a.sense_proposed = 'compression' THEN p.min_from_m ELSE p.max_from_m END,
+			CASE WHEN a.sense_proposed = 'compression' THEN p.min_to_m ELSE p.max_to_m END
+		FROM member_assessments a
+		JOIN ranked k ON k.bridge_id = a.bridge_id
+		JOIN member_results p ON p.run_id = a.run_id AND p.bridge_id = a.bridge_id AND p.member = a.member AND p.scenario = 'proposed'
+		LEFT JOIN bridges b ON b.bridge_id = a.bridge_id
+		WHERE a.run_id = $1 AND cardinality(a.flags) > 0
+		ORDER BY k.rank, a.rf_proposed ASC NULLS LAST, a.member`, runID)
+	if err != nil {
+		return nil, fmt.Errorf("flagged members of run %d: %w", runID, err)
+	}
+	return pgx.CollectRows(rows, func(r pgx.CollectableRow) (FlaggedMember, error) {
+		var m FlaggedMember
+		return m, r.Scan(&m.BridgeRank, &m.BridgeID, &m.Name, &m.Member, &m.Kind, &m.RFExisting, &m.RFProposed,
+			&m.Sense, &m.DemandIncrease, &m.Flags, &m.DeadKN, &m.LiveMaxKN, &m.LiveMinKN, &m.Impact, &m.Train,
+			&m.HeadM, &m.Direction, &m.FromM, &m.ToM)
+	})
+}

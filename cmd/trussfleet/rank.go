@@ -1,0 +1,91 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"strings"
+	"text/tabwriter"
+
+	"github.com/spf13/cobra"
+	"github.com/trussfleet/trussfleet/store"
+)
+
+func init() { commands = append(commands, newRankCmd) }
+
+func newRankCmd(a *app) *cobra.Command {
+	var runID int64
+	var limit int
+	cmd := &cobra.Command{
+		Use:   "rank",
+		Short: "Print the priority list of a run (default: the latest completed run)",
+		Args:  cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, _ []string) error {
+			ctx := cmd.Context()
+			db, err := a.openDatabase(ctx)
+			if err != nil {
+				return err
+			}
+			defer db.Close()
+			run, err := pickRun(ctx, db, runID)
+			if err != nil {
+				return err
+			}
+			rows, err := db.Ranked(ctx, run.ID, limit)
+			if err != nil {
+				return err
+			}
+			w := cmd.OutOrStdout()
+			fmt.Fprintf(w, "Priority list, run %d (%s, started %s)\n\n", run.ID, run.Status, run.StartedAt.Format("2006-01-02 15:04"))
+			tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+			fmt.Fprintln(tw, "rank\tbridge\tname\tline\tkm\ttype\tspan m\tworst\tRF ex\tRF pr\tchange\tdemand +\theadroom\tflags\tgoverning train (where)\tinspected")
+			for _, r := range rows {
+				flags := strings.Join(r.Flags, ",")
+				if r.Status == "failed" {
+					flags = "FAILED: " + r.Error
+				}
+				fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%.1f\t%s\t%s\t%s\t%s\t%.0f%%\t%s\t%s\t%s\t%s\n",
+					r.Rank, r.BridgeID, r.Name, r.Line, fmtOpt(r.ChainageKm, "%.3f"), r.TrussType, r.SpanM, r.WorstMember,
+					fmtRF(r.RFExisting), fmtRF(r.RFProposed), fmtPct(r.Change), 100*r.DemandIncrease, fmtOpt(r.Headroom, "%.2f×"),
+					flags, governing(r.GoverningTrain, r.GoverningSense, r.GoverningDirection, r.GoverningHeadM), r.LastInspected)
+			}
+			if err := tw.Flush(); err != nil {
+				return err
+			}
+			fmt.Fprintln(w)
+			printCaution(w)
+			return nil
+		},
+	}
+	cmd.Flags().Int64Var(&runID, "run", 0, "run id (default: the latest completed run)")
+	cmd.Flags().IntVar(&limit, "limit", 0, "show only the first N bridges")
+	return cmd
+}
+
+// pickRun is the run asked for, or the latest completed one.
+func pickRun(ctx context.Context, db *store.DB, id int64) (store.Run, error) {
+	if id > 0 {
+		return db.GetRun(ctx, id)
+	}
+	return db.LatestRun(ctx, true)
+}
+
+func fmtOpt(v *float64, format string) string {
+	if v == nil {
+		return "—"
+	}
+	return fmt.Sprintf(format, *v)
+}
+
+func fmtPct(v *float64) string {
+	if v == nil {
+		return "—"
+	}
+	return fmt.Sprintf("%+.0f%%", 100**v)
+}
+
+func governing(train, sense, dir string, head *float64) string {
+	if train == "" {
+		return "—"
+	}
+	return fmt.Sprintf("%s, %s, head at %s m, %s", train, sense, fmtOpt(head, "%.1f"), dir)
+}
