@@ -38,7 +38,7 @@ var (
 	lines    = []string{"Northmoor Main Line", "Eastfell Valley Branch", "Harlow Moss Loop", "Skelbrigg Mineral Line", "Coldwater Junction Spur"}
 	prefixes = []string{"Mor", "Tal", "Fen", "Cor", "Bram", "Hel", "Lin", "Quen", "Sar", "Wend", "Yar", "Dru", "Ost", "Pell", "Rav", "Ulm"}
 	suffixes = []string{"wick", "holme", "beck", "stead", "moor", "dale", "garth", "ridge", "water", "thwaite", "sike", "fold"}
-	kinds    = []string{"Viaduct", "Bridge", "Underbridge", "Water Bridge"}
+	kinds    = []string{"Viaduct", "Bridge", "Underbridge", "Girders"}
 )
 
 // BridgeHeader and MemberHeader are the CSV columns written.
