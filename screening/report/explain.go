@@ -1,0 +1,291 @@
+package report
+
+import (
+	"fmt"
+	"io"
+	"sort"
+	"strings"
+	"text/tabwriter"
+
+	"github.com/trussfleet/trussfleet/screening/analysis"
+	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/traffic"
+	"github.com/trussfleet/trussfleet/screening/truss"
+)
+
+// Explain writes to w, for a terminal, everything behind one member's result: the bridge's
+// and the member's geometry, the member's influence line, every train's extremes and where
+// it stood (every train of the run's scenarios where run.Trains holds their definitions, the
+// governing ones otherwise), the dynamic allowance, the loads of the governing placement
+// with their sum, the rating arithmetic and why the member is flagged. Texts from the
+// inventory are written with control characters removed.
+func Explain(w io.Writer, run Run, b Bridge, member string) error {
+	idx := -1
+	for i, m := range b.Members {
+		if m.Label == member {
+			idx = i
+		}
+	}
+	t, err := truss.Build(b.Truss)
+	if err != nil {
+		return fmt.Errorf("bridge %s: rebuilding its %s geometry: %w", b.Row.BridgeID, b.Truss.Type, err)
+	}
+	if idx < 0 {
+		labels := make([]string, len(b.Members))
+		for i, m := range b.Members {
+			labels[i] = m.Label
+		}
+		if len(labels) == 0 {
+			labels = t.Labels()
+		}
+		return fmt.Errorf("bridge %s has no member %q; its members: %s", plain(b.Row.BridgeID), plain(member), strings.Join(labels, ", "))
+	}
+	k := t.Member(member)
+	if k < 0 {
+		return fmt.Errorf("bridge %s: member %q is not in the rebuilt %s geometry (members: %s)", plain(b.Row.BridgeID), plain(member), t.Params.Type, strings.Join(t.Labels(), ", "))
+	}
+	lines, err := analysis.InfluenceLines(t, analysis.Options{})
+	if err != nil {
+		return fmt.Errorf("bridge %s: influence lines: %w", plain(b.Row.BridgeID), err)
+	}
+	m := b.Members[idx]
+	eta := lines.Members[k].Ordinates
+	ew := &errWriter{w: w}
+	p := func(format string, a ...any) { fmt.Fprintf(ew, format, a...) }
+
+	r := b.Row
+	p("Bridge %s  %s\n", plain(r.BridgeID), plain(r.Name))
+	where := []string{}
+	if r.Line != "" {
+		where = append(where, plain(r.Line))
+	}
+	if r.ChainageKm != nil {
+		where = append(where, "km "+num(*r.ChainageKm, 3))
+	}
+	if r.Rank > 0 {
+		where = append(where, fmt.Sprintf("rank %d", r.Rank))
+	}
+	if len(where) > 0 {
+		p("  %s\n", strings.Join(where, ", "))
+	}
+	tp := t.Params
+	p("  %s truss, %s, span %s m, %d panels, depth %s m", tp.Type, orText(tp.Deck, truss.Through), num(tp.SpanM, 2), tp.Panels, num(tp.DepthM, 2))
+	if tp.EndPosts != "" {
+		p(", %s end posts", tp.EndPosts)
+	}
+	p("\n  truss share %s x %d track(s) = %s of each train's load; dead load %s kN/m on this truss\n",
+		num(b.TrussShare, 3), max(b.Tracks, 1), num(shareOf(b), 3), num(b.DeadLoadKNPerM, 2))
+	p("Screening run %d (%s): %s\n\n", run.ID, orDash(run.Status), equation(run))
+
+	mb := t.Members[k]
+	ja, jb := t.Joints[mb.A], t.Joints[mb.B]
+	p("Member %s (%s), joint %s (%s, %s) to %s (%s, %s), length %s m\n", m.Label, mb.Kind,
+		ja.Name, num(ja.X, 2), num(ja.Y, 2), jb.Name, num(jb.X, 2), num(jb.Y, 2), num(t.LengthM(k), 3))
+	if len(m.Flags) > 0 {
+		p("Flags: %s\n", strings.Join(m.Flags, ", "))
+	} else {
+		p("Flags: none\n")
+	}
+
+	p("\nInfluence line: force in %s (kN, tension +) per kN of load at each deck panel point\n", m.Label)
+	tw := tabwriter.NewWriter(ew, 0, 0, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprintln(tw, "  x (m)\teta\t")
+	for i, x := range lines.X {
+		fmt.Fprintf(tw, "  %s\t%s\t\n", num(x, 3), num(clean(eta[i]), 4))
+	}
+	_ = tw.Flush()
+	pos, neg := analysis.Areas(lines.X, eta)
+	p("  areas: %s and %s m (kN per kN/m)", signed(clean(pos), 3), signed(clean(neg), 3))
+	if zs := analysis.SignChanges(lines.X, eta); len(zs) > 0 {
+		s := make([]string, len(zs))
+		for i, z := range zs {
+			s[i] = num(z, 3)
+		}
+		p("; changes sign at x = %s m", strings.Join(s, ", "))
+	}
+	p("\n  dead load D = w x net area = %s kN/m x %s m = %s kN\n", num(b.DeadLoadKNPerM, 2), signed(clean(pos+neg), 3), signed(b.DeadLoadKNPerM*(pos+neg), 1))
+
+	for _, sc := range []struct {
+		name string
+		s    Scenario
+	}{{"existing", m.Existing}, {"proposed", m.Proposed}} {
+		p("\n%s traffic", capitalise(sc.name))
+		if names := run.Scenarios[sc.name]; len(names) > 0 {
+			p(" (%s)", plain(strings.Join(names, ", ")))
+		}
+		p(": dynamic allowance %s gives 1 + I = %s\n", orDash(run.Dynamic), num(sc.s.Impact, 3))
+		explainTrains(ew, run, b, lines.X, eta, sc.name, sc.s)
+		for _, g := range []struct {
+			sense string
+			sign  float64
+			e     envelope.Extreme
+			tr    *traffic.Train
+		}{{"tension", 1, sc.s.Max, sc.s.MaxTrain}, {"compression", -1, sc.s.Min, sc.s.MinTrain}} {
+			if !g.e.Loaded || g.e.Value == 0 {
+				continue
+			}
+			p("  governing %s: %s kN, %s, %s\n", g.sense, signed(g.e.Value, 1), plain(orDash(g.e.Train)), placementWords(g.e, g.tr))
+			if g.tr != nil && sc.name == "proposed" && g.sign == governing(m) {
+				explainLoads(ew, g.tr, g.e, t.SpanM(), lines.X, eta, g.sign, shareOf(b))
+			}
+		}
+	}
+
+	p("\nRating (%s)\n", equation(run))
+	tw = tabwriter.NewWriter(ew, 0, 0, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprintln(tw, "  traffic\tsense\tbasis\theld kN\tcond.\tC kN\tD kN\tL kN\t1 + I\tRF\t")
+	for _, c := range append(senses(m, "existing", m.Existing), senses(m, "proposed", m.Proposed)...) {
+		v := calcOf(c)
+		mark := ""
+		if c.Governs {
+			mark = " *"
+		}
+		fmt.Fprintf(tw, "  %s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s%s\t\n", v.Scenario, v.Sense, v.Basis, v.Held, v.Cond, v.C, v.D, v.L, v.Impact, v.RF, mark)
+	}
+	_ = tw.Flush()
+	p("  * the lowest RF of the traffic\n")
+	if m.StoredRF != nil {
+		p("  rated by the load-effect ratio from the stored RF %s for %s: RF = RF_ref x L_ref(1 + I) / (L(1 + I))\n", num(*m.StoredRF, 2), plain(orDash(m.ReferenceTrain)))
+	}
+	p("  existing RF %s, proposed RF %s", rfText(m.RFExisting), rfText(m.RFProposed))
+	if m.SenseProposed != "" {
+		p(" (%s)", m.SenseProposed)
+	}
+	p("\n\nWhy flagged\n")
+	if rs := reasons(run, m); len(rs) > 0 {
+		for _, s := range rs {
+			p("  - %s\n", s)
+		}
+	} else {
+		flag, review := thresholds(run)
+		p("  not flagged: the proposed RF %s is at or above the review threshold %s (flag threshold %s) and no other flag applies.\n", rfText(m.RFProposed), num(review, 2), num(flag, 2))
+	}
+	p("\n")
+	for _, c := range Caution {
+		p("CAUTION: %s\n", c)
+	}
+	return ew.err
+}
+
+// explainTrains lists each train's extremes on the member, recomputed exactly from the
+// train definitions the run holds.
+func explainTrains(w io.Writer, run Run, b Bridge, xs, eta []float64, scenario string, s Scenario) {
+	names := run.Scenarios[scenario]
+	var trains []*traffic.Train
+	for _, n := range names {
+		if tr := findTrain(run.Trains, n); tr != nil {
+			trains = append(trains, tr)
+		}
+	}
+	if len(trains) == 0 || len(trains) != len(names) {
+		return
+	}
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprintln(tw, "  train\tmax kN\twhere\tmin kN\twhere\t")
+	for _, tr := range trains {
+		ex, err := envelope.Compute(xs, [][]float64{eta}, tr, envelope.Options{Share: shareOf(b)})
+		if err != nil {
+			fmt.Fprintf(tw, "  %s\t%s\t\t\t\t\n", plain(tr.Name), err)
+			continue
+		}
+		e := ex[0]
+		fmt.Fprintf(tw, "  %s\t%s\t%s\t%s\t%s\t\n", plain(tr.Name), signed(e.Max.Value, 1), placementWords(e.Max, tr), signed(e.Min.Value, 1), placementWords(e.Min, tr))
+	}
+	_ = tw.Flush()
+}
+
+// findTrain looks a train up by its name or by the name it was configured with.
+func findTrain(trains map[string]*traffic.Train, name string) *traffic.Train {
+	if tr, ok := trains[name]; ok {
+		return tr
+	}
+	keys := make([]string, 0, len(trains))
+	for k := range trains {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	for _, k := range keys {
+		if strings.EqualFold(strings.ReplaceAll(trains[k].Name, " ", "-"), name) {
+			return trains[k]
+		}
+	}
+	return nil
+}
+
+func placementWords(e envelope.Extreme, tr *traffic.Train) string {
+	if !e.Loaded {
+		return "no train on the bridge"
+	}
+	s := fmt.Sprintf("%s, front at %s m", e.Direction, num(e.HeadM, 2))
+	if tr != nil && tr.Variable() {
+		s += fmt.Sprintf(", %d in last group", e.Count)
+	}
+	if e.LoadedToM > e.LoadedFromM {
+		s += fmt.Sprintf(", loading %s to %s m", num(e.LoadedFromM, 2), num(e.LoadedToM, 2))
+	}
+	if e.TrailingM > 0 {
+		s += fmt.Sprintf(", trailing load %s m", num(e.TrailingM, 2))
+	}
+	return s
+}
+
+// explainLoads lists the governing placement's loads with their effect, so that the sum
+// can be followed by hand.
+func explainLoads(w io.Writer, tr *traffic.Train, e envelope.Extreme, span float64, xs, eta []float64, sign, share float64) {
+	ob := placeTrain(tr, e.Placement, span, xs, eta, sign)
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
+	if len(ob.Axles) > 0 {
+		fmt.Fprintln(tw, "    axle\tx (m)\tP (kN)\teta\tP x eta\t")
+		for i, a := range ob.Axles {
+			h := analysis.Interpolate(xs, eta, a.XM)
+			fmt.Fprintf(tw, "    %d\t%s\t%s\t%s\t%s\t\n", i+1, num(a.XM, 3), num(a.LoadKN, 1), num(clean(h), 4), signed(a.LoadKN*h, 1))
+		}
+	}
+	_ = tw.Flush()
+	tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
+	if len(ob.Stretches) > 0 {
+		fmt.Fprintln(tw, "    from (m)\tto (m)\tq (kN/m)\tintegral eta\tq x integral\t")
+		for _, s := range ob.Stretches {
+			in := integral(xs, eta, s.FromM, s.ToM)
+			fmt.Fprintf(tw, "    %s\t%s\t%s\t%s\t%s\t\n", num(s.FromM, 3), num(s.ToM, 3), num(s.QKNPerM, 2), num(clean(in), 4), signed(s.QKNPerM*in, 1))
+		}
+	}
+	_ = tw.Flush()
+	eff := ob.effect(xs, eta)
+	fmt.Fprintf(w, "    sum %s kN x truss share %s = %s kN (L as screened: %s kN)\n", signed(eff, 1), num(share, 3), signed(eff*share, 1), signed(e.Value, 1))
+}
+
+func capitalise(s string) string {
+	if s == "" {
+		return s
+	}
+	return strings.ToUpper(s[:1]) + s[1:]
+}
+
+// plain removes control characters (terminal escape sequences among them) from inventory
+// text written to a terminal.
+func plain(s string) string {
+	return strings.Map(func(r rune) rune {
+		if r < 0x20 || r == 0x7f || (r >= 0x80 && r < 0xa0) {
+			return -1
+		}
+		return r
+	}, s)
+}
+
+// errWriter keeps the first write error so that the explanation reads straight through.
+type errWriter struct {
+	w   io.Writer
+	err error
+}
+
+func (e *errWriter) Write(p []byte) (int, error) {
+	if e.err != nil {
+		return len(p), nil
+	}
+	n, err := e.w.Write(p)
+	if err != nil {
+		e.err = err
+	}
+	return n, nil
+}

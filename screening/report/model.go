@@ -1,0 +1,112 @@
+package report
+
+import (
+	"time"
+
+	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/rating"
+	"github.com/trussfleet/trussfleet/screening/traffic"
+	"github.com/trussfleet/trussfleet/screening/truss"
+)
+
+// Run describes the screening run a report shows.
+type Run struct {
+	ID             int64
+	Status         string // running, completed, interrupted, failed
+	StartedAt      time.Time
+	FinishedAt     time.Time // zero while running
+	ProgramVersion string
+	ConfigHash     string
+	// Scenarios maps "existing" and "proposed" to the names of their trains.
+	Scenarios map[string][]string
+	Dynamic   string // the dynamic allowance as configured, e.g. "phi3"
+	Method    string // rating method, e.g. "working-stress"
+	// Factors are the factored method's factors, shown in its rating equation; ignored
+	// unless Factors.Factored (added by the report).
+	Factors rating.Method
+	// Trains holds the train definitions by each name in Scenarios (and, where different,
+	// by the name the extremes give), so that Explain can show every train's extreme; nil
+	// shows the governing trains only (added by the report).
+	Trains map[string]*traffic.Train
+	// Thresholds: RF below Flag is "exceeds", below Review is "review"; WorseFraction for "worse".
+	Flag, Review, WorseFraction float64
+	// FlagCounts counts members per flag over the run; BridgesFlagged the bridges with any flag.
+	FlagCounts     map[string]int
+	BridgesTotal   int
+	BridgesFailed  int
+	BridgesFlagged int
+}
+
+// BridgeRow is one line of the priority list.
+type BridgeRow struct {
+	Rank                   int
+	BridgeID, Name, Line   string
+	ChainageKm             *float64
+	TrussType              string
+	SpanM                  float64
+	Panels                 int
+	WorstMember            string
+	RFExisting, RFProposed *float64 // nil: no member with capacity data
+	// Change is RFProposed/RFExisting − 1 (negative when the RF falls).
+	Change *float64
+	// DemandIncrease is the largest member live-demand increase, as a fraction.
+	DemandIncrease float64
+	Headroom       *float64 // multiple of the proposed traffic carried at RF = 1
+	Flags          []string // distinct flags of the bridge's members, in report order
+	FlagCounts     map[string]int
+	// Governing train of the worst member and where it stood.
+	GoverningTrain     string
+	GoverningSense     string // tension or compression
+	GoverningHeadM     *float64
+	GoverningDirection string
+	GoverningFromM     *float64
+	GoverningToM       *float64
+	LastInspected      string // YYYY-MM-DD or ""
+	// Status is "done" or "failed"; Error says why a bridge failed.
+	Status, Error string
+}
+
+// Bridge is a bridge page: its row, its geometry and every member's numbers.
+type Bridge struct {
+	Row BridgeRow
+	// Truss is the geometry as screened; the report rebuilds the truss and its influence
+	// lines from it (cheap and exact).
+	Truss          truss.Params
+	TrussShare     float64
+	Tracks         int
+	DeadLoadKNPerM float64
+	Members        []Member
+}
+
+// Member is one member's rating arithmetic under both scenarios.
+type Member struct {
+	Label                  string
+	Kind                   string
+	Flags                  []string
+	RFExisting, RFProposed *float64
+	// SenseProposed is the sense of the proposed RF (tension or compression).
+	SenseProposed string
+	DeadKN        float64 // D
+	// Capacities as held (nil when not held), before the condition factor.
+	CapacityTensionKN, CapacityCompressionKN *float64
+	ConditionFactor                          float64
+	// Stored rating factor and its reference train, when the member is rated by the
+	// load-effect ratio.
+	StoredRF           *float64
+	ReferenceTrain     string
+	Existing, Proposed Scenario
+}
+
+// Scenario is a member's live-load envelope under one scenario (kN after the truss share,
+// before the dynamic allowance) and its rating factors.
+type Scenario struct {
+	LiveMaxKN, LiveMinKN float64 // L, tension positive
+	Impact               float64 // 1 + I
+	RFTension            *float64
+	RFCompression        *float64
+	Basis                string // "capacity" or "stored rating factor"
+	// The extremes with their placements; Max/MinTrain is the train's definition for
+	// drawing its axles on the influence line (nil when not known).
+	Max, Min           envelope.Extreme
+	MaxTrain, MinTrain *traffic.Train
+}

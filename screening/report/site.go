@@ -1,0 +1,553 @@
+package report
+
+import (
+	"bytes"
+	"crypto/sha256"
+	"embed"
+	"encoding/base64"
+	"errors"
+	"fmt"
+	"html/template"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"regexp"
+	"sort"
+	"strconv"
+	"strings"
+
+	"github.com/trussfleet/trussfleet/screening/analysis"
+	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/traffic"
+	"github.com/trussfleet/trussfleet/screening/truss"
+)
+
+//go:embed assets/*.tmpl assets/style.css assets/sort.js
+var assets embed.FS
+
+// pages holds the parsed templates; the CSS and the script are parsed as templates of
+// literal text, so they are written as they are.
+var pages = template.Must(parsePages())
+
+// csp allows the pages' own inline style and script (by its hash) and nothing else: no
+// network, no other script, even if some text were to slip past the escaping.
+var csp string
+
+func parsePages() (*template.Template, error) {
+	css, err := assets.ReadFile("assets/style.css")
+	if err != nil {
+		return nil, err
+	}
+	js, err := assets.ReadFile("assets/sort.js")
+	if err != nil {
+		return nil, err
+	}
+	sum := sha256.Sum256(js)
+	csp = "default-src 'none'; style-src 'unsafe-inline'; img-src data:; script-src 'sha256-" + base64.StdEncoding.EncodeToString(sum[:]) + "'"
+	t := template.New("report")
+	if _, err := t.New("css").Parse(string(css)); err != nil {
+		return nil, err
+	}
+	if _, err := t.New("js").Parse(string(js)); err != nil {
+		return nil, err
+	}
+	return t.ParseFS(assets, "assets/*.tmpl")
+}
+
+// marker names the file that says a folder holds a report this package wrote, so that
+// WriteSite replaces only its own output.
+const marker = ".trussfleet-report"
+
+// WriteSite writes the report of a run into dir: index.html with every row, and one page per
+// bridge that is screened and flagged, its detail loaded by bridge(id). The site is built in
+// a temporary folder beside dir and then put in place, so dir holds either the previous
+// report or the new one, never a half-written one. dir must be absent, empty, or a report
+// written before. An error from bridge stops the write and names the bridge.
+func WriteSite(dir string, run Run, rows []BridgeRow, bridge func(id string) (Bridge, error)) error {
+	if dir == "" {
+		return errors.New("report folder: empty path")
+	}
+	dir = filepath.Clean(dir)
+	if err := checkTarget(dir); err != nil {
+		return err
+	}
+	parent := filepath.Dir(dir)
+	if err := os.MkdirAll(parent, 0o755); err != nil {
+		return fmt.Errorf("report folder %s: %w", dir, err)
+	}
+	tmp, err := os.MkdirTemp(parent, "."+filepath.Base(dir)+".new-*")
+	if err != nil {
+		return fmt.Errorf("report folder %s: %w", dir, err)
+	}
+	defer os.RemoveAll(tmp) // a no-op once renamed
+	if err := writeAll(tmp, run, rows, bridge); err != nil {
+		return err
+	}
+	if err := os.Chmod(tmp, 0o755); err != nil {
+		return err
+	}
+	return swap(tmp, dir)
+}
+
+func checkTarget(dir string) error {
+	entries, err := os.ReadDir(dir)
+	switch {
+	case errors.Is(err, os.ErrNotExist):
+		return nil
+	case err != nil:
+		return fmt.Errorf("report folder %s: %w", dir, err)
+	case len(entries) == 0:
+		return nil
+	}
+	if _, err := os.Stat(filepath.Join(dir, marker)); err != nil {
+		return fmt.Errorf("report folder %s: exists and holds files that are not a trussfleet report; name a new or empty folder", dir)
+	}
+	return nil
+}
+
+// swap puts the new site in place of dir, keeping the old one until the new one is there.
+func swap(tmp, dir string) error {
+	old := ""
+	if _, err := os.Stat(dir); err == nil {
+		o, err := os.MkdirTemp(filepath.Dir(dir), "."+filepath.Base(dir)+".old-*")
+		if err != nil {
+			return err
+		}
+		if err := os.Remove(o); err != nil {
+			return err
+		}
+		if err := os.Rename(dir, o); err != nil {
+			return fmt.Errorf("report folder %s: moving the previous report aside: %w", dir, err)
+		}
+		old = o
+	}
+	if err := os.Rename(tmp, dir); err != nil {
+		if old != "" {
+			_ = os.Rename(old, dir)
+		}
+		return fmt.Errorf("report folder %s: %w", dir, err)
+	}
+	if old != "" {
+		return os.RemoveAll(old)
+	}
+	return nil
+}
+
+func writeAll(dir string, run Run, rows []BridgeRow, bridge func(id string) (Bridge, error)) error {
+	names := pageNames(rows)
+	if err := writeFile(filepath.Join(dir, "index.html"), func(w io.Writer) error {
+		return pages.ExecuteTemplate(w, "index.tmpl", indexPage(run, rows, names))
+	}); err != nil {
+		return err
+	}
+	for _, r := range rows {
+		name, ok := names[r.BridgeID]
+		if !ok {
+			continue
+		}
+		b, err := bridge(r.BridgeID)
+		if err != nil {
+			return fmt.Errorf("bridge %s: loading its detail: %w", r.BridgeID, err)
+		}
+		if err := writeFile(filepath.Join(dir, name), func(w io.Writer) error {
+			return pages.ExecuteTemplate(w, "bridge.tmpl", bridgePage(run, b))
+		}); err != nil {
+			return fmt.Errorf("bridge %s: %w", r.BridgeID, err)
+		}
+	}
+	return writeFile(filepath.Join(dir, marker), func(w io.Writer) error {
+		_, err := fmt.Fprintf(w, "trussfleet report of screening run %d\n", run.ID)
+		return err
+	})
+}
+
+func writeFile(path string, render func(io.Writer) error) error {
+	var buf bytes.Buffer
+	if err := render(&buf); err != nil {
+		return fmt.Errorf("%s: %w", filepath.Base(path), err)
+	}
+	return os.WriteFile(path, buf.Bytes(), 0o644)
+}
+
+// hasPage says whether a row gets a bridge page: screened, with a flag.
+func hasPage(r BridgeRow) bool { return r.Status != "failed" && r.Error == "" && len(r.Flags) > 0 }
+
+var safeName = regexp.MustCompile(`^[A-Za-z0-9][A-Za-z0-9._-]{0,80}$`)
+
+// pageNames gives each paged bridge its file name: its ID where that is a plain file name,
+// else the ID's plain characters and a hash of it.
+func pageNames(rows []BridgeRow) map[string]string {
+	out := map[string]string{}
+	for _, r := range rows {
+		if !hasPage(r) {
+			continue
+		}
+		id := r.BridgeID
+		if safeName.MatchString(id) && !strings.EqualFold(id, "index") {
+			out[id] = "bridge-" + id + ".html"
+			continue
+		}
+		plain := strings.Map(func(c rune) rune {
+			if c < 128 && (c == '-' || c == '_' || c >= '0' && c <= '9' || c >= 'A' && c <= 'Z' || c >= 'a' && c <= 'z') {
+				return c
+			}
+			return -1
+		}, id)
+		if len(plain) > 40 {
+			plain = plain[:40]
+		}
+		sum := sha256.Sum256([]byte(id))
+		out[id] = fmt.Sprintf("bridge-%s-%x.html", plain, sum[:5])
+	}
+	return out
+}
+
+type keyValue struct{ Key, Value string }
+
+type pageBase struct {
+	Title   string
+	CSP     string
+	Run     Run
+	Caution []string
+}
+
+func base(run Run, title string) pageBase {
+	return pageBase{Title: title, CSP: csp, Run: run, Caution: Caution}
+}
+
+type indexView struct {
+	pageBase
+	Summary  string
+	FlagRows []flagRow
+	Config   []keyValue
+	Rows     []rowView
+}
+
+type flagRow struct {
+	Flags            []string
+	Meaning          string
+	Members, Bridges int
+}
+
+type rowView struct {
+	Failed                                  bool
+	ID, Name, Line, Href, Truss, Worst      string
+	Rank, RankKey, Km, KmKey, Span, SpanKey string
+	RFEx, RFExKey, RFPr, RFPrKey, RFClass   string
+	Change, ChangeKey, Rise, RiseKey        string
+	Flags                                   []string
+	Governing, GovSense, Inspected, Error   string
+}
+
+func indexPage(run Run, rows []BridgeRow, names map[string]string) indexView {
+	v := indexView{pageBase: base(run, fmt.Sprintf("Screening run %d: priority list", run.ID))}
+	total := run.BridgesTotal
+	if total == 0 {
+		total = len(rows)
+	}
+	v.Summary = fmt.Sprintf("%d bridges screened, %d flagged, %d failed · status %s", total, run.BridgesFlagged, run.BridgesFailed, orDash(run.Status))
+	bridgesPer := map[string]int{}
+	var extra []string
+	for _, r := range rows {
+		for _, f := range r.Flags {
+			bridgesPer[f]++
+		}
+		extra = append(extra, r.Flags...)
+	}
+	for k := range run.FlagCounts {
+		extra = append(extra, k)
+	}
+	sort.Strings(extra)
+	for _, f := range flagOrder(extra) {
+		v.FlagRows = append(v.FlagRows, flagRow{Flags: []string{f}, Meaning: orText(flagMeaning[f], "set by the screening run"), Members: run.FlagCounts[f], Bridges: bridgesPer[f]})
+	}
+	v.Config = runConfig(run)
+	for _, r := range rows {
+		v.Rows = append(v.Rows, rowOf(run, r, names[r.BridgeID]))
+	}
+	return v
+}
+
+func runConfig(run Run) []keyValue {
+	flag, review := thresholds(run)
+	kv := []keyValue{
+		{"run", fmt.Sprintf("%d (%s)", run.ID, orDash(run.Status))},
+		{"started", timeText(run.StartedAt.IsZero(), run.StartedAt.UTC().Format("2006-01-02 15:04 MST"))},
+		{"finished", timeText(run.FinishedAt.IsZero(), run.FinishedAt.UTC().Format("2006-01-02 15:04 MST"))},
+	}
+	for _, sc := range scenarioNames(run) {
+		kv = append(kv, keyValue{sc + " traffic", strings.Join(run.Scenarios[sc], ", ")})
+	}
+	kv = append(kv,
+		keyValue{"dynamic allowance", orDash(run.Dynamic)},
+		keyValue{"rating method", orDash(run.Method)},
+		keyValue{"equation", equation(run)},
+		keyValue{"thresholds", fmt.Sprintf("exceeds below %s, review below %s, worse when more than %s %% below existing", num(flag, 2), num(review, 2), num(100*run.WorseFraction, 0))},
+		keyValue{"program", orDash(run.ProgramVersion)},
+		keyValue{"configuration hash", orDash(run.ConfigHash)},
+	)
+	return kv
+}
+
+// scenarioNames lists existing and proposed first, then any others.
+func scenarioNames(run Run) []string {
+	var out []string
+	for _, s := range []string{"existing", "proposed"} {
+		if _, ok := run.Scenarios[s]; ok {
+			out = append(out, s)
+		}
+	}
+	var rest []string
+	for s := range run.Scenarios {
+		if s != "existing" && s != "proposed" {
+			rest = append(rest, s)
+		}
+	}
+	sort.Strings(rest)
+	return append(out, rest...)
+}
+
+func timeText(zero bool, s string) string {
+	if zero {
+		return dash
+	}
+	return s
+}
+
+func orDash(s string) string { return orText(s, dash) }
+
+func orText(s, alt string) string {
+	if s == "" {
+		return alt
+	}
+	return s
+}
+
+func rowOf(run Run, r BridgeRow, href string) rowView {
+	v := rowView{
+		Failed: r.Status == "failed" || r.Error != "",
+		ID:     r.BridgeID, Name: r.Name, Line: r.Line, Href: href,
+		Truss: r.TrussType, Worst: orDash(r.WorstMember),
+		Rank: strconv.Itoa(r.Rank), RankKey: strconv.Itoa(r.Rank),
+		Km: optNum(r.ChainageKm, 3), KmKey: sortKey(r.ChainageKm),
+		Span: num(r.SpanM, 1), SpanKey: sortKey(&r.SpanM),
+		RFEx: rfText(r.RFExisting), RFExKey: sortKey(r.RFExisting),
+		RFPr: rfText(r.RFProposed), RFPrKey: sortKey(r.RFProposed), RFClass: rfClass(run, r.RFProposed),
+		Change: pctText(r.Change), ChangeKey: sortKey(r.Change),
+		Rise: pctText(&r.DemandIncrease), RiseKey: sortKey(&r.DemandIncrease),
+		Flags: r.Flags, Inspected: orDash(r.LastInspected), Error: r.Error,
+	}
+	if r.Rank == 0 {
+		v.Rank, v.RankKey = dash, ""
+	}
+	if r.Panels > 0 {
+		v.Truss = fmt.Sprintf("%s, %d panels", r.TrussType, r.Panels)
+	}
+	if r.GoverningTrain != "" {
+		v.Governing, v.GovSense = r.GoverningTrain, r.GoverningSense
+	}
+	return v
+}
+
+func rfClass(run Run, rf *float64) string {
+	switch bandOf(run, rf).Key {
+	case "below":
+		return "rf-below"
+	case "review":
+		return "rf-review"
+	}
+	return ""
+}
+
+type bridgeView struct {
+	pageBase
+	Row        BridgeRow
+	Where      string
+	Facts      []keyValue
+	Problem    string
+	Elevation  *elevation
+	Bands      []band
+	DeckWord   string
+	MemberRows []memberRow
+	Equation   string
+	Sections   []section
+}
+
+type memberRow struct {
+	Label, Kind, Anchor, Sense            string
+	D, DKey, LMax, LMaxKey, LMin, LMinKey string
+	RFEx, RFExKey, RFPr, RFPrKey, RFClass string
+	Flags                                 []string
+}
+
+type section struct {
+	Label, Kind, Anchor string
+	Flags, Reasons      []string
+	Chart               *ilChart
+	Captions            []string
+	Calc                []calcView
+	Notes               []string
+}
+
+type calcView struct {
+	Scenario, Sense, Basis          string
+	Held, Cond, C, D, L, Impact, RF string
+	Governs                         bool
+}
+
+func bridgePage(run Run, b Bridge) bridgeView {
+	r := b.Row
+	v := bridgeView{pageBase: base(run, fmt.Sprintf("%s %s: screening run %d", r.BridgeID, r.Name, run.ID)), Row: r, Bands: bands(run), Equation: equation(run)}
+	where := []string{}
+	if r.Line != "" {
+		where = append(where, r.Line)
+	}
+	if r.ChainageKm != nil {
+		where = append(where, "km "+num(*r.ChainageKm, 3))
+	}
+	if r.Rank > 0 {
+		where = append(where, fmt.Sprintf("rank %d of %d", r.Rank, max(run.BridgesTotal, r.Rank)))
+	}
+	v.Where = strings.Join(where, " · ")
+	p := b.Truss
+	deck := orText(p.Deck, truss.Through)
+	v.DeckWord = map[bool]string{true: "deck truss, deck on the top chord", false: "through truss, deck on the bottom chord"}[deck == truss.DeckTop]
+	v.Facts = []keyValue{
+		{"truss", fmt.Sprintf("%s, %s", orDash(p.Type), deck)},
+		{"span", num(p.SpanM, 2) + " m"},
+		{"panels", strconv.Itoa(p.Panels)},
+		{"depth", num(p.DepthM, 2) + " m"},
+		{"tracks", strconv.Itoa(max(b.Tracks, 1))},
+		{"truss share", num(b.TrussShare, 3)},
+		{"dead load", num(b.DeadLoadKNPerM, 2) + " kN/m per truss"},
+		{"worst member", orDash(r.WorstMember)},
+		{"RF existing → proposed", rfText(r.RFExisting) + " → " + rfText(r.RFProposed)},
+		{"headroom", optNum(r.Headroom, 2) + " × proposed"},
+		{"inspected", orDash(r.LastInspected)},
+	}
+	byLabel := map[string]Member{}
+	for _, m := range b.Members {
+		byLabel[m.Label] = m
+	}
+	t, err := truss.Build(p)
+	var lines *analysis.Lines
+	if err == nil {
+		lines, err = analysis.InfluenceLines(t, analysis.Options{})
+	}
+	if err != nil {
+		v.Problem = "The truss could not be rebuilt from its stored geometry, so it is not drawn: " + err.Error()
+	} else {
+		e := drawElevation(t, run, byLabel)
+		v.Elevation = &e
+	}
+	for i, m := range b.Members {
+		anchor := ""
+		if len(m.Flags) > 0 {
+			anchor = fmt.Sprintf("m-%d", i)
+		}
+		v.MemberRows = append(v.MemberRows, memberRow{
+			Label: m.Label, Kind: m.Kind, Anchor: anchor, Sense: orDash(m.SenseProposed),
+			D: signed(m.DeadKN, 1), DKey: sortKey(&m.DeadKN),
+			LMax: num(m.Proposed.LiveMaxKN, 1), LMaxKey: sortKey(&m.Proposed.LiveMaxKN),
+			LMin: num(m.Proposed.LiveMinKN, 1), LMinKey: sortKey(&m.Proposed.LiveMinKN),
+			RFEx: rfText(m.RFExisting), RFExKey: sortKey(m.RFExisting),
+			RFPr: rfText(m.RFProposed), RFPrKey: sortKey(m.RFProposed), RFClass: rfClass(run, m.RFProposed),
+			Flags: m.Flags,
+		})
+		if anchor != "" {
+			v.Sections = append(v.Sections, memberSection(run, b, t, lines, i, anchor))
+		}
+	}
+	return v
+}
+
+func memberSection(run Run, b Bridge, t *truss.Truss, lines *analysis.Lines, i int, anchor string) section {
+	m := b.Members[i]
+	s := section{Label: m.Label, Kind: m.Kind, Anchor: anchor, Flags: m.Flags, Reasons: reasons(run, m)}
+	for _, c := range append(senses(m, "existing", m.Existing), senses(m, "proposed", m.Proposed)...) {
+		s.Calc = append(s.Calc, calcOf(c))
+	}
+	if m.StoredRF != nil {
+		s.Notes = append(s.Notes, fmt.Sprintf("Rated by the load-effect ratio from the stored RF %s for %s: RF = RF_ref · L_ref(1 + I) / (L(1 + I)).", num(*m.StoredRF, 2), orDash(m.ReferenceTrain)))
+	}
+	if lines == nil {
+		return s
+	}
+	k := t.Member(m.Label)
+	if k < 0 {
+		s.Captions = append(s.Captions, fmt.Sprintf("Member %s is not in the rebuilt %s geometry; its influence line is not drawn.", m.Label, t.Params.Type))
+		return s
+	}
+	eta := lines.Members[k].Ordinates
+	sign := governing(m)
+	ex, tr := m.Proposed.Max, m.Proposed.MaxTrain
+	sense := "tension"
+	if sign < 0 {
+		ex, tr, sense = m.Proposed.Min, m.Proposed.MinTrain, "compression"
+	}
+	ob := placeTrain(tr, ex.Placement, t.SpanM(), lines.X, eta, sign)
+	c := drawIL(fmt.Sprintf("m%d", i), m.Label, t.SpanM(), lines.X, eta, ob, ex.Direction == 0, ex.HeadM, ex.Loaded && tr != nil)
+	s.Chart = &c
+	pos, neg := analysis.Areas(lines.X, eta)
+	s.Captions = append(s.Captions, fmt.Sprintf("Influence line of %s: member force per unit load at each deck panel point; areas %s and %s m. Dead load D = %s kN/m × net area %s m = %s kN.",
+		m.Label, signed(clean(pos), 3), signed(clean(neg), 3), num(b.DeadLoadKNPerM, 2), signed(clean(pos+neg), 3), signed(b.DeadLoadKNPerM*(pos+neg), 1)))
+	s.Captions = append(s.Captions, placementText(ex, tr, ob, lines.X, eta, sense, shareOf(b)))
+	return s
+}
+
+// shareOf is the factor on a train's load for the analysed truss.
+func shareOf(b Bridge) float64 {
+	return b.TrussShare * float64(max(b.Tracks, 1))
+}
+
+// placementText says where the governing train stood and checks its effect against L.
+func placementText(ex envelope.Extreme, tr *traffic.Train, ob onBridge, xs, eta []float64, sense string, share float64) string {
+	if !ex.Loaded {
+		return fmt.Sprintf("No train loads the member in %s under the proposed traffic.", sense)
+	}
+	s := fmt.Sprintf("Proposed traffic, governing in %s: %s, %s, front at x = %s m", sense, orDash(ex.Train), ex.Direction, num(ex.HeadM, 2))
+	if ex.Count > 0 && tr != nil && tr.Variable() {
+		s += fmt.Sprintf(", %d vehicles in its last group", ex.Count)
+	}
+	if ex.LoadedToM > ex.LoadedFromM {
+		s += fmt.Sprintf("; loads x = %s to %s m", num(ex.LoadedFromM, 2), num(ex.LoadedToM, 2))
+	}
+	s += "."
+	if tr == nil {
+		return s + " (The train's definition is not held, so its loads are not drawn.)"
+	}
+	var parts []string
+	if n := len(ob.Axles); n > 0 {
+		lo, hi := math.Inf(1), math.Inf(-1)
+		for _, a := range ob.Axles {
+			lo, hi = math.Min(lo, a.LoadKN), math.Max(hi, a.LoadKN)
+		}
+		loads := num(lo, 0) + " kN"
+		if hi > lo {
+			loads = num(lo, 0) + " to " + num(hi, 0) + " kN"
+		}
+		parts = append(parts, fmt.Sprintf("%d axles on the bridge (%s)", n, loads))
+	}
+	for _, st := range ob.Stretches {
+		parts = append(parts, fmt.Sprintf("%s kN/m over x = %s to %s m", num(st.QKNPerM, 1), num(st.FromM, 2), num(st.ToM, 2)))
+	}
+	if len(parts) > 0 {
+		eff := ob.effect(xs, eta)
+		s += fmt.Sprintf(" %s. ΣP·η + Σq·∫η = %s kN; × truss share %s = %s kN (L %s kN).", strings.Join(parts, "; "), signed(eff, 1), num(share, 3), signed(eff*share, 1), signed(ex.Value, 1))
+	}
+	return s
+}
+
+func calcOf(c senseCalc) calcView {
+	v := calcView{Scenario: c.Scenario, Sense: c.Sense, Basis: orDash(c.Basis), Held: optNum(c.HeldKN, 1), Cond: num(c.Condition, 2), C: optNum(c.CKN, 1),
+		D: signed(c.DKN, 1), L: num(c.LKN, 1), Impact: num(c.Impact, 3), RF: rfText(c.RF), Governs: c.Governs}
+	if c.HeldKN == nil {
+		v.Cond = dash
+	}
+	if c.RF == nil {
+		v.RF = "none held"
+		v.Basis = dash
+	}
+	return v
+}

@@ -1,0 +1,271 @@
+package report
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"github.com/trussfleet/trussfleet/screening/analysis"
+	"github.com/trussfleet/trussfleet/screening/truss"
+)
+
+// The drawings are built here as plain shapes in SVG user units and written by the
+// templates, so that every text in them passes through html/template's escaping.
+
+// svgWidth is the width of every drawing's viewBox; pages scale it to the column.
+const svgWidth = 960
+
+// elevation is the drawing of a truss in elevation.
+type elevation struct {
+	W, H     float64
+	Members  []elevMember
+	Joints   []elevText
+	Labels   []elevText
+	Supports []string // polygon points
+	Rollers  []circle
+	Deck     line
+	Span     elevText
+}
+
+type elevMember struct {
+	Label, Kind, D, Colour, Dash, Band, Title string
+	Width                                     float64
+	Flagged                                   bool
+}
+
+type elevText struct {
+	X, Y, Rotate float64
+	Anchor, Text string
+}
+
+type circle struct{ X, Y, R float64 }
+
+type line struct{ X1, Y1, X2, Y2 float64 }
+
+// drawElevation draws truss t with its members styled by proposed RF; members by label.
+func drawElevation(t *truss.Truss, run Run, members map[string]Member) elevation {
+	const margin, top, bottom = 40.0, 46.0, 74.0
+	span := t.SpanM()
+	depth := 0.0
+	for _, j := range t.Joints {
+		depth = math.Max(depth, j.Y)
+	}
+	s := (svgWidth - 2*margin) / span
+	// Very shallow or very deep trusses keep a drawing of sensible height.
+	s = math.Min(s, 360/math.Max(depth, 1e-9))
+	width := span * s
+	x0 := (svgWidth - width) / 2
+	e := elevation{W: svgWidth, H: top + depth*s + bottom}
+	px := func(x float64) float64 { return x0 + x*s }
+	py := func(y float64) float64 { return top + (depth-y)*s }
+	supported := map[int]bool{}
+	for _, sp := range t.Supports {
+		supported[sp.Joint] = true
+	}
+	for i, j := range t.Joints {
+		dx, dy, anchor := 0.0, 16.0, "middle"
+		if j.Y > depth/2 {
+			dy = -9
+		}
+		if supported[i] {
+			// Beside the bearing symbol rather than under it.
+			dx, dy, anchor = -16, 14, "end"
+			if j.X > span/2 {
+				dx, anchor = 16, "start"
+			}
+		}
+		e.Joints = append(e.Joints, elevText{X: px(j.X) + dx, Y: py(j.Y) + dy, Anchor: anchor, Text: j.Name})
+	}
+	for _, mb := range t.Members {
+		a, b := t.Joints[mb.A], t.Joints[mb.B]
+		m, held := members[mb.Label]
+		var rf *float64
+		if held {
+			rf = m.RFProposed
+		}
+		bd := bandOf(run, rf)
+		title := fmt.Sprintf("%s (%s): proposed RF %s", mb.Label, mb.Kind, rfText(rf))
+		if len(m.Flags) > 0 {
+			title += "; flags: " + strings.Join(m.Flags, ", ")
+		}
+		em := elevMember{
+			Label: mb.Label, Kind: string(mb.Kind), Colour: bd.Colour, Dash: bd.Dash, Width: bd.Width, Band: bd.Key,
+			D:       fmt.Sprintf("M %.2f %.2f L %.2f %.2f", px(a.X), py(a.Y), px(b.X), py(b.Y)),
+			Title:   title,
+			Flagged: len(m.Flags) > 0,
+		}
+		e.Members = append(e.Members, em)
+		if em.Flagged {
+			text := mb.Label + " " + rfText(rf)
+			switch {
+			case a.Y == b.Y && a.Y >= depth/2:
+				// Chord labels sit beyond the row of joint names.
+				e.Labels = append(e.Labels, elevText{X: (px(a.X) + px(b.X)) / 2, Y: py(a.Y) - 26, Anchor: "middle", Text: text})
+			case a.Y == b.Y:
+				e.Labels = append(e.Labels, elevText{X: (px(a.X) + px(b.X)) / 2, Y: py(a.Y) + 36, Anchor: "middle", Text: text})
+			default:
+				e.Labels = append(e.Labels, memberLabel(px(a.X), py(a.Y), px(b.X), py(b.Y), text))
+			}
+		}
+	}
+	for _, sp := range t.Supports {
+		j := t.Joints[sp.Joint]
+		x, y := px(j.X), py(j.Y)
+		e.Supports = append(e.Supports, fmt.Sprintf("%.2f,%.2f %.2f,%.2f %.2f,%.2f", x, y+4, x-11, y+22, x+11, y+22))
+		if !sp.Fixed[0] {
+			e.Rollers = append(e.Rollers, circle{x - 5, y + 27, 4}, circle{x + 5, y + 27, 4})
+		}
+	}
+	dx := t.DeckX()
+	if len(dx) > 0 {
+		y := py(t.Joints[t.DeckJoints[0]].Y)
+		e.Deck = line{px(dx[0]), y, px(dx[len(dx)-1]), y}
+	}
+	e.Span = elevText{X: svgWidth / 2, Y: e.H - 8, Anchor: "middle", Text: fmt.Sprintf("span %s m, %d panels, depth %s m", num(span, 2), t.Params.Panels, num(t.Params.DepthM, 2))}
+	return e
+}
+
+// memberLabel places a member's label beside its middle, along the member, on its upper side.
+func memberLabel(x1, y1, x2, y2 float64, text string) elevText {
+	mx, my := (x1+x2)/2, (y1+y2)/2
+	ang := math.Atan2(y2-y1, x2-x1) * 180 / math.Pi
+	if ang > 90 {
+		ang -= 180
+	} else if ang <= -90 {
+		ang += 180
+	}
+	// Normal pointing "up" on the page for the text's baseline.
+	r := ang * math.Pi / 180
+	nx, ny := math.Sin(r), -math.Cos(r)
+	const off = 8.0
+	return elevText{X: mx + off*nx, Y: my + off*ny, Rotate: ang, Anchor: "middle", Text: text}
+}
+
+// ilChart is a member's influence line with the governing train placed on it.
+type ilChart struct {
+	ID, Label   string
+	W, H        float64
+	Left, Right float64 // plot x extent
+	ZeroY       float64
+	Line        string // polyline points
+	PosArea     string // polygon points
+	NegArea     string
+	Ticks       []elevText
+	Ordinates   []elevText
+	PanelLines  []line
+	DeckY       float64
+	Arrows      []arrow
+	Stretches   []rect
+	Drops       []line
+	Direction   elevText
+	DirShaft    line
+	DirHead     string // polygon points
+	Front       *line
+	YLabel      elevText
+}
+
+type arrow struct {
+	Shaft line
+	Head  string
+	Title string
+}
+
+type rect struct {
+	X, Y, W, H float64
+	Title      string
+}
+
+// drawIL draws the line (xs, eta) over a span of spanM with the loads ob on the bridge.
+func drawIL(id, label string, spanM float64, xs, eta []float64, ob onBridge, leftToRight bool, headM float64, loaded bool) ilChart {
+	const left, right, trainTop, deckY, plotTop, plotH, bottom = 56.0, 24.0, 18.0, 78.0, 96.0, 150.0, 40.0
+	c := ilChart{ID: id, Label: label, W: svgWidth, H: plotTop + plotH + bottom, Left: left, Right: svgWidth - right, DeckY: deckY}
+	s := (c.Right - c.Left) / spanM
+	px := func(x float64) float64 { return c.Left + x*s }
+	hi, lo := 0.0, 0.0
+	for _, v := range eta {
+		hi, lo = math.Max(hi, v), math.Min(lo, v)
+	}
+	if hi-lo < 1e-12 {
+		hi = 1
+	}
+	ys := plotH / (hi - lo)
+	py := func(v float64) float64 { return plotTop + (hi-v)*ys }
+	c.ZeroY = py(0)
+	var pts, pos, neg []string
+	pt := func(x, v float64) string { return fmt.Sprintf("%.2f,%.2f", px(x), py(v)) }
+	pos = append(pos, pt(xs[0], 0))
+	neg = append(neg, pt(xs[0], 0))
+	for k := range xs {
+		if k > 0 && (eta[k-1] > 0) != (eta[k] > 0) && eta[k-1] != 0 && eta[k] != 0 {
+			z := xs[k-1] + (xs[k]-xs[k-1])*eta[k-1]/(eta[k-1]-eta[k])
+			pos, neg = append(pos, pt(z, 0)), append(neg, pt(z, 0))
+		}
+		v := clean(eta[k])
+		pts = append(pts, pt(xs[k], v))
+		pos = append(pos, pt(xs[k], math.Max(v, 0)))
+		neg = append(neg, pt(xs[k], math.Min(v, 0)))
+		c.PanelLines = append(c.PanelLines, line{px(xs[k]), deckY, px(xs[k]), plotTop + plotH})
+		c.Ticks = append(c.Ticks, elevText{X: px(xs[k]), Y: plotTop + plotH + 16, Anchor: "middle", Text: num(xs[k], 1)})
+		if v != 0 {
+			dy := -6.0
+			if v < 0 {
+				dy = 14
+			}
+			c.Ordinates = append(c.Ordinates, elevText{X: px(xs[k]), Y: py(v) + dy, Anchor: "middle", Text: num(v, 3)})
+		}
+	}
+	last := xs[len(xs)-1]
+	pos, neg = append(pos, pt(last, 0)), append(neg, pt(last, 0))
+	c.Line, c.PosArea, c.NegArea = strings.Join(pts, " "), strings.Join(pos, " "), strings.Join(neg, " ")
+	c.YLabel = elevText{X: 14, Y: plotTop + plotH/2, Rotate: -90, Anchor: "middle", Text: "η (kN/kN)"}
+
+	pmax := 0.0
+	for _, a := range ob.Axles {
+		pmax = math.Max(pmax, a.LoadKN)
+	}
+	for _, a := range ob.Axles {
+		x := px(a.XM)
+		top := deckY - 14 - 40*a.LoadKN/pmax
+		c.Arrows = append(c.Arrows, arrow{
+			Shaft: line{x, top, x, deckY - 7},
+			Head:  fmt.Sprintf("%.2f,%.2f %.2f,%.2f %.2f,%.2f", x-3.5, deckY-8, x+3.5, deckY-8, x, deckY-1),
+			Title: fmt.Sprintf("axle %s kN at x = %s m, η = %s", num(a.LoadKN, 1), num(a.XM, 2), num(clean(interp(xs, eta, a.XM)), 3)),
+		})
+		c.Drops = append(c.Drops, line{x, deckY, x, py(clean(interp(xs, eta, a.XM)))})
+	}
+	qmax := 0.0
+	for _, st := range ob.Stretches {
+		qmax = math.Max(qmax, st.QKNPerM)
+	}
+	for _, st := range ob.Stretches {
+		h := 8 + 22*st.QKNPerM/qmax
+		c.Stretches = append(c.Stretches, rect{
+			X: px(st.FromM), Y: deckY - 2 - h, W: (st.ToM - st.FromM) * s, H: h,
+			Title: fmt.Sprintf("%s kN/m from x = %s to %s m", num(st.QKNPerM, 1), num(st.FromM, 2), num(st.ToM, 2)),
+		})
+	}
+	if loaded {
+		dir := "running left to right"
+		ax, tip := c.Right-64, c.Right-4
+		if !leftToRight {
+			dir = "running right to left"
+			ax, tip = c.Left+64, c.Left+4
+		}
+		c.Direction = elevText{X: (ax + tip) / 2, Y: trainTop - 4, Anchor: "middle", Text: dir}
+		back := tip - 8*math.Copysign(1, tip-ax)
+		c.DirShaft = line{ax, trainTop + 4, back, trainTop + 4}
+		c.DirHead = fmt.Sprintf("%.2f,%.2f %.2f,%.2f %.2f,%.2f", back, trainTop, back, trainTop+8, tip, trainTop+4)
+		if headM >= 0 && headM <= spanM {
+			x := px(headM)
+			c.Front = &line{x, trainTop + 10, x, deckY}
+		}
+	}
+	return c
+}
+
+func interp(xs, eta []float64, x float64) float64 {
+	if len(xs) == 0 {
+		return 0
+	}
+	return analysis.Interpolate(xs, eta, x)
+}
