@@ -198,4 +198,36 @@ func TestRunScreensEveryBridgeOnce(t *testing.T) {
 	if len(raw) == 0 {
 		t.Error("run has no plan")
 	}
+	if d, err := db.DiffRuns(ctx, id, id2); err != nil || len(d) != 0 {
+		t.Errorf("diff of a carried run: %v, %v", d, err)
+	}
+	// Halve one bridge's capacities: the next nightly run screens that bridge alone, and the
+	// diff names it with its lower RF (RF = (C − D)/L falls when C does).
+	victim := ranked[len(ranked)-1].BridgeID
+	if _, err := db.Pool.Exec(ctx, `UPDATE members SET capacity_tension_kn = capacity_tension_kn / 2,
+		capacity_compression_kn = capacity_compression_kn / 2, rating_factor = rating_factor / 2 WHERE bridge_id = $1`, victim); err != nil {
+		t.Fatal(err)
+	}
+	id3, err := ic.CreateRun(ctx, store.NewRun{ProgramVersion: "test", Config: map[string]any{"k": 1}, Plan: plan, PlanHash: plan.Hash(), ChunkSize: 4, Changed: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	runToEnd(t, db, id3, 1)
+	p3, _ := db.Progress(ctx, id3)
+	if p3.Done != 1 || p3.Carried != 22 {
+		t.Errorf("after one change: %+v, want 1 screened and 22 carried", p3)
+	}
+	d, err := db.DiffRuns(ctx, id2, id3)
+	if err != nil {
+		t.Fatal(err)
+	}
+	found := false
+	for _, c := range d {
+		if c.BridgeID == victim {
+			found = c.RFA != nil && c.RFB != nil && *c.RFB < *c.RFA
+		}
+	}
+	if !found {
+		t.Errorf("diff %+v does not show %s with a lower RF", d, victim)
+	}
 }

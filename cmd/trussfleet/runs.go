@@ -1,0 +1,169 @@
+package main
+
+import (
+	"encoding/json"
+	"fmt"
+	"strconv"
+	"strings"
+	"text/tabwriter"
+
+	"github.com/spf13/cobra"
+	"github.com/trussfleet/trussfleet/screening"
+	"github.com/trussfleet/trussfleet/store"
+)
+
+func init() { commands = append(commands, newRunsCmd) }
+
+func newRunsCmd(a *app) *cobra.Command {
+	cmd := &cobra.Command{Use: "runs", Short: "List, show and compare screening runs"}
+	var limit int
+	list := &cobra.Command{
+		Use:   "list",
+		Short: "List the runs, newest first",
+		Args:  cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, _ []string) error {
+			ctx := cmd.Context()
+			db, err := a.openDatabase(ctx)
+			if err != nil {
+				return err
+			}
+			defer db.Close()
+			runs, err := db.Runs(ctx, limit)
+			if err != nil {
+				return err
+			}
+			tw := tabwriter.NewWriter(cmd.OutOrStdout(), 0, 0, 2, ' ', 0)
+			fmt.Fprintln(tw, "run\tstatus\tmode\tstarted\tfinished\tbridges\tscreened\tcarried\tfailed")
+			for _, r := range runs {
+				p, err := db.Progress(ctx, r.ID)
+				if err != nil {
+					return err
+				}
+				fin := "—"
+				if r.FinishedAt != nil {
+					fin = r.FinishedAt.Format("2006-01-02 15:04:05")
+				}
+				fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%d\t%d\t%d\t%d\n", r.ID, r.Status, r.Mode, r.StartedAt.Format("2006-01-02 15:04:05"), fin, p.Total, p.Done, p.Carried, p.Failed)
+			}
+			return tw.Flush()
+		},
+	}
+	list.Flags().IntVar(&limit, "limit", 20, "how many runs")
+	show := &cobra.Command{
+		Use:   "show ID",
+		Short: "Show a run: its trains, settings and summary",
+		Args:  cobra.ExactArgs(1),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			id, err := strconv.ParseInt(args[0], 10, 64)
+			if err != nil {
+				return fmt.Errorf("run id %q: not a number", args[0])
+			}
+			ctx := cmd.Context()
+			db, err := a.openDatabase(ctx)
+			if err != nil {
+				return err
+			}
+			defer db.Close()
+			r, err := db.GetRun(ctx, id)
+			if err != nil {
+				return err
+			}
+			var plan screening.Plan
+			if err := json.Unmarshal(r.Plan, &plan); err != nil {
+				return fmt.Errorf("run %d plan: %w", id, err)
+			}
+			w := cmd.OutOrStdout()
+			fmt.Fprintf(w, "Run %d: %s (%s), program %s, configuration %s\n", r.ID, r.Status, r.Mode, r.ProgramVersion, r.ConfigHash[:12])
+			if r.BaseRunID != nil {
+				fmt.Fprintf(w, "Unchanged bridges carried forward from run %d\n", *r.BaseRunID)
+			}
+			fmt.Fprintf(w, "Existing traffic: %s\nProposed traffic: %s\n", strings.Join(screening.TrainNames(plan.Existing), ", "), strings.Join(screening.TrainNames(plan.Proposed), ", "))
+			if len(plan.References) > 0 {
+				fmt.Fprintf(w, "Reference trains of stored ratings: %s\n", strings.Join(screening.TrainNames(plan.References), ", "))
+			}
+			fmt.Fprintf(w, "Dynamic allowance %s; rating %s; flag below %.2f, review below %.2f, worse beyond %.0f %%\n",
+				plan.Dynamic, plan.Method, plan.Flag, plan.Review, 100*plan.Worse)
+			return a.printSummary(ctx, db, w, id)
+		},
+	}
+	diff := &cobra.Command{
+		Use:   "diff A B",
+		Short: "What changed from run A to run B: newly flagged, cleared, rank and RF changes",
+		Args:  cobra.ExactArgs(2),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			var ids [2]int64
+			for i, s := range args {
+				v, err := strconv.ParseInt(s, 10, 64)
+				if err != nil {
+					return fmt.Errorf("run id %q: not a number", s)
+				}
+				ids[i] = v
+			}
+			ctx := cmd.Context()
+			db, err := a.openDatabase(ctx)
+			if err != nil {
+				return err
+			}
+			defer db.Close()
+			for _, id := range ids {
+				if _, err := db.GetRun(ctx, id); err != nil {
+					return err
+				}
+			}
+			changes, err := db.DiffRuns(ctx, ids[0], ids[1])
+			if err != nil {
+				return err
+			}
+			return printDiff(cmd, ids, changes)
+		},
+	}
+	cmd.AddCommand(list, show, diff)
+	return cmd
+}
+
+func printDiff(cmd *cobra.Command, ids [2]int64, changes []store.BridgeChange) error {
+	w := cmd.OutOrStdout()
+	var flagged, cleared, other []store.BridgeChange
+	for _, c := range changes {
+		switch {
+		case len(c.FlagsB) > 0 && len(c.FlagsA) == 0:
+			flagged = append(flagged, c)
+		case len(c.FlagsA) > 0 && len(c.FlagsB) == 0:
+			cleared = append(cleared, c)
+		default:
+			other = append(other, c)
+		}
+	}
+	fmt.Fprintf(w, "From run %d to run %d: %d newly flagged, %d cleared, %d other changes.\n", ids[0], ids[1], len(flagged), len(cleared), len(other))
+	for _, g := range []struct {
+		title string
+		rows  []store.BridgeChange
+	}{{"Newly flagged", flagged}, {"Cleared", cleared}, {"Rank, RF or status changed", other}} {
+		if len(g.rows) == 0 {
+			continue
+		}
+		fmt.Fprintf(w, "\n%s:\n", g.title)
+		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+		fmt.Fprintf(tw, "bridge\tname\trank %d\trank %d\tRF %d\tRF %d\tflags %d\tflags %d\n", ids[0], ids[1], ids[0], ids[1], ids[0], ids[1])
+		for _, c := range g.rows {
+			fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\n", c.BridgeID, c.Name, rankText(c.RankA, c.StatusA), rankText(c.RankB, c.StatusB),
+				fmtRF(c.RFA), fmtRF(c.RFB), strings.Join(c.FlagsA, ","), strings.Join(c.FlagsB, ","))
+		}
+		if err := tw.Flush(); err != nil {
+			return err
+		}
+	}
+	fmt.Fprintln(w)
+	printCaution(w)
+	return nil
+}
+
+func rankText(r *int, status string) string {
+	switch {
+	case r == nil:
+		return "—"
+	case status == "failed":
+		return strconv.Itoa(*r) + " (failed)"
+	}
+	return strconv.Itoa(*r)
+}

@@ -1,0 +1,56 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"log/slog"
+	"os"
+	"os/signal"
+	"syscall"
+	"time"
+
+	"github.com/spf13/cobra"
+	"github.com/trussfleet/trussfleet/store"
+)
+
+func init() { commands = append(commands, newWorkerCmd) }
+
+func newWorkerCmd(a *app) *cobra.Command {
+	cmd := &cobra.Command{
+		Use:   "worker",
+		Short: "Work the screening jobs of every open run until stopped",
+		Long: `worker joins the screening of every open run on the configured database: start one or
+more on this or other machines pointing at the same PostgreSQL, next to a "trussfleet screen"
+(or after "trussfleet screen" was interrupted). PostgreSQL and the River job tables are the whole
+coordination layer. A job whose worker died is handed to another after rescue_after.
+SIGINT or SIGTERM stops it: running jobs finish first (up to job_timeout), then it exits.`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, _ []string) error {
+			ctx, stop := signal.NotifyContext(cmd.Context(), os.Interrupt, syscall.SIGTERM)
+			defer stop()
+			db, err := a.openDatabase(ctx)
+			if err != nil {
+				return err
+			}
+			defer db.Close()
+			s := a.cfg.Screen
+			wc, err := db.NewWorkerClient(store.WorkerOptions{
+				Jobs: s.Jobs, Threads: a.cfg.Workers, JobTimeout: s.JobTimeout, RescueAfter: s.RescueAfter,
+				OnChunk: func(run int64, n int) { slog.Info("chunk committed", "run", run, "bridges", n) },
+			})
+			if err != nil {
+				return err
+			}
+			if err := wc.Start(context.WithoutCancel(ctx)); err != nil {
+				return err
+			}
+			fmt.Fprintf(cmd.ErrOrStderr(), "worker started (pid %d): %d jobs at once, %d threads each\n", os.Getpid(), s.Jobs, a.cfg.Workers)
+			<-ctx.Done()
+			stopCtx, cancel := context.WithTimeout(context.Background(), s.JobTimeout+10*time.Second)
+			defer cancel()
+			return wc.Stop(stopCtx)
+		},
+	}
+	cmd.Flags().Int("workers", 0, "goroutines screening bridges per job (default: CPUs)")
+	return cmd
+}

@@ -1,0 +1,43 @@
+package store
+
+import (
+	"context"
+	"fmt"
+
+	"github.com/jackc/pgx/v5"
+)
+
+// BridgeChange is one bridge's difference between two runs.
+type BridgeChange struct {
+	BridgeID         string
+	Name             string
+	RankA, RankB     *int // nil where the bridge is not in that run
+	RFA, RFB         *float64
+	FlagsA, FlagsB   []string
+	StatusA, StatusB string
+}
+
+// DiffRuns compares two runs bridge by bridge; only bridges whose flags, rank, failure or
+// worst proposed RF differ are returned, in run B's priority order (a result carried forward
+// counts as the same as the one it was carried from).
+func (db *DB) DiffRuns(ctx context.Context, a, b int64) ([]BridgeChange, error) {
+	rows, err := db.Pool.Query(ctx, `WITH ra AS (
+			SELECT r.*, row_number() OVER (ORDER BY `+rankOrder+`) AS rank FROM run_bridges r WHERE r.run_id = $1 AND r.status <> 'pending'),
+		rb AS (
+			SELECT r.*, row_number() OVER (ORDER BY `+rankOrder+`) AS rank FROM run_bridges r WHERE r.run_id = $2 AND r.status <> 'pending')
+		SELECT coalesce(rb.bridge_id, ra.bridge_id), coalesce(b.name, ''), ra.rank::int, rb.rank::int,
+			ra.rf_proposed, rb.rf_proposed, coalesce(ra.flags, '{}'), coalesce(rb.flags, '{}'),
+			coalesce(ra.status, ''), coalesce(rb.status, '')
+		FROM ra FULL JOIN rb ON ra.bridge_id = rb.bridge_id
+		LEFT JOIN bridges b ON b.bridge_id = coalesce(rb.bridge_id, ra.bridge_id)
+		WHERE ra.rank IS DISTINCT FROM rb.rank OR ra.flags IS DISTINCT FROM rb.flags
+			OR (ra.status = 'failed') IS DISTINCT FROM (rb.status = 'failed') OR ra.rf_proposed IS DISTINCT FROM rb.rf_proposed
+		ORDER BY rb.rank NULLS LAST, ra.rank`, a, b)
+	if err != nil {
+		return nil, fmt.Errorf("comparing runs %d and %d: %w", a, b, err)
+	}
+	return pgx.CollectRows(rows, func(r pgx.CollectableRow) (BridgeChange, error) {
+		var c BridgeChange
+		return c, r.Scan(&c.BridgeID, &c.Name, &c.RankA, &c.RankB, &c.RFA, &c.RFB, &c.FlagsA, &c.FlagsB, &c.StatusA, &c.StatusB)
+	})
+}
