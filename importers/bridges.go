@@ -2,7 +2,7 @@ package importers
 
 import (
 	"errors"
-		"io"
+	"io"
 	"strconv"
 	"strings"
 

@@ -52,6 +52,7 @@ func newCSVSource(file string, r io.Reader, errs *errorList, known []column) *cs
 	cr.FieldsPerRecord = -1 // checked here, to report and go on
 	cr.ReuseRecord = false
 	cr.TrimLeadingSpace = true // so that ` "a, b"` is a quoted field
+	cr.Comment = '#'           // a line starting with # is a note, e.g. the caution of a listing
 	s := &csvSource{r: cr, errs: errs, index: map[string]int{}}
 	// From here on the source's errors go in a list of its own (see csvSource).
 	defer func() { s.errs = &errorList{file: file} }()
@@ -169,7 +170,8 @@ func (s *csvSource) Read() ([]string, error) {
 		}
 		line, _ := s.r.FieldPos(0)
 		if s.checkRecord(rec, line) {
-			return append(rec, strconv.Itoa(line)), nil
+			// Empty fields beyond the header are dropped, so the line lands under its name.
+			return append(rec[:len(s.header)], strconv.Itoa(line)), nil
 		}
 	}
 	return nil, io.EOF

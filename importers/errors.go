@@ -42,9 +42,9 @@ func (e *FieldError) Error() string {
 
 // FileErrors are all the errors found in one file. It unwraps to its FieldErrors.
 type FileErrors struct {
-	File   string
-	Errs   []*FieldError
-	Extra  int // errors found beyond MaxErrors
+	File  string
+	Errs  []*FieldError
+	Extra int // errors found beyond MaxErrors
 }
 
 func (e *FileErrors) Error() string {

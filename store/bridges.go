@@ -12,33 +12,33 @@ import (
 // Bridge is one span of the inventory, a row of the bridges table. Pointer fields are
 // optional (NULL when nil).
 type Bridge struct {
-	BridgeID   string // the owner's asset key
-	Name       string
-	Line       string // the railway line the span carries
-	ChainageKM *float64
-	TrussType  string // a truss type name, e.g. "pratt"
-	SpanM      float64
-	Panels     int
-	DepthM     float64
-	Deck       string // "through" or "deck"
-	EndPosts   string // "" takes the type's default
-	Trusses    int
+	BridgeID   string   `json:"bridge_id"` // the owner's asset key
+	Name       string   `json:"name"`
+	Line       string   `json:"line"` // the railway line the span carries
+	ChainageKM *float64 `json:"chainage_km,omitempty"`
+	TrussType  string   `json:"truss_type"` // a truss type name, e.g. "pratt"
+	SpanM      float64  `json:"span_m"`
+	Panels     int      `json:"panels"`
+	DepthM     float64  `json:"depth_m"`
+	Deck       string   `json:"deck"`      // "through" or "deck"
+	EndPosts   string   `json:"end_posts"` // "" takes the type's default
+	Trusses    int      `json:"trusses"`
 	// TrussShare is the share of one track's load the analysed truss carries.
-	TrussShare float64
-	Tracks     int
+	TrussShare float64 `json:"truss_share"`
+	Tracks     int     `json:"tracks"`
 	// DeadLoadKNPerM is the dead load one main truss carries, kN per metre of span.
-	DeadLoadKNPerM float64
-	YearBuilt      *int
-	Latitude       *float64
-	Longitude      *float64
-	LastInspected  *time.Time // a date
+	DeadLoadKNPerM float64    `json:"dead_load_kn_per_m"`
+	YearBuilt      *int       `json:"year_built,omitempty"`
+	Latitude       *float64   `json:"latitude,omitempty"`
+	Longitude      *float64   `json:"longitude,omitempty"`
+	LastInspected  *time.Time `json:"last_inspected,omitempty"` // a date
 }
 
 // BridgeSummary is a bridge with what is stored about its members.
 type BridgeSummary struct {
 	Bridge
-	Members   int
-	UpdatedAt time.Time
+	Members   int       `json:"members"`
+	UpdatedAt time.Time `json:"updated_at"`
 }
 
 var bridgesTable = table{

@@ -1,0 +1,107 @@
+package main
+
+import (
+	"encoding/csv"
+	"encoding/json"
+	"fmt"
+	"io"
+	"strconv"
+	"text/tabwriter"
+
+	"github.com/spf13/cobra"
+	"github.com/trussfleet/trussfleet/store"
+)
+
+func init() { commands = append(commands, newBridgesCmd) }
+
+func newBridgesCmd(a *app) *cobra.Command {
+	cmd := &cobra.Command{Use: "bridges", Short: "The bridges in the inventory"}
+	var format string
+	list := &cobra.Command{
+		Use:   "list",
+		Short: "List the stored bridges with their member counts",
+		Long: `List the stored bridges. --format csv writes the columns of bridges.csv (and a members
+count, which an import ignores), so the list can be edited and imported again.`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, _ []string) error {
+			if err := outputFormat(format, "table", "csv", "json"); err != nil {
+				return err
+			}
+			db, err := a.openDatabase(cmd.Context())
+			if err != nil {
+				return err
+			}
+			defer db.Close()
+			bs, err := db.BridgeSummaries(cmd.Context())
+			if err != nil {
+				return err
+			}
+			w := cmd.OutOrStdout()
+			switch format {
+			case "csv":
+				return bridgesCSV(w, bs)
+			case "json":
+				enc := json.NewEncoder(w)
+				enc.SetIndent("", "  ")
+				return enc.Encode(map[string]any{"caution": caution, "bridges": bs})
+			}
+			return bridgesTable(w, bs)
+		},
+	}
+	list.Flags().StringVar(&format, "format", "table", "output: table, csv or json")
+	cmd.AddCommand(list)
+	return cmd
+}
+
+func bridgesTable(w io.Writer, bs []store.BridgeSummary) error {
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprintln(tw, "bridge_id\tname\tline\tkm\ttype\tdeck\tspan m\tpanels\tdepth m\tdead kN/m/truss\tbuilt\tinspected\tmembers")
+	for _, b := range bs {
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\t%g\t%d\t%g\t%g\t%s\t%s\t%d\n", b.BridgeID, b.Name, b.Line, optFloat(b.ChainageKM),
+			b.TrussType, b.Deck, b.SpanM, b.Panels, b.DepthM, b.DeadLoadKNPerM, optInt(b.YearBuilt), optDate(b), b.Members)
+	}
+	if err := tw.Flush(); err != nil {
+		return err
+	}
+	fmt.Fprintf(w, "%d bridges\n", len(bs))
+	printCaution(w)
+	return nil
+}
+
+// bridgesCSV writes the bridges.csv columns, so the output imports again; the first line
+// is the caution as a comment, which the importer skips.
+func bridgesCSV(w io.Writer, bs []store.BridgeSummary) error {
+	fmt.Fprintf(w, "# %s\n", caution)
+	cw := csv.NewWriter(w)
+	cw.Write([]string{"bridge_id", "name", "line", "chainage_km", "truss_type", "span_m", "panels", "depth_m", "deck", "end_posts",
+		"trusses", "truss_share", "tracks", "dead_load_kn_per_m", "year_built", "latitude", "longitude", "last_inspected", "members"})
+	for _, b := range bs {
+		f := func(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) }
+		cw.Write([]string{b.BridgeID, b.Name, b.Line, optFloat(b.ChainageKM), b.TrussType, f(b.SpanM), strconv.Itoa(b.Panels), f(b.DepthM),
+			b.Deck, b.EndPosts, strconv.Itoa(b.Trusses), f(b.TrussShare), strconv.Itoa(b.Tracks), f(b.DeadLoadKNPerM),
+			optInt(b.YearBuilt), optFloat(b.Latitude), optFloat(b.Longitude), optDate(b), strconv.Itoa(b.Members)})
+	}
+	cw.Flush()
+	return cw.Error()
+}
+
+func optFloat(p *float64) string {
+	if p == nil {
+		return ""
+	}
+	return strconv.FormatFloat(*p, 'f', -1, 64)
+}
+
+func optInt(p *int) string {
+	if p == nil {
+		return ""
+	}
+	return strconv.Itoa(*p)
+}
+
+func optDate(b store.BridgeSummary) string {
+	if b.LastInspected == nil {
+		return ""
+	}
+	return b.LastInspected.Format("2006-01-02")
+}

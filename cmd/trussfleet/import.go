@@ -1,0 +1,63 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"io"
+	"strings"
+
+	"github.com/spf13/cobra"
+	"github.com/trussfleet/trussfleet/importers"
+	"github.com/trussfleet/trussfleet/store"
+)
+
+func init() { commands = append(commands, newImportCmd) }
+
+func newImportCmd(a *app) *cobra.Command {
+	var check bool
+	cmd := &cobra.Command{
+		Use:   "import",
+		Short: "Load inventory files into the database (formats: docs/inventory.md)",
+		Long: `Each file is checked whole before anything is written: every error is listed with its
+line, column and value, and a file with any error writes nothing. Rows are matched on their
+natural key (bridge_id; bridge_id and member; train name): new rows are inserted, changed rows
+updated, and re-importing the same file changes nothing.`,
+	}
+	cmd.PersistentFlags().BoolVar(&check, "check", false, "check the file and show what would change; write nothing")
+	sub := func(use, short string, run func(ctx context.Context, db *store.DB, path string, o importers.Options) (importers.Result, error)) *cobra.Command {
+		return &cobra.Command{Use: use, Short: short, Args: cobra.ExactArgs(1),
+			RunE: func(cmd *cobra.Command, args []string) error {
+				db, err := a.openDatabase(cmd.Context())
+				if err != nil {
+					return err
+				}
+				defer db.Close()
+				res, err := run(cmd.Context(), db, args[0], importers.Options{Check: check})
+				if err != nil {
+					return err
+				}
+				printImport(cmd.OutOrStdout(), res)
+				return nil
+			}}
+	}
+	cmd.AddCommand(
+		sub("bridges FILE", "Import bridges.csv: one row per span", importers.ImportBridgesFile),
+		sub("members FILE", "Import members.csv: members' stored capacities (the bridges must be imported first)", importers.ImportMembersFile),
+		sub("trains FILE|DIR", "Import a train file, or every .yaml train file of a directory", importers.ImportTrains),
+	)
+	return cmd
+}
+
+func printImport(w io.Writer, r importers.Result) {
+	c := r.Counts
+	if r.Checked {
+		fmt.Fprintf(w, "%s: %d rows checked, no errors; nothing written. An import would insert %d, update %d, leave %d unchanged.\n",
+			r.File, c.Rows, c.Inserted, c.Updated, c.Unchanged)
+	} else {
+		fmt.Fprintf(w, "%s: %d rows: %d inserted, %d updated, %d unchanged (import %d, sha256 %s)\n",
+			r.File, c.Rows, c.Inserted, c.Updated, c.Unchanged, r.BatchID, r.SHA256)
+	}
+	if len(r.Ignored) > 0 {
+		fmt.Fprintf(w, "  columns not used by trussfleet, ignored: %s\n", strings.Join(r.Ignored, ", "))
+	}
+}

@@ -1,0 +1,86 @@
+package importers
+
+import (
+	"bytes"
+	"context"
+	"fmt"
+	"testing"
+
+	"github.com/trussfleet/trussfleet/screening/truss"
+	"github.com/trussfleet/trussfleet/store"
+	"github.com/trussfleet/trussfleet/store/pgtest"
+)
+
+// fleetCSV writes an invented fleet: n Pratt spans of 12 panels, with the first
+// membersPer members of each (a 12-panel Pratt has 45).
+func fleetCSV(tb testing.TB, n, membersPer int) (bridges, members []byte) {
+	t, err := truss.Build(truss.Params{Type: "pratt", SpanM: 72, Panels: 12, DepthM: 9})
+	if err != nil {
+		tb.Fatal(err)
+	}
+	labels := t.Labels()[:membersPer]
+	var bb, mb bytes.Buffer
+	bb.WriteString("bridge_id,name,line,chainage_km,truss_type,span_m,panels,depth_m,deck,dead_load_kn_per_m,year_built,latitude,longitude\n")
+	mb.WriteString("bridge_id,member,capacity_tension_kn,capacity_compression_kn,condition_factor,area_mm2,fatigue_category\n")
+	for i := 0; i < n; i++ {
+		id := fmt.Sprintf("BEN-%05d", i)
+		fmt.Fprintf(&bb, "%s,Bench span %d,Bench Line,%.3f,pratt,72,12,9,through,%.1f,%d,54.%04d,-2.%04d\n", id, i, float64(i)*0.7, 15+float64(i%50)/10, 1880+i%60, i%10000, i%10000)
+		for j, l := range labels {
+			fmt.Fprintf(&mb, "%s,%s,%d,%d,%.2f,%d,71\n", id, l, 2000+(i+j)%3000, 1800+(i*j)%2500, 0.8+float64((i+j)%20)/100, 6000+j*100)
+		}
+	}
+	return bb.Bytes(), mb.Bytes()
+}
+
+// BenchmarkImportFleet imports 10,000 bridges and 400,000 member rows into an empty
+// inventory, the whole path: parse, check against the geometry, COPY, merge, commit.
+//
+//	CI=true go test -run '^$' -bench ImportFleet -benchtime 3x ./importers
+func BenchmarkImportFleet(b *testing.B) {
+	const nBridges, perBridge = 10000, 40
+	bridges, members := fleetCSV(b, nBridges, perBridge)
+	db := pgtest.DB(b)
+	ctx := context.Background()
+	b.SetBytes(int64(len(bridges) + len(members)))
+	for b.Loop() {
+		b.StopTimer()
+		if _, err := db.Pool.Exec(ctx, "TRUNCATE members, bridges"); err != nil {
+			b.Fatal(err)
+		}
+		b.StartTimer()
+		rb, rm := importFleet(b, db, bridges, members)
+		if rb.Counts.Inserted != nBridges || rm.Counts.Inserted != nBridges*perBridge {
+			b.Fatalf("inserted %d bridges and %d members", rb.Counts.Inserted, rm.Counts.Inserted)
+		}
+	}
+	b.ReportMetric(float64(nBridges*(perBridge+1))*float64(b.N)/b.Elapsed().Seconds(), "rows/s")
+}
+
+// BenchmarkReimportFleet re-imports the same files: every row compared, none written.
+//
+//	CI=true go test -run '^$' -bench ReimportFleet -benchtime 3x ./importers
+func BenchmarkReimportFleet(b *testing.B) {
+	const nBridges, perBridge = 10000, 40
+	bridges, members := fleetCSV(b, nBridges, perBridge)
+	db := pgtest.DB(b)
+	importFleet(b, db, bridges, members)
+	for b.Loop() {
+		rb, rm := importFleet(b, db, bridges, members)
+		if rb.Counts.Unchanged != nBridges || rm.Counts.Unchanged != nBridges*perBridge {
+			b.Fatalf("unchanged %d bridges and %d members", rb.Counts.Unchanged, rm.Counts.Unchanged)
+		}
+	}
+}
+
+func importFleet(b *testing.B, db *store.DB, bridges, members []byte) (Result, Result) {
+	ctx := context.Background()
+	rb, err := ImportBridges(ctx, db, "bridges.csv", bytes.NewReader(bridges), Options{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	rm, err := ImportMembers(ctx, db, "members.csv", bytes.NewReader(members), Options{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	return rb, rm
+}

@@ -1,0 +1,172 @@
+package importers
+
+import (
+	"context"
+	"crypto/sha256"
+	"encoding/hex"
+	"errors"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/trussfleet/trussfleet/store"
+	"github.com/trussfleet/trussfleet/store/pgtest"
+)
+
+func importExamples(t *testing.T, db *store.DB) {
+	t.Helper()
+	ctx := context.Background()
+	if _, err := ImportBridgesFile(ctx, db, "../testdata/bridges.csv", Options{}); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := ImportMembersFile(ctx, db, "../testdata/members.csv", Options{}); err != nil {
+		t.Fatal(err)
+	}
+}
+
+func TestImportCycle(t *testing.T) {
+	ctx := context.Background()
+	db := pgtest.DB(t)
+	data, err := os.ReadFile("../testdata/bridges.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	sum := sha256.Sum256(data)
+	changed := strings.Replace(string(data), "Morbeck Viaduct span 2,Northmoor Main Line,12.480,pratt,48.0,8,6.5", "Morbeck Viaduct span 2,Northmoor Main Line,12.480,pratt,48.0,8,6.6", 1)
+	steps := []struct {
+		name  string
+		text  string
+		opts  Options
+		want  store.Counts
+		total int
+	}{
+		{"check writes nothing", string(data), Options{Check: true}, store.Counts{Rows: 4, Inserted: 4}, 0},
+		{"first import", string(data), Options{}, store.Counts{Rows: 4, Inserted: 4}, 4},
+		{"same file again changes nothing", string(data), Options{}, store.Counts{Rows: 4, Unchanged: 4}, 4},
+		{"a changed row updates", changed, Options{}, store.Counts{Rows: 4, Updated: 1, Unchanged: 3}, 4},
+	}
+	for _, st := range steps {
+		t.Run(st.name, func(t *testing.T) {
+			res, err := ImportBridges(ctx, db, "bridges.csv", strings.NewReader(st.text), st.opts)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if res.Counts != st.want {
+				t.Errorf("counts %+v, want %+v", res.Counts, st.want)
+			}
+			all, err := db.Bridges(ctx)
+			if err != nil || len(all) != st.total {
+				t.Errorf("%d bridges stored, want %d (%v)", len(all), st.total, err)
+			}
+		})
+	}
+	b, err := db.Bridge(ctx, "NME-0101")
+	if err != nil || b.DepthM != 6.6 {
+		t.Errorf("updated bridge: depth %g, %v", b.DepthM, err)
+	}
+	batches, err := db.Batches(ctx, 10)
+	if err != nil || len(batches) != 3 {
+		t.Fatalf("%d imports recorded, want 3 (the check is not recorded): %v", len(batches), err)
+	}
+	// The recorded digest is the file's SHA-256 as sha256sum would print it.
+	if got := batches[2].SHA256; got != hex.EncodeToString(sum[:]) {
+		t.Errorf("recorded sha256 %s, want %s", got, hex.EncodeToString(sum[:]))
+	}
+}
+
+func TestBadFileWritesNothing(t *testing.T) {
+	ctx := context.Background()
+	db := pgtest.DB(t)
+	importExamples(t, db)
+	before, _ := db.Bridges(ctx)
+	tests := []struct {
+		name, text, msg string
+		line            int
+	}{
+		{"one bad row among good ones", bridgeHeader + "NEW-1,X,Main,1,pratt,48,8,6,through,15\nNEW-2,X,Main,1,pratt,48,7,6,through,15\n", "even number", 3},
+		{"duplicate key within a file", bridgeHeader + "NEW-1,X,Main,1,pratt,48,8,6,through,15\nNEW-2,X,Main,1,pratt,48,8,6,through,15\nNEW-1,Y,Main,1,pratt,50,8,6,through,15\n", "first on line 2", 4},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := ImportBridges(ctx, db, "bridges.csv", strings.NewReader(tc.text), Options{})
+			var fe *FileErrors
+			if !errors.As(err, &fe) || !strings.Contains(err.Error(), tc.msg) || fe.Errs[0].Line != tc.line {
+				t.Fatalf("error %v: want line %d with %q", err, tc.line, tc.msg)
+			}
+			after, _ := db.Bridges(ctx)
+			if len(after) != len(before) {
+				t.Errorf("%d bridges after a failed import, %d before", len(after), len(before))
+			}
+		})
+	}
+	t.Run("member of an unknown bridge", func(t *testing.T) {
+		text := "bridge_id,member,capacity_tension_kn\nNME-0101,L0-L1,3200\nNME-9999,L0-L1,100\n"
+		_, err := ImportMembers(ctx, db, "members.csv", strings.NewReader(text), Options{})
+		if err == nil || !strings.Contains(err.Error(), "line 3, column 1 (bridge_id), value \"NME-9999\"") {
+			t.Fatalf("error %v", err)
+		}
+		ms, _ := db.Members(ctx, "NME-0101")
+		for _, m := range ms {
+			if m.Member == "L0-L1" && *m.CapacityTensionKN != 3150 {
+				t.Errorf("the good row of a bad file was written: %g", *m.CapacityTensionKN)
+			}
+		}
+	})
+}
+
+func TestImportMembers(t *testing.T) {
+	ctx := context.Background()
+	db := pgtest.DB(t)
+	importExamples(t, db)
+	ms, err := db.Members(ctx, "NME-0102")
+	if err != nil || len(ms) != 3 {
+		t.Fatalf("members %+v, %v", ms, err)
+	}
+	for _, m := range ms {
+		if m.RatingFactor == nil || *m.ReferenceTrain != "northmoor-freight-today" {
+			t.Errorf("stored rating factor form lost: %+v", m)
+		}
+	}
+	res, err := ImportMembersFile(ctx, db, "../testdata/members.csv", Options{})
+	if err != nil || res.Counts != (store.Counts{Rows: 12, Unchanged: 12}) {
+		t.Errorf("re-import: %+v, %v", res.Counts, err)
+	}
+}
+
+func TestImportTrains(t *testing.T) {
+	ctx := context.Background()
+	db := pgtest.DB(t)
+	dir := "../configs/trains"
+	files, _ := filepath.Glob(filepath.Join(dir, "*.yaml"))
+	if len(files) == 0 {
+		t.Fatal("no example train files in configs/trains")
+	}
+	res, err := ImportTrains(ctx, db, dir, Options{})
+	if err != nil || res.Counts.Inserted != len(files) {
+		t.Fatalf("import %+v, %v", res.Counts, err)
+	}
+	res, err = ImportTrains(ctx, db, dir, Options{})
+	if err != nil || res.Counts.Unchanged != len(files) {
+		t.Errorf("re-import %+v, %v", res.Counts, err)
+	}
+	trains, err := db.Trains(ctx)
+	if err != nil || len(trains) != len(files) {
+		t.Fatalf("trains %d, %v", len(trains), err)
+	}
+	data, _ := os.ReadFile(filepath.Join(dir, trains[0].FileName))
+	sum := sha256.Sum256(data)
+	if trains[0].Source != string(data) || trains[0].SHA256 != hex.EncodeToString(sum[:]) {
+		t.Errorf("train %s stored with another text or digest", trains[0].Name)
+	}
+	t.Run("a bad train file writes nothing", func(t *testing.T) {
+		bad := t.TempDir()
+		good, _ := os.ReadFile(files[0])
+		os.WriteFile(filepath.Join(bad, "a.yaml"), good, 0o644)
+		os.WriteFile(filepath.Join(bad, "b.yaml"), []byte("name: broken\naxles: [1, 2\n"), 0o644)
+		_, err := ImportTrains(ctx, db, bad, Options{})
+		if err == nil || !strings.Contains(err.Error(), "b.yaml") {
+			t.Errorf("error %v: want one naming b.yaml", err)
+		}
+	})
+}
