@@ -2,12 +2,16 @@ package pgtest
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"net/url"
 	"os"
+	"path/filepath"
+	"strconv"
 	"strings"
 	"sync"
 	"sync/atomic"
+	"syscall"
 	"testing"
 
 	"github.com/jackc/pgx/v5"
@@ -98,7 +102,9 @@ func start() error {
 	if u := os.Getenv(EnvURL); u != "" {
 		admin = u
 	} else {
-		dir, err := os.MkdirTemp("/tmp", "tfpg-")
+		sweep()
+		// The pid in the name lets a later binary remove what a killed one left behind.
+		dir, err := os.MkdirTemp("/tmp", fmt.Sprintf("tfpg-%d-", os.Getpid()))
 		if err != nil {
 			return err
 		}
@@ -181,4 +187,21 @@ func withDatabase(connString, database string) string {
 	}
 	// Keyword/value form: a later keyword overrides an earlier one.
 	return connString + " dbname=" + database
+}
+
+// sweep removes the directories of test binaries that died without running Main's clean-up
+// (a panic, a timeout, a kill): their server died with them (see pgserver.RunChild), and the
+// pid in the directory's name is no longer a process.
+func sweep() {
+	dirs, _ := filepath.Glob("/tmp/tfpg-*-*")
+	for _, d := range dirs {
+		pidText, _, _ := strings.Cut(strings.TrimPrefix(filepath.Base(d), "tfpg-"), "-")
+		pid, err := strconv.Atoi(pidText)
+		if err != nil || pid <= 0 {
+			continue
+		}
+		if err := syscall.Kill(pid, 0); errors.Is(err, syscall.ESRCH) {
+			os.RemoveAll(d)
+		}
+	}
 }
