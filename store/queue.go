@@ -209,6 +209,14 @@ func carryForward(ctx context.Context, tx pgx.Tx, id, base int64) error {
 	return err
 }
 
+// QueueChunk queues one more job for bridges of a run. Bridges already written are skipped
+// when it runs, so queueing a chunk twice (or re-queueing one a rescued worker finished) is
+// harmless.
+func (c *Client) QueueChunk(ctx context.Context, args ChunkArgs) error {
+	_, err := c.river.Insert(ctx, args, nil)
+	return err
+}
+
 // OpenJobs counts the jobs of a run that are still to be worked (available, running, waiting
 // to retry or scheduled).
 func (db *DB) OpenJobs(ctx context.Context, runID int64) (int, error) {

@@ -130,6 +130,7 @@ func waitForRun(ctx context.Context, db *store.DB, id int64, errw io.Writer) (st
 	start := time.Now()
 	var lastLog time.Time
 	first := -1
+	var lostSince time.Time
 	tick := time.NewTicker(250 * time.Millisecond)
 	defer tick.Stop()
 	for {
@@ -139,13 +140,25 @@ func waitForRun(ctx context.Context, db *store.DB, id int64, errw io.Writer) (st
 		case <-tick.C:
 		}
 		run, err := db.GetRun(ctx, id)
-		if err != nil {
-			return "", err
+		var p store.RunProgress
+		if err == nil {
+			p, err = db.Progress(ctx, id)
 		}
-		p, err := db.Progress(ctx, id)
 		if err != nil {
-			return "", err
+			// The database may be restarting: the workers retry their jobs, so wait for it.
+			if ctx.Err() != nil {
+				return "", ctx.Err()
+			}
+			if lostSince.IsZero() {
+				lostSince = time.Now()
+				slog.Warn("lost the database; waiting for it", "run", id, "err", err)
+			}
+			if time.Since(lostSince) > dbGrace {
+				return "", fmt.Errorf("database unreachable for %v: %w", dbGrace, err)
+			}
+			continue
 		}
+		lostSince = time.Time{}
 		done := p.Total - p.Pending
 		if first < 0 {
 			first = done
@@ -176,6 +189,9 @@ func waitForRun(ctx context.Context, db *store.DB, id int64, errw io.Writer) (st
 		}
 	}
 }
+
+// dbGrace is how long a run waits for a database that went away before it gives up.
+const dbGrace = 2 * time.Minute
 
 func bar(done, total, width int) string {
 	n := 0

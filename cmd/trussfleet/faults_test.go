@@ -1,0 +1,233 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"math/rand/v2"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"syscall"
+	"testing"
+	"time"
+
+	"github.com/spf13/pflag"
+	"github.com/trussfleet/trussfleet/configs"
+	"github.com/trussfleet/trussfleet/importers"
+	"github.com/trussfleet/trussfleet/screening/fleetgen"
+	"github.com/trussfleet/trussfleet/screening/traffic"
+	"github.com/trussfleet/trussfleet/store"
+	"github.com/trussfleet/trussfleet/store/pgserver"
+	"github.com/trussfleet/trussfleet/store/pgtest"
+)
+
+// faultConfig is a configuration with small chunks and short timeouts, so that a killed
+// worker's jobs are handed on quickly.
+func faultConfig(t *testing.T, url string) (string, Config) {
+	t.Helper()
+	p := filepath.Join(t.TempDir(), "trussfleet.yaml")
+	text := fmt.Sprintf("database:\n  url: %q\nchunk_size: 4\njobs: 2\nworkers: 1\njob_timeout: 2s\nrescue_after: 3s\n", url)
+	if err := os.WriteFile(p, []byte(text), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	cfg, err := loadConfig(p, pflag.NewFlagSet("test", pflag.ContinueOnError))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return p, cfg
+}
+
+// seedDemoFleet imports the example trains and an invented fleet of n bridges.
+func seedDemoFleet(t *testing.T, db *store.DB, n int) {
+	t.Helper()
+	ctx := context.Background()
+	dir := t.TempDir()
+	ref, err := traffic.ParseSpec("northmoor-freight-today", configs.Trains())
+	if err != nil {
+		t.Fatal(err)
+	}
+	opt := fleetgen.Defaults(n)
+	opt.Reference = ref
+	if err := writeFleet(opt, dir, func(string, string) {}); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := importers.ImportTrains(ctx, db, filepath.Join(pkgDir, "..", "..", "configs", "trains"), importers.Options{}); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := importers.ImportBridgesFile(ctx, db, filepath.Join(dir, "bridges.csv"), importers.Options{}); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := importers.ImportMembersFile(ctx, db, filepath.Join(dir, "members.csv"), importers.Options{}); err != nil {
+		t.Fatal(err)
+	}
+}
+
+func newRun(t *testing.T, db *store.DB, cfg Config) int64 {
+	t.Helper()
+	ctx := context.Background()
+	plan, err := buildPlan(ctx, db, cfg)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ic, err := db.NewInsertClient()
+	if err != nil {
+		t.Fatal(err)
+	}
+	id, err := ic.CreateRun(ctx, store.NewRun{ProgramVersion: "test", Config: cfg, Plan: plan, PlanHash: plan.Hash(), ChunkSize: cfg.Screen.ChunkSize})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return id
+}
+
+// checkOnce asserts that a completed run holds exactly one result set per bridge: two
+// scenario rows per member of the geometry, no key twice.
+func checkOnce(t *testing.T, db *store.DB, id int64, bridges int) {
+	t.Helper()
+	ctx := context.Background()
+	var status string
+	var rows, distinct, nb, done, expected int
+	if err := db.Pool.QueryRow(ctx, `SELECT status FROM runs WHERE id = $1`, id).Scan(&status); err != nil {
+		t.Fatal(err)
+	}
+	if err := db.Pool.QueryRow(ctx, `SELECT count(*), count(DISTINCT (bridge_id, scenario, member)), count(DISTINCT bridge_id)
+		FROM member_results WHERE run_id = $1`, id).Scan(&rows, &distinct, &nb); err != nil {
+		t.Fatal(err)
+	}
+	if err := db.Pool.QueryRow(ctx, `SELECT count(*) FROM run_bridges WHERE run_id = $1 AND status = 'done'`, id).Scan(&done); err != nil {
+		t.Fatal(err)
+	}
+	if err := db.Pool.QueryRow(ctx, `SELECT count(*) FROM member_assessments WHERE run_id = $1`, id).Scan(&expected); err != nil {
+		t.Fatal(err)
+	}
+	if status != store.RunCompleted || done != bridges || nb != bridges || rows != distinct || rows != 2*expected {
+		t.Errorf("run %d %s: %d bridges done, results for %d, %d rows (%d distinct) for %d members; want %d bridges, 2 rows per member",
+			id, status, done, nb, rows, distinct, expected, bridges)
+	}
+}
+
+// waitCompleted polls until the run completes, riding out a database that is restarting.
+func waitCompleted(t *testing.T, db *store.DB, id int64, limit time.Duration) {
+	t.Helper()
+	deadline := time.Now().Add(limit)
+	for time.Now().Before(deadline) {
+		r, err := db.GetRun(context.Background(), id)
+		if err == nil && r.Status == store.RunCompleted {
+			return
+		}
+		time.Sleep(100 * time.Millisecond)
+	}
+	p, _ := db.Progress(context.Background(), id)
+	t.Fatalf("run %d not completed after %v: %+v", id, limit, p)
+}
+
+// TestKilledWorkers starts real worker processes and kills them with SIGKILL at random
+// moments, several times over, then lets one finish: the run must end with exactly one result
+// set per bridge (nothing lost, nothing twice).
+func TestKilledWorkers(t *testing.T) {
+	t.Parallel()
+	url := pgtest.URL(t)
+	cfgPath, cfg := faultConfig(t, url)
+	db, err := store.Open(context.Background(), store.Options{URL: url})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	const n = 300
+	seedDemoFleet(t, db, n)
+	id := newRun(t, db, cfg)
+	start := func() *exec.Cmd {
+		cmd := exec.Command(os.Args[0], "--", "--config", cfgPath, "worker")
+		cmd.Env = append(os.Environ(), beMain+"=1")
+		if err := cmd.Start(); err != nil {
+			t.Fatal(err)
+		}
+		return cmd
+	}
+	r := rand.New(rand.NewPCG(7, 11))
+	kills := 0
+	for range 5 {
+		w := start()
+		time.Sleep(time.Duration(300+r.IntN(700)) * time.Millisecond)
+		if err := w.Process.Signal(syscall.SIGKILL); err != nil {
+			t.Fatal(err)
+		}
+		_ = w.Wait()
+		kills++
+		p, _ := db.Progress(context.Background(), id)
+		t.Logf("kill %d: %d of %d bridges done", kills, p.Done, p.Total)
+	}
+	w := start()
+	defer func() {
+		_ = w.Process.Signal(syscall.SIGTERM)
+		_ = w.Wait()
+	}()
+	// Jobs the killed workers held are rescued after rescue_after by River's rescuer, which
+	// runs about every 30 s on the elected leader.
+	waitCompleted(t, db, id, 3*time.Minute)
+	checkOnce(t, db, id, n)
+}
+
+// TestDatabaseRestart restarts the PostgreSQL server in the middle of a run: the workers
+// retry and finish, and nothing is lost or written twice.
+func TestDatabaseRestart(t *testing.T) {
+	t.Parallel()
+	ctx := context.Background()
+	dir, err := os.MkdirTemp("", "tf-restart-")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer os.RemoveAll(dir)
+	srv, err := pgserver.New(pgserver.Options{DataDir: filepath.Join(dir, "pg"), SearchPath: os.Getenv("PATH")})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := srv.Start(ctx); err != nil {
+		if os.Getenv("CI") == "true" {
+			t.Fatalf("no PostgreSQL server: %v", err)
+		}
+		t.Skipf("no PostgreSQL server: %v", err)
+	}
+	defer srv.Stop(context.Background())
+	url := srv.URL(pgserver.Database)
+	db, err := store.Open(ctx, store.Options{URL: url})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	if _, err := db.Migrate(ctx); err != nil {
+		t.Fatal(err)
+	}
+	_, cfg := faultConfig(t, url)
+	const n = 120
+	seedDemoFleet(t, db, n)
+	id := newRun(t, db, cfg)
+	wc, err := db.NewWorkerClient(store.WorkerOptions{Jobs: 2, Threads: 1, JobTimeout: 2 * time.Second, RescueAfter: 3 * time.Second})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := wc.Start(ctx); err != nil {
+		t.Fatal(err)
+	}
+	defer wc.Stop(context.Background())
+	for {
+		p, err := db.Progress(ctx, id)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if p.Done >= 8 {
+			t.Logf("restarting the server with %d of %d bridges done", p.Done, p.Total)
+			break
+		}
+		time.Sleep(5 * time.Millisecond)
+	}
+	if err := srv.Stop(ctx); err != nil {
+		t.Fatal(err)
+	}
+	time.Sleep(time.Second)
+	if err := srv.Start(ctx); err != nil {
+		t.Fatal(err)
+	}
+	waitCompleted(t, db, id, 3*time.Minute)
+	checkOnce(t, db, id, n)
+}
