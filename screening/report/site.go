@@ -43,8 +43,6 @@ func parsePages() (*template.Template, error) {
 	if err != nil {
 		return nil, err
 	}
-	sum := sha256.Sum256(js)
-	csp = "default-src 'none'; style-src 'unsafe-inline'; img-src data:; script-src 'sha256-" + base64.StdEncoding.EncodeToString(sum[:]) + "'"
 	t := template.New("report")
 	if _, err := t.New("css").Parse(string(css)); err != nil {
 		return nil, err
@@ -52,7 +50,22 @@ func parsePages() (*template.Template, error) {
 	if _, err := t.New("js").Parse(string(js)); err != nil {
 		return nil, err
 	}
-	return t.ParseFS(assets, "assets/*.tmpl")
+	if _, err := t.New("js-probe").Parse(`<script>{{template "js"}}</script>`); err != nil {
+		return nil, err
+	}
+	if _, err := t.ParseFS(assets, "assets/*.tmpl"); err != nil {
+		return nil, err
+	}
+	// The hash is of the script as the template writes it (html/template drops its
+	// comments), which is what the browser checks.
+	var probe bytes.Buffer
+	if err := t.ExecuteTemplate(&probe, "js-probe", nil); err != nil {
+		return nil, err
+	}
+	script := strings.TrimSuffix(strings.TrimPrefix(probe.String(), "<script>"), "</script>")
+	sum := sha256.Sum256([]byte(script))
+	csp = "default-src 'none'; style-src 'unsafe-inline'; img-src data:; script-src 'sha256-" + base64.StdEncoding.EncodeToString(sum[:]) + "'"
+	return t, nil
 }
 
 // marker names the file that says a folder holds a report this package wrote, so that
@@ -206,10 +219,11 @@ func pageNames(rows []BridgeRow) map[string]string {
 type keyValue struct{ Key, Value string }
 
 type pageBase struct {
-	Title   string
-	CSP     string
-	Run     Run
-	Caution []string
+	Title     string
+	BodyClass string
+	CSP       string
+	Run       Run
+	Caution   []string
 }
 
 func base(run Run, title string) pageBase {
@@ -242,6 +256,7 @@ type rowView struct {
 
 func indexPage(run Run, rows []BridgeRow, names map[string]string) indexView {
 	v := indexView{pageBase: base(run, fmt.Sprintf("Screening run %d: priority list", run.ID))}
+	v.BodyClass = "index"
 	total := run.BridgesTotal
 	if total == 0 {
 		total = len(rows)
@@ -399,6 +414,7 @@ type calcView struct {
 func bridgePage(run Run, b Bridge) bridgeView {
 	r := b.Row
 	v := bridgeView{pageBase: base(run, fmt.Sprintf("%s %s: screening run %d", r.BridgeID, r.Name, run.ID)), Row: r, Bands: bands(run), Equation: equation(run)}
+	v.BodyClass = "bridge"
 	where := []string{}
 	if r.Line != "" {
 		where = append(where, r.Line)

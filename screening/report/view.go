@@ -33,7 +33,7 @@ func bands(run Run) []band {
 		{"review", num(flag, 2) + " ≤ RF < " + num(review, 2), "#e69f00", "10 4", 4.5},
 		{"adequate", num(review, 2) + " ≤ RF < " + num(ample, 2), "#56b4e9", "none", 3},
 		{"ample", "RF ≥ " + num(ample, 2), "#0a5e99", "none", 1.8},
-		{"unrated", "no proposed RF (no capacity data)", "#8a8a8a", "2 4", 1.8},
+		{"unrated", "no proposed RF (not loaded, or no capacity held)", "#8a8a8a", "2 4", 1.8},
 	}
 }
 

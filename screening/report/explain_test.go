@@ -1,0 +1,83 @@
+package report
+
+import (
+	"fmt"
+	"math"
+	"regexp"
+	"strings"
+	"testing"
+)
+
+func TestExplain(t *testing.T) {
+	f := screenFleet(t, []invented{pratt48(t, "NER-90001", "Tarnbeck Viaduct", 0.95)})
+	b := f.Bridges["NER-90001"]
+	var sb strings.Builder
+	if err := Explain(&sb, f.Run, b, "U1-L2"); err != nil {
+		t.Fatal(err)
+	}
+	out := sb.String()
+
+	// Method of sections (common practice): the Pratt diagonal U1-L2 crosses panel 2 (x = 6
+	// to 12 m) at sin θ = 6/√72; a unit load at x right of the panel gives shear
+	// V = (48 − x)/48 and tension V/sin θ, a load left of it V = −x/48.
+	sin := 6 / math.Sqrt(72)
+	want := map[string]float64{"6.000": -6.0 / 48 / sin, "24.000": 24.0 / 48 / sin, "42.000": 6.0 / 48 / sin}
+	for x, w := range want {
+		m := regexp.MustCompile(`(?m)^\s+` + regexp.QuoteMeta(x) + `\s+(\S+)\s*$`).FindStringSubmatch(out)
+		if m == nil {
+			t.Errorf("no influence-line line for x = %s", x)
+			continue
+		}
+		if got := parseNum(t, m[1]); math.Abs(got-w) > 0.00005 {
+			t.Errorf("eta(%s) printed %v, method of sections %.4f", x, got, w)
+		}
+	}
+
+	// Each scenario's trains are all listed with their extremes.
+	for _, name := range []string{"Northmoor freight today", "Northmoor freight proposed", "Eastfell multiple unit"} {
+		if !strings.Contains(out, name) {
+			t.Errorf("explanation does not list train %q", name)
+		}
+	}
+	// The governing placement's loads add up to L as screened.
+	m := regexp.MustCompile(`sum \S+ kN x truss share \S+ = (\S+) kN \(L as screened: (\S+) kN\)`).FindStringSubmatch(out)
+	if m == nil || m[1] != m[2] {
+		t.Errorf("the loads of the governing placement do not add up to L: %v", m)
+	}
+	// The rating rows obey RF = (C − D)/(L(1 + I)) (DOMAIN.md, working stress).
+	rows := regexp.MustCompile(`(?m)^\s+(existing|proposed)\s+(tension|compression)\s+capacity\s+(\S+)\s+(\S+)\s+(\S+)\s+(\S+)\s+(\S+)\s+(\S+)\s+(\S+)`).FindAllStringSubmatch(out, -1)
+	if len(rows) == 0 {
+		t.Fatal("no rating rows")
+	}
+	for _, r := range rows {
+		C, D, L, imp, rf := parseNum(t, r[5]), parseNum(t, r[6]), parseNum(t, r[7]), parseNum(t, r[8]), parseNum(t, r[9])
+		want := (C - D) / (L * imp)
+		if tol := 0.0051 + 0.1/(L*imp) + math.Abs(want)*0.05/L; math.Abs(rf-want) > tol {
+			t.Errorf("%s %s: RF %v, (C − D)/(L(1 + I)) = %.4f", r[1], r[2], rf, want)
+		}
+	}
+	// EN 1991-2 6.4.5.2 (from memory): Phi3 = 2.16/(sqrt(L) − 0.2) + 0.73 at L = 48 m.
+	phi3 := fmt.Sprintf("dynamic allowance phi3 gives 1 + I = %.3f", 2.16/(math.Sqrt(48)-0.2)+0.73)
+	for _, s := range []string{"Why flagged", phi3, Caution[0]} {
+		if !strings.Contains(out, s) {
+			t.Errorf("explanation lacks %q", s)
+		}
+	}
+	if len(b.Members[b.indexOf("U1-L2")].Flags) > 0 && !strings.Contains(out, "  - ") {
+		t.Error("a flagged member's explanation gives no reason")
+	}
+
+	err := Explain(&sb, f.Run, b, "U9-L9")
+	if err == nil || !strings.Contains(err.Error(), `"U9-L9"`) || !strings.Contains(err.Error(), "U1-L2") {
+		t.Errorf("unknown member: got %v, want an error naming it and the members", err)
+	}
+}
+
+func (b Bridge) indexOf(label string) int {
+	for i, m := range b.Members {
+		if m.Label == label {
+			return i
+		}
+	}
+	return -1
+}

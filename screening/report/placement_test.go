@@ -1,0 +1,97 @@
+package report
+
+import (
+	"math"
+	"testing"
+
+	"github.com/trussfleet/trussfleet/screening/analysis"
+	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/truss"
+)
+
+// The loads drawn on an influence line must be the loads that caused the extreme: placed as
+// the drawing places them, superposition (sum of P·eta plus q·∫eta, DOMAIN.md) must give the
+// force the envelope found. The envelope's own search is checked against brute force in its
+// package; this checks the report's reading of the placement convention.
+func TestPlacementReproducesEnvelope(t *testing.T) {
+	trusses := []truss.Params{
+		{Type: "pratt", SpanM: 48, Panels: 8, DepthM: 6},
+		{Type: "warren", SpanM: 31.5, Panels: 7, DepthM: 4.5},
+		{Type: "howe", SpanM: 24, Panels: 6, DepthM: 4, Deck: truss.DeckTop},
+	}
+	specs := []string{
+		"lm71", "sw0", "sw2", "cooper:e=80", "cooper-alt:e=80", "uniform:q=20,min=12,max=48", "unloaded",
+		"northmoor-freight-today", "northmoor-freight-proposed", "eastfell-multiple-unit",
+	}
+	const share = 0.5
+	for _, p := range trusses {
+		tr, err := truss.Build(p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		lines, err := analysis.InfluenceLines(tr, analysis.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		ords := make([][]float64, len(lines.Members))
+		for i, m := range lines.Members {
+			ords[i] = m.Ordinates
+		}
+		for _, spec := range specs {
+			train := parseTrain(t, spec)
+			ex, err := envelope.Compute(lines.X, ords, train, envelope.Options{Share: share})
+			if err != nil {
+				t.Fatal(err)
+			}
+			for i, m := range lines.Members {
+				for _, c := range []struct {
+					sense string
+					sign  float64
+					e     envelope.Extreme
+				}{{"tension", 1, ex[i].Max}, {"compression", -1, ex[i].Min}} {
+					if !c.e.Loaded {
+						continue
+					}
+					ob := placeTrain(train, c.e.Placement, tr.SpanM(), lines.X, m.Ordinates, c.sign)
+					got := share * ob.effect(lines.X, m.Ordinates)
+					// Tolerance: rounding of the sweep, relative to the force (common practice).
+					if tol := 1e-6 * math.Max(1, math.Abs(c.e.Value)); math.Abs(got-c.e.Value) > tol {
+						t.Errorf("%s %s, %s %s %s: drawn loads give %.6f kN, envelope %.6f kN (placement %+v)",
+							p.Type, spec, m.Label, c.sense, c.e.Direction, got, c.e.Value, c.e.Placement)
+					}
+				}
+			}
+		}
+	}
+}
+
+func TestSignIntervalsAndIntegral(t *testing.T) {
+	// A line through (0,0), (1,1), (2,−1), (3,0): zero at x = 1.5 by similar triangles.
+	xs := []float64{0, 1, 2, 3}
+	eta := []float64{0, 1, -1, 0}
+	pos := signIntervals(xs, eta, 1)
+	neg := signIntervals(xs, eta, -1)
+	if len(pos) != 1 || math.Abs(pos[0][0]) > 1e-12 || math.Abs(pos[0][1]-1.5) > 1e-12 {
+		t.Errorf("positive stretches %v, want [[0 1.5]]", pos)
+	}
+	if len(neg) != 1 || math.Abs(neg[0][0]-1.5) > 1e-12 || math.Abs(neg[0][1]-3) > 1e-12 {
+		t.Errorf("negative stretches %v, want [[1.5 3]]", neg)
+	}
+	cases := []struct {
+		name string
+		a, b float64
+		want float64 // areas of triangles and trapezoids, worked by hand
+	}{
+		{"whole line", -5, 10, 0},
+		{"first triangle", 0, 1, 0.5},
+		{"to the crossing", 0, 1.5, 0.75},
+		{"crossing to the end", 1.5, 3, -0.75},
+		{"inside one segment", 0.25, 0.75, 0.25}, // mean ordinate 0.5 over 0.5 m
+		{"empty", 2, 2, 0},
+	}
+	for _, c := range cases {
+		if got := integral(xs, eta, c.a, c.b); math.Abs(got-c.want) > 1e-12 {
+			t.Errorf("%s: integral over [%v, %v] = %v, want %v", c.name, c.a, c.b, got, c.want)
+		}
+	}
+}
