@@ -91,6 +91,15 @@ func (db *DB) Runs(ctx context.Context, limit int) ([]Run, error) {
 	return pgx.CollectRows(rows, func(r pgx.CollectableRow) (Run, error) { return scanRun(r) })
 }
 
+// LatestCompletedRuns gives the ids of the newest n completed runs, newest first.
+func (db *DB) LatestCompletedRuns(ctx context.Context, n int) ([]int64, error) {
+	rows, err := db.Pool.Query(ctx, "SELECT id FROM runs WHERE status = 'completed' ORDER BY id DESC LIMIT $1", n)
+	if err != nil {
+		return nil, err
+	}
+	return pgx.CollectRows(rows, pgx.RowTo[int64])
+}
+
 // SetRunStatus moves a run to a new status (finished_at set for every status but running).
 func (db *DB) SetRunStatus(ctx context.Context, id int64, status string) error {
 	_, err := db.Pool.Exec(ctx, `UPDATE runs SET status = $2,

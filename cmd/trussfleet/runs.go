@@ -87,9 +87,14 @@ func newRunsCmd(a *app) *cobra.Command {
 		},
 	}
 	diff := &cobra.Command{
-		Use:   "diff A B",
-		Short: "What changed from run A to run B: newly flagged, cleared, rank and RF changes",
-		Args:  cobra.ExactArgs(2),
+		Use:   "diff [A B]",
+		Short: "What changed from run A to run B (default: the two latest completed runs)",
+		Args: func(cmd *cobra.Command, args []string) error {
+			if len(args) != 0 && len(args) != 2 {
+				return fmt.Errorf("runs diff takes two run ids, or none for the two latest completed runs")
+			}
+			return nil
+		},
 		RunE: func(cmd *cobra.Command, args []string) error {
 			var ids [2]int64
 			for i, s := range args {
@@ -105,6 +110,16 @@ func newRunsCmd(a *app) *cobra.Command {
 				return err
 			}
 			defer db.Close()
+			if len(args) == 0 {
+				last, err := db.LatestCompletedRuns(ctx, 2)
+				if err != nil {
+					return err
+				}
+				if len(last) < 2 {
+					return fmt.Errorf("runs diff needs two completed runs; there are %d", len(last))
+				}
+				ids = [2]int64{last[1], last[0]}
+			}
 			for _, id := range ids {
 				if _, err := db.GetRun(ctx, id); err != nil {
 					return err
