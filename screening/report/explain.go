@@ -126,7 +126,11 @@ func Explain(w io.Writer, run Run, b Bridge, member string) error {
 			}
 			p("  governing %s: %s kN, %s, %s\n", g.sense, signed(g.e.Value, 1), plain(orDash(g.e.Train)), placementWords(g.e, g.tr))
 			if g.tr != nil && sc.name == "proposed" && g.sign == governing(m) {
-				explainLoads(ew, g.tr, g.e, t.SpanM(), lines.X, eta, g.sign, shareOf(b))
+				if e, ok := placementOf(g.tr, g.e, lines.X, eta, shareOf(b), g.sign); ok {
+					explainLoads(ew, g.tr, e, t.SpanM(), lines.X, eta, g.sign, shareOf(b))
+				} else {
+					p("    (train %s as now defined does not give this force: it has changed since the run)\n", plain(g.e.Train))
+				}
 			}
 		}
 	}

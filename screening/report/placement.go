@@ -157,3 +157,28 @@ func (o onBridge) effect(xs, eta []float64) float64 {
 
 // finite reports whether v is a number that can be drawn or printed as one.
 func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
+
+// placementOf gives the full placement of a member's extreme under train t: the envelope is
+// recomputed for that one train on the member's line (exact and cheap), so that the drawing
+// does not depend on how much of the placement the store kept. ok is false when t is nil or
+// no longer gives the stored force (the train's definition has changed since the run); the
+// stored extreme is then returned as it is.
+func placementOf(t *traffic.Train, stored envelope.Extreme, xs, eta []float64, share, sign float64) (e envelope.Extreme, ok bool) {
+	if t == nil || !stored.Loaded {
+		return stored, false
+	}
+	ex, err := envelope.Compute(xs, [][]float64{eta}, t, envelope.Options{Share: share})
+	if err != nil {
+		return stored, false
+	}
+	e = ex[0].Max
+	if sign < 0 {
+		e = ex[0].Min
+	}
+	// Same force to rounding of the sweep (the run stored it as a double).
+	if math.Abs(e.Value-stored.Value) > 1e-6*math.Max(1, math.Abs(stored.Value)) {
+		return stored, false
+	}
+	e.Train = stored.Train
+	return e, true
+}

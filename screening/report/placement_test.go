@@ -95,3 +95,43 @@ func TestSignIntervalsAndIntegral(t *testing.T) {
 		}
 	}
 }
+
+// A placement stored with only the force, the train and the head (as a store may keep it) is
+// completed by recomputing the one train on the one line; a train whose definition has
+// changed is recognised by its different force.
+func TestPlacementOfCompletesStoredExtreme(t *testing.T) {
+	tr, err := truss.Build(truss.Params{Type: "pratt", SpanM: 48, Panels: 8, DepthM: 6})
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines, err := analysis.InfluenceLines(tr, analysis.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, spec := range []string{"northmoor-freight-proposed", "cooper:e=80"} {
+		train := parseTrain(t, spec)
+		for _, m := range lines.Members {
+			ex, err := envelope.Compute(lines.X, [][]float64{m.Ordinates}, train, envelope.Options{Share: 0.5})
+			if err != nil {
+				t.Fatal(err)
+			}
+			full := ex[0].Max
+			if !full.Loaded {
+				continue
+			}
+			stored := envelope.Extreme{Value: full.Value, Train: full.Train, Placement: envelope.Placement{Loaded: true, HeadM: full.HeadM, Direction: full.Direction}}
+			got, ok := placementOf(train, stored, lines.X, m.Ordinates, 0.5, 1)
+			if !ok {
+				t.Fatalf("%s %s: placement not recovered", spec, m.Label)
+			}
+			ob := placeTrain(train, got.Placement, 48, lines.X, m.Ordinates, 1)
+			// Superposition (DOMAIN.md): the drawn loads give the stored force.
+			if f := 0.5 * ob.effect(lines.X, m.Ordinates); math.Abs(f-full.Value) > 1e-6*math.Max(1, full.Value) {
+				t.Errorf("%s %s: drawn loads give %v kN, stored %v kN", spec, m.Label, f, full.Value)
+			}
+			if _, ok := placementOf(train.Scaled(1.1), stored, lines.X, m.Ordinates, 0.5, 1); ok {
+				t.Errorf("%s %s: a train 10 %% heavier passes for the one the run used", spec, m.Label)
+			}
+		}
+	}
+}

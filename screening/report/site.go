@@ -502,7 +502,14 @@ func memberSection(run Run, b Bridge, t *truss.Truss, lines *analysis.Lines, i i
 	if sign < 0 {
 		ex, tr, sense = m.Proposed.Min, m.Proposed.MinTrain, "compression"
 	}
-	ob := placeTrain(tr, ex.Placement, t.SpanM(), lines.X, eta, sign)
+	ex, same := placementOf(tr, ex, lines.X, eta, shareOf(b), sign)
+	var ob onBridge
+	if same {
+		ob = placeTrain(tr, ex.Placement, t.SpanM(), lines.X, eta, sign)
+	} else if tr != nil && ex.Loaded {
+		s.Captions = append(s.Captions, fmt.Sprintf("Train %s as now defined does not give the run's force here: its definition has changed since the run, so its loads are not drawn.", ex.Train))
+		tr = nil
+	}
 	c := drawIL(fmt.Sprintf("m%d", i), m.Label, t.SpanM(), lines.X, eta, ob, ex.Direction == 0, ex.HeadM, ex.Loaded && tr != nil)
 	s.Chart = &c
 	pos, neg := analysis.Areas(lines.X, eta)
