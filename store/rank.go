@@ -16,18 +16,35 @@ const rankOrder = `(r.status = 'failed'), r.rf_proposed ASC NULLS LAST, r.demand
 // Ranked returns a run's priority list (limit 0: all of it), joined with the inventory's
 // current names and dates.
 func (db *DB) Ranked(ctx context.Context, runID int64, limit int) ([]report.BridgeRow, error) {
-	q := `SELECT row_number() OVER (ORDER BY ` + rankOrder + `), r.bridge_id, coalesce(b.name, ''), coalesce(b.line, ''),
+	return db.ranked(ctx, runID, limit, "")
+}
+
+// RankedBridge is one bridge's row of a run's priority list.
+func (db *DB) RankedBridge(ctx context.Context, runID int64, bridgeID string) (report.BridgeRow, error) {
+	rows, err := db.ranked(ctx, runID, 0, bridgeID)
+	if err != nil {
+		return report.BridgeRow{}, err
+	}
+	if len(rows) == 0 {
+		return report.BridgeRow{}, fmt.Errorf("bridge %q in run %d: %w", bridgeID, runID, ErrNotFound)
+	}
+	return rows[0], nil
+}
+
+func (db *DB) ranked(ctx context.Context, runID int64, limit int, only string) ([]report.BridgeRow, error) {
+	q := `SELECT * FROM (SELECT row_number() OVER (ORDER BY ` + rankOrder + `) AS rank, r.bridge_id, coalesce(b.name, ''), coalesce(b.line, ''),
 		b.chainage_km, coalesce(b.truss_type, ''), coalesce(b.span_m, 0), coalesce(b.panels, 0), coalesce(r.worst_member, ''),
 		r.rf_existing, r.rf_proposed, r.demand_increase, r.headroom, r.flags, r.flag_counts,
 		coalesce(r.governing_train, ''), coalesce(r.governing_sense, ''), r.governing_head_m,
 		coalesce(r.governing_direction, ''), r.governing_from_m, r.governing_to_m,
 		coalesce(to_char(b.last_inspected, 'YYYY-MM-DD'), ''), r.status, r.error
 		FROM run_bridges r LEFT JOIN bridges b ON b.bridge_id = r.bridge_id
-		WHERE r.run_id = $1 AND r.status <> 'pending'
-		ORDER BY ` + rankOrder
-	args := []any{runID}
+		WHERE r.run_id = $1 AND r.status <> 'pending') AS ranked
+		WHERE $2 = '' OR bridge_id = $2
+		ORDER BY rank`
+	args := []any{runID, only}
 	if limit > 0 {
-		q += " LIMIT $2"
+		q += " LIMIT $3"
 		args = append(args, limit)
 	}
 	rows, err := db.Pool.Query(ctx, q, args...)

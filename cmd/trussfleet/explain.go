@@ -1,0 +1,41 @@
+package main
+
+import (
+	"github.com/spf13/cobra"
+	"github.com/trussfleet/trussfleet/screening/report"
+)
+
+func init() { commands = append(commands, newExplainCmd) }
+
+func newExplainCmd(a *app) *cobra.Command {
+	var runID int64
+	cmd := &cobra.Command{
+		Use:   "explain BRIDGE MEMBER",
+		Short: "Show how a member's rating factors and flags came about: geometry, influence line, trains, arithmetic",
+		Example: "  trussfleet explain NER-00001 L5-L6\n  trussfleet explain NER-00013 L3-U3 --run 2",
+		Args:    cobra.ExactArgs(2),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			ctx := cmd.Context()
+			db, err := a.openDatabase(ctx)
+			if err != nil {
+				return err
+			}
+			defer db.Close()
+			r, err := pickRun(ctx, db, runID)
+			if err != nil {
+				return err
+			}
+			run, err := db.ReportRun(ctx, r.ID)
+			if err != nil {
+				return err
+			}
+			b, err := db.ReportBridge(ctx, run, args[0])
+			if err != nil {
+				return err
+			}
+			return report.Explain(cmd.OutOrStdout(), run, b, args[1])
+		},
+	}
+	cmd.Flags().Int64Var(&runID, "run", 0, "run id (default: the latest completed run)")
+	return cmd
+}
