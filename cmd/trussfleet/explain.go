@@ -10,8 +10,8 @@ func init() { commands = append(commands, newExplainCmd) }
 func newExplainCmd(a *app) *cobra.Command {
 	var runID int64
 	cmd := &cobra.Command{
-		Use:   "explain BRIDGE MEMBER",
-		Short: "Show how a member's rating factors and flags came about: geometry, influence line, trains, arithmetic",
+		Use:     "explain BRIDGE MEMBER",
+		Short:   "Show how a member's rating factors and flags came about: geometry, influence line, trains, arithmetic",
 		Example: "  trussfleet explain NER-00001 L5-L6\n  trussfleet explain NER-00013 L3-U3 --run 2",
 		Args:    cobra.ExactArgs(2),
 		RunE: func(cmd *cobra.Command, args []string) error {
