@@ -21,7 +21,8 @@ func newDemoCmd(a *app) *cobra.Command {
 		Long: `demo starts the embedded PostgreSQL (unless a database URL is configured), migrates it,
 imports the invented fleet of the Northmoor & Eastfell Railway from testdata/demo and the
 example trains from configs/trains, screens the existing against the proposed traffic,
-writes the priority list to the output folder (trussfleet-out) and prints a summary.
+writes the priority list and the HTML report to the output folder (trussfleet-out) and
+prints a summary.
 Running it again re-imports (nothing changes) and screens again as a new run.`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
@@ -78,6 +79,11 @@ Running it again re-imports (nothing changes) and screens again as a new run.`,
 					fmt.Fprintln(out, "Wrote", p)
 				}
 			}
+			site := filepath.Join(a.cfg.Output, "report")
+			if err := writeReport(ctx, db, run.ID, site); err != nil {
+				return err
+			}
+			fmt.Fprintf(out, "Wrote %s (open it in a browser)\n", filepath.Join(site, "index.html"))
 			return screenErr
 		},
 	}

@@ -1,11 +1,13 @@
 package main
 
 import (
+	"context"
 	"fmt"
 	"path/filepath"
 
 	"github.com/spf13/cobra"
 	"github.com/trussfleet/trussfleet/screening/report"
+	"github.com/trussfleet/trussfleet/store"
 )
 
 func init() { commands = append(commands, newReportCmd) }
@@ -28,20 +30,10 @@ func newReportCmd(a *app) *cobra.Command {
 			if err != nil {
 				return err
 			}
-			run, err := db.ReportRun(ctx, r.ID)
-			if err != nil {
-				return err
-			}
-			rows, err := db.Ranked(ctx, r.ID, 0)
-			if err != nil {
-				return err
-			}
 			if out == "" {
 				out = filepath.Join(a.cfg.Output, "report")
 			}
-			if err := report.WriteSite(out, run, rows, func(id string) (report.Bridge, error) {
-				return db.ReportBridge(ctx, run, id)
-			}); err != nil {
+			if err := writeReport(ctx, db, r.ID, out); err != nil {
 				return err
 			}
 			w := cmd.OutOrStdout()
@@ -53,4 +45,19 @@ func newReportCmd(a *app) *cobra.Command {
 	cmd.Flags().Int64Var(&runID, "run", 0, "run id (default: the latest completed run)")
 	cmd.Flags().StringVar(&out, "out", "", "output folder (default: <output>/report)")
 	return cmd
+}
+
+// writeReport writes the HTML report of a run into dir.
+func writeReport(ctx context.Context, db *store.DB, runID int64, dir string) error {
+	run, err := db.ReportRun(ctx, runID)
+	if err != nil {
+		return err
+	}
+	rows, err := db.Ranked(ctx, runID, 0)
+	if err != nil {
+		return err
+	}
+	return report.WriteSite(dir, run, rows, func(id string) (report.Bridge, error) {
+		return db.ReportBridge(ctx, run, id)
+	})
 }
