@@ -167,6 +167,20 @@ func TestEndToEnd(t *testing.T) {
 	if reversals != 3 {
 		t.Errorf("%d L3-U3 reversals in the member list, want 3", reversals)
 	}
+	// explain shows the hand-worked arithmetic of T-1's L2-L3: D = 360, L = 300, RF = 0.80.
+	out, err = run(t, "--database-url", url, "--config", cfg, "explain", "T-1", "L2-L3")
+	if err != nil || !strings.Contains(out, "+360.0") || !strings.Contains(out, "300.0") || !strings.Contains(out, "0.80") || !strings.Contains(out, "CAUTION") {
+		t.Errorf("explain: %v\n%s", err, out)
+	}
+	site := filepath.Join(dir, "report")
+	if out, err := run(t, "--database-url", url, "--config", cfg, "report", "--out", site); err != nil {
+		t.Errorf("report: %v\n%s", err, out)
+	}
+	for _, id := range []string{"T-1", "T-2", "T-3"} {
+		if _, err := os.Stat(filepath.Join(site, "bridge-"+id+".html")); err != nil {
+			t.Errorf("report page of %s: %v", id, err)
+		}
+	}
 	out, err = run(t, "--database-url", url, "--config", cfg, "rank")
 	if err != nil || strings.Index(out, "T-3") > strings.Index(out, "T-1") || strings.Index(out, "T-1") > strings.Index(out, "T-2") {
 		t.Errorf("rank: %v\n%s", err, out)
