@@ -53,3 +53,24 @@ func (a *app) openDatabase(ctx context.Context) (*store.DB, error) {
 	}
 	return db, nil
 }
+
+// withDatabase opens the database for a command, runs f, and closes it.
+func (a *app) withDatabase(ctx context.Context, f func(db *store.DB) error) error {
+	db, err := a.openDatabase(ctx)
+	if err != nil {
+		return err
+	}
+	defer db.Close()
+	return f(db)
+}
+
+// withRun opens the database and finds the run asked for (0: the latest completed run).
+func (a *app) withRun(ctx context.Context, runID int64, f func(db *store.DB, run store.Run) error) error {
+	return a.withDatabase(ctx, func(db *store.DB) error {
+		run, err := pickRun(ctx, db, runID)
+		if err != nil {
+			return err
+		}
+		return f(db, run)
+	})
+}

@@ -3,6 +3,7 @@ package main
 import (
 	"github.com/spf13/cobra"
 	"github.com/trussfleet/trussfleet/screening/report"
+	"github.com/trussfleet/trussfleet/store"
 )
 
 func init() { commands = append(commands, newExplainCmd) }
@@ -16,24 +17,17 @@ func newExplainCmd(a *app) *cobra.Command {
 		Args:    cobra.ExactArgs(2),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			ctx := cmd.Context()
-			db, err := a.openDatabase(ctx)
-			if err != nil {
-				return err
-			}
-			defer db.Close()
-			r, err := pickRun(ctx, db, runID)
-			if err != nil {
-				return err
-			}
-			run, err := db.ReportRun(ctx, r.ID)
-			if err != nil {
-				return err
-			}
-			b, err := db.ReportBridge(ctx, run, args[0])
-			if err != nil {
-				return err
-			}
-			return report.Explain(cmd.OutOrStdout(), run, b, args[1])
+			return a.withRun(ctx, runID, func(db *store.DB, r store.Run) error {
+				run, err := db.ReportRun(ctx, r.ID)
+				if err != nil {
+					return err
+				}
+				b, err := db.ReportBridge(ctx, run, args[0])
+				if err != nil {
+					return err
+				}
+				return report.Explain(cmd.OutOrStdout(), run, b, args[1])
+			})
 		},
 	}
 	cmd.Flags().Int64Var(&runID, "run", 0, "run id (default: the latest completed run)")

@@ -32,23 +32,13 @@ folder (--out, default trussfleet-out). Columns are described in the README.`,
 				return err
 			}
 			ctx := cmd.Context()
-			db, err := a.openDatabase(ctx)
-			if err != nil {
+			return a.withRun(ctx, runID, func(db *store.DB, run store.Run) error {
+				paths, err := exportRun(ctx, db, run, a.cfg.Output, format)
+				for _, p := range paths {
+					fmt.Fprintln(cmd.OutOrStdout(), "wrote", p)
+				}
 				return err
-			}
-			defer db.Close()
-			run, err := pickRun(ctx, db, runID)
-			if err != nil {
-				return err
-			}
-			paths, err := exportRun(ctx, db, run, a.cfg.Output, format)
-			if err != nil {
-				return err
-			}
-			for _, p := range paths {
-				fmt.Fprintln(cmd.OutOrStdout(), "wrote", p)
-			}
-			return nil
+			})
 		},
 	}
 	cmd.Flags().Int64Var(&runID, "run", 0, "run id (default: the latest completed run)")

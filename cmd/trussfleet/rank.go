@@ -3,10 +3,12 @@ package main
 import (
 	"context"
 	"fmt"
+	"io"
 	"strings"
 	"text/tabwriter"
 
 	"github.com/spf13/cobra"
+	"github.com/trussfleet/trussfleet/screening/report"
 	"github.com/trussfleet/trussfleet/store"
 )
 
@@ -21,44 +23,41 @@ func newRankCmd(a *app) *cobra.Command {
 		Args:  cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
 			ctx := cmd.Context()
-			db, err := a.openDatabase(ctx)
-			if err != nil {
-				return err
-			}
-			defer db.Close()
-			run, err := pickRun(ctx, db, runID)
-			if err != nil {
-				return err
-			}
-			rows, err := db.Ranked(ctx, run.ID, limit)
-			if err != nil {
-				return err
-			}
-			w := cmd.OutOrStdout()
-			fmt.Fprintf(w, "Priority list, run %d (%s, started %s)\n\n", run.ID, run.Status, run.StartedAt.Format("2006-01-02 15:04"))
-			tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-			fmt.Fprintln(tw, "rank\tbridge\tname\tline\tkm\ttype\tspan m\tworst\tRF ex\tRF pr\tchange\tdemand +\theadroom\tflags\tgoverning train (where)\tinspected")
-			for _, r := range rows {
-				flags := strings.Join(r.Flags, ",")
-				if r.Status == "failed" {
-					flags = "FAILED: " + r.Error
+			return a.withRun(ctx, runID, func(db *store.DB, run store.Run) error {
+				rows, err := db.Ranked(ctx, run.ID, limit)
+				if err != nil {
+					return err
 				}
-				fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%.1f\t%s\t%s\t%s\t%s\t%.0f%%\t%s\t%s\t%s\t%s\n",
-					r.Rank, r.BridgeID, r.Name, r.Line, fmtOpt(r.ChainageKm, "%.3f"), r.TrussType, r.SpanM, r.WorstMember,
-					fmtRF(r.RFExisting), fmtRF(r.RFProposed), fmtPct(r.Change), 100*r.DemandIncrease, fmtOpt(r.Headroom, "%.2f×"),
-					flags, governing(r.GoverningTrain, r.GoverningSense, r.GoverningDirection, r.GoverningHeadM), r.LastInspected)
-			}
-			if err := tw.Flush(); err != nil {
-				return err
-			}
-			fmt.Fprintln(w)
-			printCaution(w)
-			return nil
+				return printRanked(cmd.OutOrStdout(), run, rows)
+			})
 		},
 	}
 	cmd.Flags().Int64Var(&runID, "run", 0, "run id (default: the latest completed run)")
 	cmd.Flags().IntVar(&limit, "limit", 0, "show only the first N bridges")
 	return cmd
+}
+
+// printRanked prints a priority list for a person.
+func printRanked(w io.Writer, run store.Run, rows []report.BridgeRow) error {
+	fmt.Fprintf(w, "Priority list, run %d (%s, started %s)\n\n", run.ID, run.Status, run.StartedAt.Format("2006-01-02 15:04"))
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprintln(tw, "rank\tbridge\tname\tline\tkm\ttype\tspan m\tworst\tRF ex\tRF pr\tchange\tdemand +\theadroom\tflags\tgoverning train (where)\tinspected")
+	for _, r := range rows {
+		flags := strings.Join(r.Flags, ",")
+		if r.Status == "failed" {
+			flags = "FAILED: " + r.Error
+		}
+		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%.1f\t%s\t%s\t%s\t%s\t%.0f%%\t%s\t%s\t%s\t%s\n",
+			r.Rank, r.BridgeID, r.Name, r.Line, fmtOpt(r.ChainageKm, "%.3f"), r.TrussType, r.SpanM, r.WorstMember,
+			fmtRF(r.RFExisting), fmtRF(r.RFProposed), fmtPct(r.Change), 100*r.DemandIncrease, fmtOpt(r.Headroom, "%.2f×"),
+			flags, governing(r.GoverningTrain, r.GoverningSense, r.GoverningDirection, r.GoverningHeadM), r.LastInspected)
+	}
+	if err := tw.Flush(); err != nil {
+		return err
+	}
+	fmt.Fprintln(w)
+	printCaution(w)
+	return nil
 }
 
 // pickRun is the run asked for, or the latest completed one.

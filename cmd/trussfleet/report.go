@@ -21,25 +21,18 @@ func newReportCmd(a *app) *cobra.Command {
 		Args:  cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
 			ctx := cmd.Context()
-			db, err := a.openDatabase(ctx)
-			if err != nil {
-				return err
-			}
-			defer db.Close()
-			r, err := pickRun(ctx, db, runID)
-			if err != nil {
-				return err
-			}
 			if out == "" {
 				out = filepath.Join(a.cfg.Output, "report")
 			}
-			if err := writeReport(ctx, db, r.ID, out); err != nil {
-				return err
-			}
-			w := cmd.OutOrStdout()
-			fmt.Fprintf(w, "Wrote the report of run %d: %s\n", r.ID, filepath.Join(out, "index.html"))
-			printCaution(w)
-			return nil
+			return a.withRun(ctx, runID, func(db *store.DB, r store.Run) error {
+				if err := writeReport(ctx, db, r.ID, out); err != nil {
+					return err
+				}
+				w := cmd.OutOrStdout()
+				fmt.Fprintf(w, "Wrote the report of run %d: %s\n", r.ID, filepath.Join(out, "index.html"))
+				printCaution(w)
+				return nil
+			})
 		},
 	}
 	cmd.Flags().Int64Var(&runID, "run", 0, "run id (default: the latest completed run)")

@@ -1,8 +1,10 @@
 package main
 
 import (
+	"context"
 	"encoding/json"
 	"fmt"
+	"io"
 	"strconv"
 	"strings"
 	"text/tabwriter"
@@ -23,29 +25,7 @@ func newRunsCmd(a *app) *cobra.Command {
 		Args:  cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
 			ctx := cmd.Context()
-			db, err := a.openDatabase(ctx)
-			if err != nil {
-				return err
-			}
-			defer db.Close()
-			runs, err := db.Runs(ctx, limit)
-			if err != nil {
-				return err
-			}
-			tw := tabwriter.NewWriter(cmd.OutOrStdout(), 0, 0, 2, ' ', 0)
-			fmt.Fprintln(tw, "run\tstatus\tmode\tstarted\tfinished\tbridges\tscreened\tcarried\tfailed")
-			for _, r := range runs {
-				p, err := db.Progress(ctx, r.ID)
-				if err != nil {
-					return err
-				}
-				fin := "—"
-				if r.FinishedAt != nil {
-					fin = r.FinishedAt.Format("2006-01-02 15:04:05")
-				}
-				fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%d\t%d\t%d\t%d\n", r.ID, r.Status, r.Mode, r.StartedAt.Format("2006-01-02 15:04:05"), fin, p.Total, p.Done, p.Carried, p.Failed)
-			}
-			return tw.Flush()
+			return a.withDatabase(ctx, func(db *store.DB) error { return listRuns(ctx, cmd.OutOrStdout(), db, limit) })
 		},
 	}
 	list.Flags().IntVar(&limit, "limit", 20, "how many runs")
@@ -54,36 +34,12 @@ func newRunsCmd(a *app) *cobra.Command {
 		Short: "Show a run: its trains, settings and summary",
 		Args:  cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			id, err := strconv.ParseInt(args[0], 10, 64)
+			ids, err := runIDs(args)
 			if err != nil {
-				return fmt.Errorf("run id %q: not a number", args[0])
+				return err
 			}
 			ctx := cmd.Context()
-			db, err := a.openDatabase(ctx)
-			if err != nil {
-				return err
-			}
-			defer db.Close()
-			r, err := db.GetRun(ctx, id)
-			if err != nil {
-				return err
-			}
-			var plan screening.Plan
-			if err := json.Unmarshal(r.Plan, &plan); err != nil {
-				return fmt.Errorf("run %d plan: %w", id, err)
-			}
-			w := cmd.OutOrStdout()
-			fmt.Fprintf(w, "Run %d: %s (%s), program %s, configuration %s\n", r.ID, r.Status, r.Mode, r.ProgramVersion, r.ConfigHash[:12])
-			if r.BaseRunID != nil {
-				fmt.Fprintf(w, "Unchanged bridges carried forward from run %d\n", *r.BaseRunID)
-			}
-			fmt.Fprintf(w, "Existing traffic: %s\nProposed traffic: %s\n", strings.Join(screening.TrainNames(plan.Existing), ", "), strings.Join(screening.TrainNames(plan.Proposed), ", "))
-			if len(plan.References) > 0 {
-				fmt.Fprintf(w, "Reference trains of stored ratings: %s\n", strings.Join(screening.TrainNames(plan.References), ", "))
-			}
-			fmt.Fprintf(w, "Dynamic allowance %s; rating %s; flag below %.2f, review below %.2f, worse beyond %.0f %%\n",
-				plan.Dynamic, plan.Method, plan.Flag, plan.Review, 100*plan.Worse)
-			return a.printSummary(ctx, db, w, id)
+			return a.withDatabase(ctx, func(db *store.DB) error { return a.showRun(ctx, cmd.OutOrStdout(), db, ids[0]) })
 		},
 	}
 	diff := &cobra.Command{
@@ -96,48 +52,99 @@ func newRunsCmd(a *app) *cobra.Command {
 			return nil
 		},
 		RunE: func(cmd *cobra.Command, args []string) error {
-			var ids [2]int64
-			for i, s := range args {
-				v, err := strconv.ParseInt(s, 10, 64)
-				if err != nil {
-					return fmt.Errorf("run id %q: not a number", s)
-				}
-				ids[i] = v
+			ids, err := runIDs(args)
+			if err != nil {
+				return err
 			}
 			ctx := cmd.Context()
-			db, err := a.openDatabase(ctx)
-			if err != nil {
-				return err
-			}
-			defer db.Close()
-			if len(args) == 0 {
-				last, err := db.LatestCompletedRuns(ctx, 2)
-				if err != nil {
-					return err
-				}
-				if len(last) < 2 {
-					return fmt.Errorf("runs diff needs two completed runs; there are %d", len(last))
-				}
-				ids = [2]int64{last[1], last[0]}
-			}
-			for _, id := range ids {
-				if _, err := db.GetRun(ctx, id); err != nil {
-					return err
-				}
-			}
-			changes, err := db.DiffRuns(ctx, ids[0], ids[1])
-			if err != nil {
-				return err
-			}
-			return printDiff(cmd, ids, changes)
+			return a.withDatabase(ctx, func(db *store.DB) error { return diffRuns(ctx, cmd.OutOrStdout(), db, ids) })
 		},
 	}
 	cmd.AddCommand(list, show, diff)
 	return cmd
 }
 
-func printDiff(cmd *cobra.Command, ids [2]int64, changes []store.BridgeChange) error {
-	w := cmd.OutOrStdout()
+func runIDs(args []string) ([]int64, error) {
+	ids := make([]int64, len(args))
+	for i, s := range args {
+		v, err := strconv.ParseInt(s, 10, 64)
+		if err != nil || v < 1 {
+			return nil, fmt.Errorf("run id %q: not a run number", s)
+		}
+		ids[i] = v
+	}
+	return ids, nil
+}
+
+func listRuns(ctx context.Context, w io.Writer, db *store.DB, limit int) error {
+	runs, err := db.Runs(ctx, limit)
+	if err != nil {
+		return err
+	}
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprintln(tw, "run\tstatus\tmode\tstarted\tfinished\tbridges\tscreened\tcarried\tfailed")
+	for _, r := range runs {
+		p, err := db.Progress(ctx, r.ID)
+		if err != nil {
+			return err
+		}
+		fin := "—"
+		if r.FinishedAt != nil {
+			fin = r.FinishedAt.Format("2006-01-02 15:04:05")
+		}
+		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%d\t%d\t%d\t%d\n", r.ID, r.Status, r.Mode, r.StartedAt.Format("2006-01-02 15:04:05"), fin, p.Total, p.Done, p.Carried, p.Failed)
+	}
+	return tw.Flush()
+}
+
+// showRun prints a run's trains, settings and summary.
+func (a *app) showRun(ctx context.Context, w io.Writer, db *store.DB, id int64) error {
+	r, err := db.GetRun(ctx, id)
+	if err != nil {
+		return err
+	}
+	var plan screening.Plan
+	if err := json.Unmarshal(r.Plan, &plan); err != nil {
+		return fmt.Errorf("run %d plan: %w", id, err)
+	}
+	fmt.Fprintf(w, "Run %d: %s (%s), program %s, configuration %s\n", r.ID, r.Status, r.Mode, r.ProgramVersion, r.ConfigHash[:12])
+	if r.BaseRunID != nil {
+		fmt.Fprintf(w, "Unchanged bridges carried forward from run %d\n", *r.BaseRunID)
+	}
+	fmt.Fprintf(w, "Existing traffic: %s\nProposed traffic: %s\n", strings.Join(screening.TrainNames(plan.Existing), ", "), strings.Join(screening.TrainNames(plan.Proposed), ", "))
+	if len(plan.References) > 0 {
+		fmt.Fprintf(w, "Reference trains of stored ratings: %s\n", strings.Join(screening.TrainNames(plan.References), ", "))
+	}
+	fmt.Fprintf(w, "Dynamic allowance %s; rating %s; flag below %.2f, review below %.2f, worse beyond %.0f %%\n",
+		plan.Dynamic, plan.Method, plan.Flag, plan.Review, 100*plan.Worse)
+	return a.printSummary(ctx, db, w, id)
+}
+
+// diffRuns prints what changed between two runs; no ids: the two latest completed runs.
+func diffRuns(ctx context.Context, w io.Writer, db *store.DB, ids []int64) error {
+	if len(ids) == 0 {
+		last, err := db.LatestCompletedRuns(ctx, 2)
+		if err != nil {
+			return err
+		}
+		if len(last) < 2 {
+			return fmt.Errorf("runs diff needs two completed runs; there are %d", len(last))
+		}
+		ids = []int64{last[1], last[0]}
+	}
+	for _, id := range ids {
+		if _, err := db.GetRun(ctx, id); err != nil {
+			return err
+		}
+	}
+	changes, err := db.DiffRuns(ctx, ids[0], ids[1])
+	if err != nil {
+		return err
+	}
+	return printDiff(w, [2]int64{ids[0], ids[1]}, changes)
+}
+
+func printDiff(w io.Writer, ids [2]int64, changes []store.BridgeChange) error {
 	var flagged, cleared, other []store.BridgeChange
 	for _, c := range changes {
 		switch {
