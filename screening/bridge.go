@@ -3,6 +3,7 @@ package screening
 import (
 	"context"
 	"fmt"
+	"reflect"
 	"sort"
 	"strings"
 	"sync"
@@ -70,6 +71,36 @@ type Settings struct {
 	Thresholds rating.Thresholds
 }
 
+// ShareTrains makes the trains that are defined alike, in either scenario or among the
+// references (a train in both scenarios; the existing freight train as the reference of
+// stored rating factors), one prepared load, so that a Screener sweeps each once per bridge.
+// Call it once, before screening.
+func (s *Settings) ShareTrains() {
+	var seen []*envelope.Load
+	share := func(ld *envelope.Load) *envelope.Load {
+		for _, o := range seen {
+			if o == ld || reflect.DeepEqual(o.Train(), ld.Train()) {
+				return o
+			}
+		}
+		seen = append(seen, ld)
+		return ld
+	}
+	for _, sc := range []*Scenario{&s.Existing, &s.Proposed} {
+		for i, ld := range sc.Trains {
+			sc.Trains[i] = share(ld)
+		}
+	}
+	names := make([]string, 0, len(s.References))
+	for n := range s.References {
+		names = append(names, n)
+	}
+	sort.Strings(names)
+	for _, n := range names {
+		s.References[n] = share(s.References[n])
+	}
+}
+
 // Extreme is one extreme force of a member (kN, after the truss share, before the dynamic
 // allowance) with the train and placement that cause it.
 type Extreme = envelope.Extreme
@@ -103,7 +134,32 @@ type Result struct {
 // Screener screens bridges one after another, reusing its buffers; one per goroutine.
 type Screener struct {
 	calc envelope.Calculator
-	buf  []envelope.Extremes
+	// swept holds the current bridge's envelope under each train swept so far: a train in
+	// both scenarios (or also a reference train) is swept once per bridge.
+	swept []sweptTrain
+}
+
+type sweptTrain struct {
+	ld  *envelope.Load
+	ext []envelope.Extremes
+}
+
+// sweep is the envelope of one train over the current bridge's lines, computed once.
+func (w *Screener) sweep(l *envelope.Lines, ld *envelope.Load, opt envelope.Options) []envelope.Extremes {
+	for _, s := range w.swept {
+		if s.ld == ld {
+			return s.ext
+		}
+	}
+	k := len(w.swept)
+	if k < cap(w.swept) {
+		w.swept = w.swept[:k+1]
+	} else {
+		w.swept = append(w.swept, sweptTrain{})
+	}
+	s := &w.swept[k]
+	s.ld, s.ext = ld, w.calc.Envelope(l, ld, opt, s.ext[:0])
+	return s.ext
 }
 
 // ScreenBridge screens one bridge with a fresh Screener.
@@ -115,6 +171,7 @@ func ScreenBridge(b Bridge, s *Settings) Result {
 // Screen screens one bridge.
 func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 	res.BridgeID = b.ID
+	w.swept = w.swept[:0]
 	fail := func(err error) Result {
 		return Result{BridgeID: b.ID, Err: err}
 	}
@@ -197,12 +254,12 @@ func (w *Screener) scenarioEnvelope(l *envelope.Lines, trains []*envelope.Load, 
 	out := make([]envelope.Extremes, l.Members())
 	opt := envelope.Options{Share: share}
 	for k, ld := range trains {
-		w.buf = w.calc.Envelope(l, ld, opt, w.buf[:0])
+		ext := w.sweep(l, ld, opt)
 		if k == 0 {
-			copy(out, w.buf)
+			copy(out, ext)
 			continue
 		}
-		envelope.Merge(out, w.buf)
+		envelope.Merge(out, ext)
 	}
 	env := make([]Envelope, len(out))
 	for i, e := range out {

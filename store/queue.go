@@ -51,6 +51,17 @@ type WorkerOptions struct {
 	Logger *slog.Logger
 	// OnChunk is told, after each committed job, how many bridges it wrote.
 	OnChunk func(runID int64, bridges int)
+	// OnTiming, when set, is told after each committed job where its time went.
+	OnTiming func(ChunkTiming)
+}
+
+// ChunkTiming is where one job's wall time went.
+type ChunkTiming struct {
+	Bridges int // bridges written
+	// Load reads the bridges and members; Screen computes them; Copy writes the result rows
+	// (locking the bridges' run_bridges rows first); Update writes the bridges' summaries;
+	// Commit finishes the run if it is done, completes the job and commits.
+	Load, Screen, Copy, Update, Commit time.Duration
 }
 
 // Client is a River client that works screening jobs (or, with NewInsertClient, only
@@ -197,7 +208,7 @@ func carryForward(ctx context.Context, tx pgx.Tx, id, base int64) error {
 	if _, err := tx.Exec(ctx, `INSERT INTO member_results SELECT $1, m.bridge_id, m.scenario, m.member, m.kind,
 		m.dead_kn, m.live_max_kn, m.live_min_kn, m.impact, m.rf_tension, m.rf_compression, m.basis, m.max_train,
 		m.max_head_m, m.max_direction, m.max_from_m, m.max_to_m, m.min_train, m.min_head_m, m.min_direction,
-		m.min_from_m, m.min_to_m
+		m.min_from_m, m.min_to_m, m.max_count, m.min_count
 		FROM member_results m JOIN run_bridges r ON r.run_id = $1 AND r.bridge_id = m.bridge_id AND r.status = 'carried'
 		WHERE m.run_id = $2`, id, base); err != nil {
 		return err
@@ -258,6 +269,7 @@ func (w *chunkWorker) runSettings(ctx context.Context, runID int64) (*screening.
 	if err != nil {
 		return nil, fmt.Errorf("run %d plan: %w", runID, err)
 	}
+	s.ShareTrains()
 	w.settings[runID] = s
 	return s, nil
 }
@@ -266,6 +278,8 @@ func (w *chunkWorker) runSettings(ctx context.Context, runID int64) (*screening.
 // with the job's completion, so that a bridge's results are written exactly once.
 func (w *chunkWorker) Work(ctx context.Context, job *river.Job[ChunkArgs]) error {
 	a := job.Args
+	var tm ChunkTiming
+	t0 := time.Now()
 	set, err := w.runSettings(ctx, a.RunID)
 	if err != nil {
 		return w.giveUp(ctx, job, err)
@@ -274,17 +288,19 @@ func (w *chunkWorker) Work(ctx context.Context, job *river.Job[ChunkArgs]) error
 	if err != nil {
 		return w.giveUp(ctx, job, err)
 	}
+	t1 := time.Now()
 	results, err := screening.ScreenAll(ctx, inputs, set, w.opt.Threads)
 	if err != nil {
 		return err // cancelled: the job runs again
 	}
-	var wrote int
+	t2 := time.Now()
+	tm.Load, tm.Screen = t1.Sub(t0), t2.Sub(t1)
 	err = pgx.BeginFunc(ctx, w.db.Pool, func(tx pgx.Tx) error {
-		n, err := writeResults(ctx, tx, a.RunID, results)
+		n, err := writeResults(ctx, tx, a.RunID, results, &tm)
 		if err != nil {
 			return err
 		}
-		wrote = n
+		tm.Bridges = n
 		if err := finishRunIfDone(ctx, tx, a.RunID); err != nil {
 			return err
 		}
@@ -294,8 +310,12 @@ func (w *chunkWorker) Work(ctx context.Context, job *river.Job[ChunkArgs]) error
 	if err != nil {
 		return w.giveUp(ctx, job, fmt.Errorf("writing results: %w", err))
 	}
+	tm.Commit = time.Since(t2) - tm.Copy - tm.Update
 	if w.opt.OnChunk != nil {
-		w.opt.OnChunk(a.RunID, wrote)
+		w.opt.OnChunk(a.RunID, tm.Bridges)
+	}
+	if w.opt.OnTiming != nil {
+		w.opt.OnTiming(tm)
 	}
 	return nil
 }

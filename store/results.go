@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"math"
 	"strings"
+	"time"
 
 	"github.com/jackc/pgx/v5"
 	"github.com/trussfleet/trussfleet/screening"
@@ -83,7 +84,7 @@ func RatingMember(m Member) rating.Member {
 
 var memberResultColumns = []string{"run_id", "bridge_id", "scenario", "member", "kind", "dead_kn", "live_max_kn",
 	"live_min_kn", "impact", "rf_tension", "rf_compression", "basis", "max_train", "max_head_m", "max_direction",
-	"max_from_m", "max_to_m", "min_train", "min_head_m", "min_direction", "min_from_m", "min_to_m"}
+	"max_from_m", "max_to_m", "min_train", "min_head_m", "min_direction", "min_from_m", "min_to_m", "max_count", "min_count"}
 
 var memberAssessmentColumns = []string{"run_id", "bridge_id", "member", "rf_existing", "rf_proposed",
 	"sense_proposed", "demand_increase", "flags"}
@@ -91,7 +92,8 @@ var memberAssessmentColumns = []string{"run_id", "bridge_id", "member", "rf_exis
 // writeResults writes the results of the bridges that are still pending, locking their rows
 // first: a second attempt at the same job (a rescued job whose first attempt committed) finds
 // them done and writes nothing. It returns the number of bridges written.
-func writeResults(ctx context.Context, tx pgx.Tx, runID int64, results []screening.Result) (int, error) {
+func writeResults(ctx context.Context, tx pgx.Tx, runID int64, results []screening.Result, tm *ChunkTiming) (int, error) {
+	t0 := time.Now()
 	ids := make([]string, len(results))
 	for i, r := range results {
 		ids[i] = r.BridgeID
@@ -141,6 +143,7 @@ func writeResults(ctx context.Context, tx pgx.Tx, runID int64, results []screeni
 	if _, err := tx.CopyFrom(ctx, pgx.Identifier{"member_assessments"}, memberAssessmentColumns, pgx.CopyFromRows(ma)); err != nil {
 		return 0, err
 	}
+	t1 := time.Now()
 	if _, err := tx.Exec(ctx, `UPDATE run_bridges r SET status = u.status, error = u.error,
 		worst_member = u.worst, rf_existing = u.rfe, rf_proposed = u.rfp, demand_increase = u.inc,
 		headroom = u.head, flags = string_to_array(u.flags, ','), flag_counts = u.counts::jsonb,
@@ -155,6 +158,7 @@ func writeResults(ctx context.Context, tx pgx.Tx, runID int64, results []screeni
 		u.ghead, u.gdir, u.gfrom, u.gto); err != nil {
 		return 0, err
 	}
+	tm.Copy, tm.Update = t1.Sub(t0), time.Since(t1)
 	return len(u.ids), nil
 }
 
@@ -227,7 +231,18 @@ func memberResultRow(runID int64, bridge, scenario string, m screening.MemberRes
 		e.Max.Train, placementNum(e.Max.Loaded, e.Max.HeadM), dirText(e.Max.Loaded, e.Max.Direction.String()),
 		placementNum(e.Max.Loaded, e.Max.LoadedFromM), placementNum(e.Max.Loaded, e.Max.LoadedToM),
 		e.Min.Train, placementNum(e.Min.Loaded, e.Min.HeadM), dirText(e.Min.Loaded, e.Min.Direction.String()),
-		placementNum(e.Min.Loaded, e.Min.LoadedFromM), placementNum(e.Min.Loaded, e.Min.LoadedToM)}
+		placementNum(e.Min.Loaded, e.Min.LoadedFromM), placementNum(e.Min.Loaded, e.Min.LoadedToM),
+		countOf(e.Max), countOf(e.Min)}
+}
+
+// countOf is the vehicle count in the consist's last group at an extreme (NULL without a
+// train on the bridge).
+func countOf(e screening.Extreme) *int32 {
+	if !e.Loaded {
+		return nil
+	}
+	n := int32(e.Count)
+	return &n
 }
 
 func placementNum(loaded bool, v float64) *float64 {

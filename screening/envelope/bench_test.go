@@ -101,7 +101,7 @@ func stepEnvelope(l *Lines, x []float64, ord [][]float64, tr *traffic.Train, ld 
 	x0, xl := x[0], x[len(x)-1]
 	if tr.Uniform != nil {
 		u := tr.Uniform
-		gr := l.dir[0].refined
+		gr := l.refinedGrid(0)
 		g := int(math.Round((xl - x0) / benchStep))
 		e := make([]float64, g+1)
 		for i := range m {
@@ -132,7 +132,7 @@ func stepEnvelope(l *Lines, x []float64, ord [][]float64, tr *traffic.Train, ld 
 		}
 	}
 	// clipped-line integrals for parts applied where unfavourable
-	gr := l.dir[0].refined
+	gr := l.refinedGrid(0)
 	cumPos, cumNeg := make([][]float64, m), make([][]float64, m)
 	for i := range m {
 		cumPos[i], cumNeg[i] = make([]float64, len(gr.x)), make([]float64, len(gr.x))

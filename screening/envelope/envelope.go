@@ -97,6 +97,10 @@ type Calculator struct {
 	events  []event
 	curved  bool
 	runs    []runInfo
+	ck      checkpoint
+	// fullSweeps sweeps every count from the beginning (the reference the tests compare
+	// the resumed sweeps with).
+	fullSweeps bool
 }
 
 type runInfo struct {
@@ -171,12 +175,13 @@ func (c *Calculator) train(l *Lines, ld *Load, out []Extremes) []Extremes {
 	for d := range 2 {
 		gr := l.dir[d].plain
 		if refined {
-			gr = l.dir[d].refined
+			gr = l.refinedGrid(d)
 		}
 		if prev == nil || !slices.Equal(prev.x, gr.x) {
 			c.events = events(gr, c.items, c.events)
 		}
 		prev = gr
+		c.ck.ok = false // a new direction starts from the beginning
 		for _, k := range counts {
 			c.runs = append(c.runs, runInfo{dir: d, cnt: k})
 			c.sweep(gr, ld, k.sweep, int16(len(c.runs)-1))
@@ -202,7 +207,7 @@ func (c *Calculator) extreme(l *Lines, ld *Load, i int, v float64, f found, isMa
 	refined := ld.hasUnfav || ld.hasCut
 	gr := l.dir[r.dir].plain
 	if refined {
-		gr = l.dir[r.dir].refined
+		gr = l.refinedGrid(r.dir)
 	}
 	span := l.SpanM()
 	h := f.s + float64(f.side)*1e-9*max(1, span)

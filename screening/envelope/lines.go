@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"sync"
 )
 
 // Lines are the influence lines of one truss's members, prepared for moving loads in both
@@ -22,8 +23,31 @@ type Lines struct {
 }
 
 type direction struct {
-	plain   *grid // the panel points: enough for axles and whole distributed parts
-	refined *grid // panel points and every member's zero crossings, for parts applied by sign
+	x     []float64
+	ord   [][]float64
+	plain *grid // the panel points: enough for axles and whole distributed parts
+	// refined adds every member's zero crossings, for parts applied by sign and uniform
+	// loads. Most trains never need it, so it is built on first use (once, also when several
+	// goroutines sweep the same Lines).
+	refinedOnce sync.Once
+	refined     *grid
+}
+
+// refinedGrid is direction d's refined grid, built on first use.
+func (l *Lines) refinedGrid(d int) *grid {
+	dr := &l.dir[d]
+	dr.refinedOnce.Do(func() {
+		rx := refine(dr.x, dr.ord)
+		rord := make([][]float64, l.m)
+		for i, o := range dr.ord {
+			rord[i] = make([]float64, len(rx))
+			for j, xv := range rx {
+				rord[i][j] = interpolate(dr.x, o, xv)
+			}
+		}
+		dr.refined = newGrid(rx, rord, true)
+	})
+	return dr.refined
 }
 
 // grid holds, for every vertex j and member i (index j*m+i), how the influence line changes
@@ -88,20 +112,10 @@ func NewLines(x []float64, ordinates [][]float64) (*Lines, error) {
 		}
 		mord[i] = mo
 	}
-	for d, in := range [2]struct {
-		x   []float64
-		ord [][]float64
-	}{{l.x, l.ord}, {mx, mord}} {
-		l.dir[d].plain = newGrid(in.x, in.ord, false)
-		rx := refine(in.x, in.ord)
-		rord := make([][]float64, l.m)
-		for i, o := range in.ord {
-			rord[i] = make([]float64, len(rx))
-			for j, xv := range rx {
-				rord[i][j] = interpolate(in.x, o, xv)
-			}
-		}
-		l.dir[d].refined = newGrid(rx, rord, true)
+	l.dir[0].x, l.dir[0].ord = l.x, l.ord
+	l.dir[1].x, l.dir[1].ord = mx, mord
+	for d := range l.dir {
+		l.dir[d].plain = newGrid(l.dir[d].x, l.dir[d].ord, false)
 	}
 	return l, nil
 }

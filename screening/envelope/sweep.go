@@ -69,45 +69,64 @@ func events(gr *grid, items []item, dst []event) []event {
 // sweep moves the train with n vehicles in its last group across the grid, front first from
 // the left, and records each member's extremes in c.best. Items of vehicles beyond n are
 // skipped, so one event list serves every count.
+//
+// Sweeps of one direction come in ascending counts, and a sweep with more vehicles is the
+// same as the one before it until the first vehicle beyond that count reaches the bridge:
+// every event before then belongs to vehicles both trains have. So each sweep saves its
+// state where the next, larger count first differs (c.ck), and the next sweep starts there
+// instead of from the beginning. The skipped positions give the same values, bit for bit, as
+// the earlier sweep already recorded, and the extremes keep the first sweep that reached
+// them, so the result is the same as sweeping every count in full.
 func (c *Calculator) sweep(gr *grid, ld *Load, n int, run int16) {
 	m := c.m
 	nx := len(gr.x)
 	streams := c.streams
-	for si := range streams {
-		st := &c.state[si]
-		clear(st.g)
-		clear(st.c)
-		for i := range m {
-			v := 0.0
-			for _, a := range ld.ahead {
-				switch {
-				case a.mode != traffic.WhereUnfavourable:
-					v += a.q * gr.areaNet[i]
-				case streams[si].max:
-					v += a.q * gr.areaPos[i]
-				default:
-					v += a.q * gr.areaNeg[i]
-				}
-			}
-			st.v[i] = v
-		}
-	}
 	items := c.items
 	ev := c.events
-	// Before the first event nothing has reached the bridge (parts reaching ahead cover it).
-	sPrev := math.Inf(-1)
-	if len(ev) > 0 {
-		sPrev = ev[0].s - 1
+	start := 0
+	var sPrev float64
+	if c.ck.ok && c.ck.n < n && !c.fullSweeps {
+		start, sPrev = c.ck.restore(c.state[:len(streams)])
+	} else {
+		for si := range streams {
+			st := &c.state[si]
+			clear(st.g)
+			clear(st.c)
+			for i := range m {
+				v := 0.0
+				for _, a := range ld.ahead {
+					switch {
+					case a.mode != traffic.WhereUnfavourable:
+						v += a.q * gr.areaNet[i]
+					case streams[si].max:
+						v += a.q * gr.areaPos[i]
+					default:
+						v += a.q * gr.areaNeg[i]
+					}
+				}
+				st.v[i] = v
+			}
+		}
+		// Before the first event nothing has reached the bridge (parts reaching ahead cover it).
+		sPrev = math.Inf(-1)
+		if len(ev) > 0 {
+			sPrev = ev[0].s - 1
+		}
+		for si := range streams {
+			c.offer(si, sPrev, 0, run)
+		}
 	}
-	for si := range streams {
-		c.offer(si, sPrev, 0, run)
-	}
+	c.ck.ok = false
+	save := c.firstGroupBeyond(n)
 	if !c.curved && len(streams) == 1 {
-		c.sweepLinear(gr, n, run, sPrev)
+		c.sweepLinear(gr, n, run, sPrev, start, save)
 		return
 	}
 	endJump := gr.endJumps
-	for g0 := 0; g0 < len(ev); {
+	for g0 := start; g0 < len(ev); {
+		if g0 == save {
+			c.ck.save(n, g0, sPrev, c.state[:len(streams)])
+		}
 		s := ev[g0].s
 		g1, active := g0, false
 		for ; g1 < len(ev) && ev[g1].s == s; g1++ {
@@ -225,7 +244,9 @@ func (c *Calculator) sweep(gr *grid, ld *Load, n int, run int16) {
 
 // sweepLinear is sweep for the common case of axles only: one stream, straight between
 // events, no jumps except at bearings with non-zero ordinates.
-func (c *Calculator) sweepLinear(gr *grid, n int, run int16, sPrev float64) {
+// It starts at event group start with sPrev the position of the last one applied, and saves
+// its state at group save for the next count (see sweep).
+func (c *Calculator) sweepLinear(gr *grid, n int, run int16, sPrev float64, start, save int) {
 	m := c.m
 	nx := len(gr.x)
 	st := &c.state[0]
@@ -233,7 +254,10 @@ func (c *Calculator) sweepLinear(gr *grid, n int, run int16, sPrev float64) {
 	bmax, bmin := c.maxV, c.minV
 	items, ev := c.items, c.events
 	endJump := gr.endJumps
-	for g0 := 0; g0 < len(ev); {
+	for g0 := start; g0 < len(ev); {
+		if g0 == save {
+			c.ck.save(n, g0, sPrev, c.state[:1])
+		}
 		s := ev[g0].s
 		g1, active, jumps := g0, false, false
 		for ; g1 < len(ev) && ev[g1].s == s; g1++ {
@@ -277,6 +301,51 @@ func (c *Calculator) sweepLinear(gr *grid, n int, run int16, sPrev float64) {
 		sPrev = s
 		g0 = g1
 	}
+}
+
+// firstGroupBeyond is the index of the first event group holding an item of a vehicle beyond
+// the n-th of the last group, or -1 when there is none.
+func (c *Calculator) firstGroupBeyond(n int) int {
+	for k, e := range c.events {
+		if c.items[e.it].unit > int32(n) {
+			for k > 0 && c.events[k-1].s == e.s {
+				k--
+			}
+			return k
+		}
+	}
+	return -1
+}
+
+// checkpoint is a sweep's state before event group g0, for a later sweep of a larger count.
+type checkpoint struct {
+	ok      bool
+	n       int // the count of the sweep that saved it
+	g0      int
+	sPrev   float64
+	v, g, c [][]float64 // per stream
+}
+
+func (ck *checkpoint) save(n, g0 int, sPrev float64, state []sweepState) {
+	ck.ok, ck.n, ck.g0, ck.sPrev = true, n, g0, sPrev
+	for len(ck.v) < len(state) {
+		ck.v, ck.g, ck.c = append(ck.v, nil), append(ck.g, nil), append(ck.c, nil)
+	}
+	for si, st := range state {
+		ck.v[si] = append(ck.v[si][:0], st.v...)
+		ck.g[si] = append(ck.g[si][:0], st.g...)
+		ck.c[si] = append(ck.c[si][:0], st.c...)
+	}
+}
+
+// restore puts the saved state back and returns where the sweep goes on from.
+func (ck *checkpoint) restore(state []sweepState) (g0 int, sPrev float64) {
+	for si := range state {
+		copy(state[si].v, ck.v[si])
+		copy(state[si].g, ck.g[si])
+		copy(state[si].c, ck.c[si])
+	}
+	return ck.g0, ck.sPrev
 }
 
 // sweepJumps handles a group of events at s that includes an axle reaching a bearing where

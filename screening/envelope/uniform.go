@@ -16,7 +16,7 @@ import (
 // from each bearing, and the best interval of each bounding length, found piece by piece.
 func (c *Calculator) uniform(l *Lines, ld *Load, out []Extremes) []Extremes {
 	u := ld.uniform
-	gr := l.dir[0].refined
+	gr := l.refinedGrid(0)
 	m, nx := c.m, len(gr.x)
 	x0, xl := l.x0, l.xl
 	span := xl - x0

@@ -1,0 +1,156 @@
+package store
+
+import (
+	"context"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"time"
+
+	"github.com/jackc/pgx/v5"
+	"golang.org/x/sync/errgroup"
+)
+
+// CopyFloor is the time to write a run's result rows with nothing else: no screening, no
+// job claims, no run_bridges updates, no foreign-key checks. A run cannot write its results
+// faster than this on the same server, so it is the floor a run's time is compared with.
+type CopyFloor struct {
+	// Streams is the number of connections the rows were copied over at once.
+	Streams int
+	// Rows and Bytes count the member_results and member_assessments rows copied and their
+	// size in PostgreSQL's binary copy format.
+	Rows, Bytes int64
+	// Elapsed is the wall time of the COPY statements and their commit.
+	Elapsed time.Duration
+}
+
+// floorTables are the tables a run writes rows into, in the order they are copied.
+var floorTables = []string{"member_results", "member_assessments"}
+
+// MeasureCopyFloor copies the result rows of run runID into empty copies of their tables
+// (same columns, defaults, checks and indexes; no foreign keys) and times the copy. The
+// rows are first read back into files under dir, untimed, so that memory stays flat
+// however big the run; streams splits the bridges between that many connections copying
+// at once. The copies are dropped afterwards.
+func (db *DB) MeasureCopyFloor(ctx context.Context, runID int64, dir string, streams int) (CopyFloor, error) {
+	streams = max(streams, 1)
+	f := CopyFloor{Streams: streams}
+	tmp, err := os.MkdirTemp(dir, "copy-floor-")
+	if err != nil {
+		return f, err
+	}
+	defer os.RemoveAll(tmp)
+	defer db.dropFloorTables(context.WithoutCancel(ctx))
+	if err := db.dropFloorTables(ctx); err != nil {
+		return f, err
+	}
+	for _, t := range floorTables {
+		if _, err := db.Pool.Exec(ctx, fmt.Sprintf("CREATE TABLE %s (LIKE %s INCLUDING ALL)", floorTable(t), t)); err != nil {
+			return f, fmt.Errorf("copy floor: %w", err)
+		}
+	}
+	// Dump each stream's share of each table: bridges split by a hash of their id.
+	paths := make([][]string, streams)
+	for s := range streams {
+		for _, t := range floorTables {
+			p := filepath.Join(tmp, fmt.Sprintf("%s-%d.bin", t, s))
+			n, err := db.dumpRows(ctx, p, fmt.Sprintf(`COPY (SELECT * FROM %s WHERE run_id = %d
+				AND abs(hashtext(bridge_id)) %% %d = %d) TO STDOUT (FORMAT binary)`, t, runID, streams, s))
+			if err != nil {
+				return f, fmt.Errorf("copy floor: reading %s back: %w", t, err)
+			}
+			f.Bytes += n
+			paths[s] = append(paths[s], p)
+		}
+	}
+	rows := make([]int64, streams)
+	start := time.Now()
+	g, gctx := errgroup.WithContext(ctx)
+	for s := range streams {
+		g.Go(func() error {
+			return pgx.BeginFunc(gctx, db.Pool, func(tx pgx.Tx) error {
+				for i, t := range floorTables {
+					n, err := copyFile(gctx, tx, paths[s][i], floorTable(t))
+					if err != nil {
+						return fmt.Errorf("copy floor: copying into %s: %w", floorTable(t), err)
+					}
+					rows[s] += n
+				}
+				return nil
+			})
+		})
+	}
+	if err := g.Wait(); err != nil {
+		return f, err
+	}
+	f.Elapsed = time.Since(start)
+	for _, n := range rows {
+		f.Rows += n
+	}
+	return f, nil
+}
+
+func floorTable(t string) string { return "copy_floor_" + t }
+
+func (db *DB) dropFloorTables(ctx context.Context) error {
+	for _, t := range floorTables {
+		if _, err := db.Pool.Exec(ctx, "DROP TABLE IF EXISTS "+floorTable(t)); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// dumpRows writes the output of a COPY ... TO STDOUT to a file and returns its size.
+func (db *DB) dumpRows(ctx context.Context, path, copySQL string) (int64, error) {
+	out, err := os.Create(path)
+	if err != nil {
+		return 0, err
+	}
+	conn, err := db.Pool.Acquire(ctx)
+	if err != nil {
+		out.Close()
+		return 0, err
+	}
+	defer conn.Release()
+	_, err = conn.Conn().PgConn().CopyTo(ctx, out, copySQL)
+	if cerr := out.Close(); err == nil {
+		err = cerr
+	}
+	if err != nil {
+		return 0, err
+	}
+	st, err := os.Stat(path)
+	if err != nil {
+		return 0, err
+	}
+	return st.Size(), nil
+}
+
+// copyFile sends a file in binary copy format to a table and returns the rows copied.
+func copyFile(ctx context.Context, tx pgx.Tx, path, table string) (int64, error) {
+	in, err := os.Open(path)
+	if err != nil {
+		return 0, err
+	}
+	defer in.Close()
+	tag, err := tx.Conn().PgConn().CopyFrom(ctx, io.Reader(in), "COPY "+table+" FROM STDIN (FORMAT binary)")
+	if err != nil {
+		return 0, err
+	}
+	return tag.RowsAffected(), nil
+}
+
+// DeleteRun removes a run with its bridges and results (benchmark runs, which would
+// otherwise fill the disk). It refuses a run that is still running.
+func (db *DB) DeleteRun(ctx context.Context, id int64) error {
+	tag, err := db.Pool.Exec(ctx, "DELETE FROM runs WHERE id = $1 AND status <> 'running'", id)
+	if err != nil {
+		return err
+	}
+	if tag.RowsAffected() == 0 {
+		return fmt.Errorf("run %d: %w (or still running)", id, ErrNotFound)
+	}
+	return nil
+}
