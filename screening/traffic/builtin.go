@@ -144,16 +144,28 @@ func Builtin(spec string) (t *Train, ok bool, err error) {
 	for _, p := range b.params {
 		vals[p.name] = p.def
 	}
+	given := map[string]bool{}
 	if args != "" {
 		for kv := range strings.SplitSeq(args, ",") {
 			k, v, found := strings.Cut(kv, "=")
 			k = strings.ToLower(strings.TrimSpace(k))
-			if _, known := vals[k]; !known || !found {
+			if _, known := vals[k]; !known {
 				return nil, true, fmt.Errorf("train %q: unknown parameter %q; %s takes %s", spec, kv, b.name, b.paramList())
 			}
+			if !found || strings.TrimSpace(v) == "" {
+				return nil, true, fmt.Errorf("train %q: parameter %s needs a value, e.g. %s=1; %s takes %s", spec, k, k, b.name, b.paramList())
+			}
+			if given[k] {
+				return nil, true, fmt.Errorf("train %q: parameter %s given twice", spec, k)
+			}
+			given[k] = true
 			f, err := strconv.ParseFloat(strings.TrimSpace(v), 64)
-			if err != nil {
+			if err != nil || math.IsNaN(f) {
 				return nil, true, fmt.Errorf("train %q: parameter %s: not a number: %q", spec, k, v)
+			}
+			// Only a length may be unlimited (uniform:max=inf); a load or factor must be finite.
+			if math.IsInf(f, 0) && (f < 0 || (k != "max" && k != "min")) {
+				return nil, true, fmt.Errorf("train %q: parameter %s must be a finite number, got %q", spec, k, v)
 			}
 			vals[k] = f
 		}

@@ -105,6 +105,10 @@ func (d Dynamic) String() string {
 	return s
 }
 
+// maxFixedFraction bounds a fixed allowance: beyond doubling the live load the number is a
+// typing error, not an allowance.
+const maxFixedFraction = 2.0
+
 const dynamicSyntax = "none, fixed:FRACTION (e.g. fixed:0.2), phi2[:l=M], phi3[:l=M], arema[:l=M,s=M] (l: determinant length, default the span; s: distance between trusses for the rocking effect)"
 
 // ParseDynamic reads an allowance: "none", "fixed:0.2", "phi2", "phi3", "arema", optionally
@@ -121,8 +125,8 @@ func ParseDynamic(s string) (Dynamic, error) {
 		return d, nil
 	case "fixed":
 		f, err := strconv.ParseFloat(args, 64)
-		if err != nil || f < 0 || math.IsInf(f, 0) {
-			return d, fmt.Errorf("dynamic allowance %q: fixed needs a fraction of 0 or more, e.g. fixed:0.2", s)
+		if err != nil || !(f >= 0 && f <= maxFixedFraction) {
+			return d, fmt.Errorf("dynamic allowance %q: fixed needs a fraction from 0 to %g, e.g. fixed:0.2", s, maxFixedFraction)
 		}
 		return Dynamic{Kind: FixedDynamic, Fraction: f}, nil
 	case "phi2":

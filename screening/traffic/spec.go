@@ -43,6 +43,9 @@ func ParseSpec(spec string, trains fs.FS) (*Train, error) {
 			return ParseTrainFile(name, data)
 		}
 	}
+	if strings.ContainsRune(spec, '/') || strings.HasSuffix(spec, ".yaml") || strings.HasSuffix(spec, ".yml") {
+		return nil, fmt.Errorf("train file %s: not found", spec)
+	}
 	msg := fmt.Sprintf("train %q: no built-in model, train file or named train of that name; built-in: %s", spec, strings.Join(BuiltinNames(), "; "))
 	if files := trainFiles(trains); len(files) > 0 {
 		msg += "; named trains: " + strings.Join(files, ", ")
