@@ -3,6 +3,7 @@ package screening
 import (
 	"context"
 	"fmt"
+	"math"
 	"reflect"
 	"sort"
 	"strings"
@@ -200,6 +201,9 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 		return fail(fmt.Errorf("influence lines: %w", err))
 	}
 	impact := s.Dynamic.Factor(t.SpanM())
+	if !(impact >= 1) || math.IsInf(impact, 0) {
+		return fail(fmt.Errorf("dynamic allowance %s gives 1 + I = %v at span %g m", s.Dynamic, impact, t.SpanM()))
+	}
 	share := b.LiveShare()
 	ex, err := w.scenarioEnvelope(el, s.Existing.Trains, share, impact)
 	if err != nil {
@@ -226,6 +230,12 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 			exL.Reference, prL.Reference = &d, &d
 		}
 		a := rating.Assess(inv, exL, prL, s.Method, s.Thresholds)
+		for _, f := range append(append([]rating.Factor{}, a.Existing...), a.Proposed...) {
+			if math.IsNaN(f.RF) || math.IsInf(f.RF, 0) {
+				// A number that is not one must never read as "no rating factor".
+				return fail(fmt.Errorf("member %s: %s rating factor is %v (check its capacity and the settings)", l.Label, f.Sense, f.RF))
+			}
+		}
 		assess[i] = a
 		res.Members[i] = MemberResult{Label: l.Label, Kind: l.Kind, Dead: dead, Existing: ex[i], Proposed: pr[i], Assessment: a}
 	}

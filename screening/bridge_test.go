@@ -125,3 +125,19 @@ func TestScreenAllStopsWhenCancelled(t *testing.T) {
 		t.Fatalf("%v, %d results", err, len(res))
 	}
 }
+
+// TestNonFiniteFailsTheBridge: a capacity or allowance that makes no number never reads as
+// "no rating factor": the bridge fails with the reason.
+func TestNonFiniteFailsTheBridge(t *testing.T) {
+	set := settings(t, axle("a", 100), axle("b", 200))
+	set.Dynamic = traffic.Dynamic{Kind: traffic.FixedDynamic, Fraction: math.NaN()}
+	b := screening.Bridge{ID: "N", Truss: truss.Params{Type: "pratt", SpanM: 48, Panels: 8, DepthM: 6}, TrussShare: 0.5, Tracks: 1}
+	if r := screening.ScreenBridge(b, set); r.Err == nil {
+		t.Errorf("NaN allowance: no error")
+	}
+	set.Dynamic = traffic.Dynamic{}
+	b.Members = map[string]rating.Member{"L2-L3": {CapacityTension: math.Inf(1) / math.Inf(1), CapacityCompression: 1}}
+	if r := screening.ScreenBridge(b, set); r.Err != nil {
+		t.Errorf("a NaN capacity is no capacity (HasCapacity): %v", r.Err)
+	}
+}
