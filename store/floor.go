@@ -143,14 +143,22 @@ func copyFile(ctx context.Context, tx pgx.Tx, path, table string) (int64, error)
 }
 
 // DeleteRun removes a run with its bridges and results (benchmark runs, which would
-// otherwise fill the disk). It refuses a run that is still running.
+// otherwise fill the disk). It refuses a run that is still running. The result tables have
+// no foreign key to cascade from (sql/migrations/003): their rows are deleted here.
 func (db *DB) DeleteRun(ctx context.Context, id int64) error {
-	tag, err := db.Pool.Exec(ctx, "DELETE FROM runs WHERE id = $1 AND status <> 'running'", id)
-	if err != nil {
-		return err
-	}
-	if tag.RowsAffected() == 0 {
-		return fmt.Errorf("run %d: %w (or still running)", id, ErrNotFound)
-	}
-	return nil
+	return pgx.BeginFunc(ctx, db.Pool, func(tx pgx.Tx) error {
+		tag, err := tx.Exec(ctx, "DELETE FROM runs WHERE id = $1 AND status <> 'running'", id)
+		if err != nil {
+			return err
+		}
+		if tag.RowsAffected() == 0 {
+			return fmt.Errorf("run %d: %w (or still running)", id, ErrNotFound)
+		}
+		for _, t := range floorTables {
+			if _, err := tx.Exec(ctx, "DELETE FROM "+t+" WHERE run_id = $1", id); err != nil {
+				return err
+			}
+		}
+		return nil
+	})
 }

@@ -169,6 +169,7 @@ func (c *Calculator) train(l *Lines, ld *Load, out []Extremes) []Extremes {
 	for si := range c.streams {
 		st := &c.state[si]
 		st.v, st.g, st.c = resize(st.v, c.m), resize(st.g, c.m), resize(st.c, c.m)
+		st.t = resize(st.t, c.m)
 	}
 	refined := ld.hasUnfav || ld.hasCut
 	var prev *grid

@@ -61,6 +61,12 @@ type grid struct {
 	eta         []float64 // ordinates at x
 	jump, slope []float64
 	endJumps    bool // some line is non-zero at a bearing
+	// The entries of slope that are not rounding noise, by vertex (at the bearings, all):
+	// vertex j's are kinkMember[kinkStart[j]:kinkStart[j+1]], with their slope changes in
+	// kinkSlope.
+	kinkStart  []int32
+	kinkMember []int32
+	kinkSlope  []float64
 	// refined grid only
 	jumpPos, slopePos, jumpNeg, slopeNeg []float64
 	area                                 []float64 // integral E(x_j) of the line from x0
@@ -168,6 +174,29 @@ func newGrid(x []float64, ord [][]float64, refined bool) *grid {
 	}
 	g.jump, g.slope = changes(x, ord, func(v float64) float64 { return v })
 	g.endJumps = slices.ContainsFunc(g.jump, func(v float64) bool { return v != 0 })
+	// A line straight through a vertex gives a slope change of rounding noise there, not
+	// zero; below 1e-12 of the steepest slope its ordinates could make, it is taken as none
+	// (which moves a force by less than 1e-12 of the largest it could be).
+	minDx := math.Inf(1)
+	for j := 1; j < n; j++ {
+		minDx = min(minDx, x[j]-x[j-1])
+	}
+	noise := make([]float64, m)
+	for i, o := range ord {
+		for _, v := range o {
+			noise[i] = max(noise[i], 1e-12*math.Abs(v)/minDx)
+		}
+	}
+	g.kinkStart = make([]int32, n+1)
+	for j := range n {
+		for i, d := range g.slope[j*m : j*m+m] {
+			if math.Abs(d) > noise[i] || j == 0 || j == n-1 {
+				g.kinkMember = append(g.kinkMember, int32(i))
+				g.kinkSlope = append(g.kinkSlope, d)
+			}
+		}
+		g.kinkStart[j+1] = int32(len(g.kinkMember))
+	}
 	g.areaNet = make([]float64, m)
 	g.areaPos = make([]float64, m)
 	g.areaNeg = make([]float64, m)

@@ -38,6 +38,8 @@ type found struct {
 // sweepState is the per-member state of one stream: value, slope and curvature in s.
 type sweepState struct {
 	v, g, c []float64
+	// t is where each member's v was last brought up to date (sweepLinear only).
+	t []float64
 }
 
 func streamsFor(ld *Load) []stream {
@@ -244,13 +246,26 @@ func (c *Calculator) sweep(gr *grid, ld *Load, n int, run int16) {
 
 // sweepLinear is sweep for the common case of axles only: one stream, straight between
 // events, no jumps except at bearings with non-zero ordinates.
+//
+// A member's force changes slope only where an axle passes a vertex of that member's own
+// line, and a truss member's line has a kink at few panel points (a chord's at its moment
+// centre, a diagonal's at the ends of its panel), so most events leave most members straight.
+// Each member is therefore brought up to date (v += g (s - t), t its last update) only at its
+// own breakpoints, where its extremes lie, using the vertex's list of members that kink there;
+// at a bearing, where every line starts or ends, all are.
+//
 // It starts at event group start with sPrev the position of the last one applied, and saves
 // its state at group save for the next count (see sweep).
 func (c *Calculator) sweepLinear(gr *grid, n int, run int16, sPrev float64, start, save int) {
 	m := c.m
 	nx := len(gr.x)
 	st := &c.state[0]
-	v, g := st.v, st.g
+	v, g, t := st.v, st.g, st.t
+	if start == 0 {
+		for i := range m {
+			t[i] = sPrev
+		}
+	}
 	bmax, bmin := c.maxV, c.minV
 	items, ev := c.items, c.events
 	endJump := gr.endJumps
@@ -271,35 +286,41 @@ func (c *Calculator) sweepLinear(gr *grid, n int, run int16, sPrev float64, star
 			g0 = g1
 			continue
 		}
-		dt := s - sPrev
 		if jumps {
 			for i := range m {
-				v[i] += g[i] * dt
+				v[i] += g[i] * (s - t[i])
+				t[i] = s
 			}
 			c.sweepJumps(gr, ev[g0:g1], n, s, run)
-		} else {
-			for i := range m {
-				vi := v[i] + g[i]*dt
-				v[i] = vi
-				if vi > bmax[i] {
-					bmax[i] = vi
-					c.maxAt[i] = found{s: s, run: run}
-				} else if vi < bmin[i] {
-					bmin[i] = vi
-					c.minAt[i] = found{s: s, run: run}
-				}
-			}
 		}
 		for _, e := range ev[g0:g1] {
 			it := items[e.it]
 			if it.unit > int32(n) {
 				continue
 			}
-			base := int(e.j) * m
-			addScaled(g, gr.slope[base:base+m], it.w)
+			lo, hi := gr.kinkStart[e.j], gr.kinkStart[e.j+1]
+			for k, i := range gr.kinkMember[lo:hi] {
+				if t[i] != s {
+					vi := v[i] + g[i]*(s-t[i])
+					v[i], t[i] = vi, s
+					if vi > bmax[i] {
+						bmax[i] = vi
+						c.maxAt[i] = found{s: s, run: run}
+					} else if vi < bmin[i] {
+						bmin[i] = vi
+						c.minAt[i] = found{s: s, run: run}
+					}
+				}
+				g[i] += it.w * gr.kinkSlope[int(lo)+k]
+			}
 		}
 		sPrev = s
 		g0 = g1
+	}
+	// Bring every member to the end, as the other sweeps leave them.
+	for i := range m {
+		v[i] += g[i] * (sPrev - t[i])
+		t[i] = sPrev
 	}
 }
 
@@ -319,22 +340,23 @@ func (c *Calculator) firstGroupBeyond(n int) int {
 
 // checkpoint is a sweep's state before event group g0, for a later sweep of a larger count.
 type checkpoint struct {
-	ok      bool
-	n       int // the count of the sweep that saved it
-	g0      int
-	sPrev   float64
-	v, g, c [][]float64 // per stream
+	ok         bool
+	n          int // the count of the sweep that saved it
+	g0         int
+	sPrev      float64
+	v, g, c, t [][]float64 // per stream
 }
 
 func (ck *checkpoint) save(n, g0 int, sPrev float64, state []sweepState) {
 	ck.ok, ck.n, ck.g0, ck.sPrev = true, n, g0, sPrev
 	for len(ck.v) < len(state) {
-		ck.v, ck.g, ck.c = append(ck.v, nil), append(ck.g, nil), append(ck.c, nil)
+		ck.v, ck.g, ck.c, ck.t = append(ck.v, nil), append(ck.g, nil), append(ck.c, nil), append(ck.t, nil)
 	}
 	for si, st := range state {
 		ck.v[si] = append(ck.v[si][:0], st.v...)
 		ck.g[si] = append(ck.g[si][:0], st.g...)
 		ck.c[si] = append(ck.c[si][:0], st.c...)
+		ck.t[si] = append(ck.t[si][:0], st.t...)
 	}
 }
 
@@ -344,6 +366,7 @@ func (ck *checkpoint) restore(state []sweepState) (g0 int, sPrev float64) {
 		copy(state[si].v, ck.v[si])
 		copy(state[si].g, ck.g[si])
 		copy(state[si].c, ck.c[si])
+		copy(state[si].t, ck.t[si])
 	}
 	return ck.g0, ck.sPrev
 }

@@ -347,6 +347,8 @@ func (s *Server) writeSettings() error {
 	b.WriteString("unix_socket_permissions = 0700\n")
 	if s.opts.Ephemeral {
 		b.WriteString("fsync = off\nsynchronous_commit = off\nfull_page_writes = off\nshared_buffers = 32MB\n")
+	} else {
+		b.WriteString(privateServerSettings)
 	}
 	path := filepath.Join(s.dataDir, "trussfleet.conf")
 	if err := os.WriteFile(path, []byte(b.String()), 0o600); err != nil {
@@ -354,6 +356,20 @@ func (s *Server) writeSettings() error {
 	}
 	return s.acct.own(path)
 }
+
+// privateServerSettings tune the embedded server, which serves one user's screening runs and
+// nothing else (never a server given by URL: its owner sets it up). A fleet run commits one
+// transaction per job and writes about 110 MB of WAL per 1,000 bridges (BENCHMARKS.md,
+// "Fleet run").
+//
+//   - synchronous_commit = off: a commit returns before its WAL reaches the disk. A crash of
+//     the server or the machine (not of trussfleet) can lose the last moments of commits,
+//     never corrupt the database (fsync stays on). A job's completion and its bridges'
+//     results are one transaction, so a lost commit loses both, the job runs again, and every
+//     bridge is still written exactly once; an import lost that way is simply repeated.
+//   - max_wal_size = 4GB: with the default 1 GB a 10,000-bridge run forced a checkpoint
+//     every 25 s, each rewriting the pages it touched again in full into the WAL.
+const privateServerSettings = "synchronous_commit = off\nmax_wal_size = 4GB\n"
 
 // confQuote quotes a value for postgresql.conf.
 func confQuote(v string) string { return "'" + strings.ReplaceAll(v, "'", "''") + "'" }
