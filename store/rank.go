@@ -156,3 +156,27 @@ func (db *DB) FlaggedMembers(ctx context.Context, runID int64) ([]FlaggedMember,
 			&m.HeadM, &m.Direction, &m.FromM, &m.ToM)
 	})
 }
+
+// FailedBridge is a bridge a run could not screen, with the reason.
+type FailedBridge struct {
+	BridgeID, Name, Error string
+}
+
+// FailedBridges lists up to limit bridges a run could not screen, and how many there are.
+func (db *DB) FailedBridges(ctx context.Context, runID int64, limit int) ([]FailedBridge, int, error) {
+	var n int
+	if err := db.Pool.QueryRow(ctx, `SELECT count(*) FROM run_bridges WHERE run_id = $1 AND status = 'failed'`, runID).Scan(&n); err != nil {
+		return nil, 0, err
+	}
+	rows, err := db.Pool.Query(ctx, `SELECT r.bridge_id, coalesce(b.name, ''), r.error FROM run_bridges r
+		LEFT JOIN bridges b ON b.bridge_id = r.bridge_id
+		WHERE r.run_id = $1 AND r.status = 'failed' ORDER BY r.bridge_id LIMIT $2`, runID, limit)
+	if err != nil {
+		return nil, 0, err
+	}
+	fs, err := pgx.CollectRows(rows, func(r pgx.CollectableRow) (FailedBridge, error) {
+		var f FailedBridge
+		return f, r.Scan(&f.BridgeID, &f.Name, &f.Error)
+	})
+	return fs, n, err
+}

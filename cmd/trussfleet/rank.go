@@ -45,7 +45,7 @@ func printRanked(w io.Writer, run store.Run, rows []report.BridgeRow) error {
 	for _, r := range rows {
 		flags := strings.Join(r.Flags, ",")
 		if r.Status == "failed" {
-			flags = "FAILED: " + r.Error
+			flags = "NOT SCREENED: " + r.Error
 		}
 		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%.1f\t%s\t%s\t%s\t%s\t%.0f%%\t%s\t%s\t%s\t%s\n",
 			r.Rank, r.BridgeID, r.Name, r.Line, fmtOpt(r.ChainageKm, "%.3f"), r.TrussType, r.SpanM, r.WorstMember,
@@ -55,9 +55,22 @@ func printRanked(w io.Writer, run store.Run, rows []report.BridgeRow) error {
 	if err := tw.Flush(); err != nil {
 		return err
 	}
+	if failed := countFailed(rows); failed > 0 {
+		fmt.Fprintf(w, "\n%d bridges could not be screened (listed last, NOT SCREENED): they are not cleared; fix their data and run again.\n", failed)
+	}
 	fmt.Fprintln(w)
 	printCaution(w)
 	return nil
+}
+
+func countFailed(rows []report.BridgeRow) int {
+	n := 0
+	for _, r := range rows {
+		if r.Status == "failed" {
+			n++
+		}
+	}
+	return n
 }
 
 // pickRun is the run asked for, or the latest completed one.

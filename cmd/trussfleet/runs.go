@@ -145,9 +145,12 @@ func diffRuns(ctx context.Context, w io.Writer, db *store.DB, ids []int64) error
 }
 
 func printDiff(w io.Writer, ids [2]int64, changes []store.BridgeChange) error {
-	var flagged, cleared, other []store.BridgeChange
+	var failed, flagged, cleared, other []store.BridgeChange
 	for _, c := range changes {
 		switch {
+		case c.StatusB == "failed" && c.StatusA != "failed":
+			// Not screened is not cleared: the bridge needs its data fixed and a new run.
+			failed = append(failed, c)
 		case len(c.FlagsB) > 0 && len(c.FlagsA) == 0:
 			flagged = append(flagged, c)
 		case len(c.FlagsA) > 0 && len(c.FlagsB) == 0:
@@ -156,11 +159,13 @@ func printDiff(w io.Writer, ids [2]int64, changes []store.BridgeChange) error {
 			other = append(other, c)
 		}
 	}
-	fmt.Fprintf(w, "From run %d to run %d: %d newly flagged, %d cleared, %d other changes.\n", ids[0], ids[1], len(flagged), len(cleared), len(other))
+	fmt.Fprintf(w, "From run %d to run %d: %d could not be screened, %d newly flagged, %d cleared, %d other changes.\n",
+		ids[0], ids[1], len(failed), len(flagged), len(cleared), len(other))
 	for _, g := range []struct {
 		title string
 		rows  []store.BridgeChange
-	}{{"Newly flagged", flagged}, {"Cleared", cleared}, {"Rank, RF or status changed", other}} {
+	}{{"Could not be screened in run " + strconv.FormatInt(ids[1], 10) + " (see its priority list for the reasons)", failed},
+		{"Newly flagged", flagged}, {"Cleared", cleared}, {"Rank, RF or status changed", other}} {
 		if len(g.rows) == 0 {
 			continue
 		}

@@ -100,10 +100,17 @@ func (a *app) screenWith(ctx context.Context, db *store.DB, out, errw io.Writer,
 			return err
 		}
 	}
+	// Progress counts from here: what the run had before this process started does not
+	// count toward its rate.
+	p0, err := db.Progress(ctx, id)
+	if err != nil {
+		return err
+	}
+	start := time.Now()
 	if err := wc.Start(context.WithoutCancel(ctx)); err != nil {
 		return err
 	}
-	status, err := waitForRun(ctx, db, id, errw)
+	status, err := waitForRun(ctx, db, id, errw, p0.Total-p0.Pending, start)
 	stopCtx, cancel := context.WithTimeout(context.Background(), 30*time.Second)
 	defer cancel()
 	if errors.Is(err, context.Canceled) {
@@ -137,11 +144,9 @@ func (a *app) screenWith(ctx context.Context, db *store.DB, out, errw io.Writer,
 
 // waitForRun polls the run until it is no longer running, showing progress: a bar on a
 // terminal, a log line every few seconds otherwise.
-func waitForRun(ctx context.Context, db *store.DB, id int64, errw io.Writer) (string, error) {
+func waitForRun(ctx context.Context, db *store.DB, id int64, errw io.Writer, first int, start time.Time) (string, error) {
 	tty := isTerminal(errw)
-	start := time.Now()
 	var lastLog time.Time
-	first := -1
 	var lostSince time.Time
 	tick := time.NewTicker(250 * time.Millisecond)
 	defer tick.Stop()
@@ -172,9 +177,6 @@ func waitForRun(ctx context.Context, db *store.DB, id int64, errw io.Writer) (st
 		}
 		lostSince = time.Time{}
 		done := p.Total - p.Pending
-		if first < 0 {
-			first = done
-		}
 		el := time.Since(start).Seconds()
 		rate := float64(done-first) / max(el, 1e-3)
 		eta := "?"

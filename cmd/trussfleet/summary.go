@@ -42,15 +42,35 @@ func (a *app) printSummary(ctx context.Context, db *store.DB, w io.Writer, id in
 	for _, r := range rows {
 		flags := strings.Join(r.Flags, ",")
 		if r.Status == "failed" {
-			flags = "FAILED: " + r.Error
+			flags = "NOT SCREENED: " + r.Error
 		}
 		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%s\n", r.Rank, r.BridgeID, r.Name, r.WorstMember, fmtRF(r.RFExisting), fmtRF(r.RFProposed), flags)
 	}
 	if err := tw.Flush(); err != nil {
 		return err
 	}
+	if err := printFailed(ctx, db, w, id); err != nil {
+		return err
+	}
 	fmt.Fprintln(w)
 	printCaution(w)
+	return nil
+}
+
+// printFailed lists the bridges a run could not screen: they are not cleared, they are
+// unknown, and their data need fixing.
+func printFailed(ctx context.Context, db *store.DB, w io.Writer, id int64) error {
+	failed, n, err := db.FailedBridges(ctx, id, 10)
+	if err != nil || n == 0 {
+		return err
+	}
+	fmt.Fprintf(w, "\n%d bridges could not be screened (not cleared: fix their data and run again):\n", n)
+	for _, f := range failed {
+		fmt.Fprintf(w, "  %s %s: %s\n", f.BridgeID, f.Name, f.Error)
+	}
+	if n > len(failed) {
+		fmt.Fprintf(w, "  ... and %d more (trussfleet rank lists them all)\n", n-len(failed))
+	}
 	return nil
 }
 

@@ -20,6 +20,9 @@ import (
 // with their sum, the rating arithmetic and why the member is flagged. Texts from the
 // inventory are written with control characters removed.
 func Explain(w io.Writer, run Run, b Bridge, member string) error {
+	if b.Row.Status == "failed" {
+		return fmt.Errorf("bridge %s was not screened in run %d: %s", plain(b.Row.BridgeID), run.ID, plain(b.Row.Error))
+	}
 	idx := -1
 	for i, m := range b.Members {
 		if m.Label == member {
