@@ -95,6 +95,8 @@ func newEnvelopeCmd(a *app) *cobra.Command {
 				enc.SetIndent("", "  ")
 				return enc.Encode(doc)
 			case "csv":
+				// The caution goes to standard error so that the CSV stays machine-readable.
+				printCaution(cmd.ErrOrStderr())
 				return envelopeCSV(w, doc)
 			}
 			return envelopeTable(w, t.Params.Type, lines.SpanM(), doc)

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"strings"
@@ -31,11 +32,18 @@ func (g *geometryFlags) add(cmd *cobra.Command) {
 // build lays out the truss, naming the flag at fault when the parameters are bad.
 func (g *geometryFlags) build() (*truss.Truss, error) {
 	t, err := truss.Build(g.p)
+	var pe *truss.ParamError
+	if errors.As(err, &pe) {
+		return nil, fmt.Errorf("--%s %v: %s", paramFlags[pe.Param], pe.Value, pe.Allowed)
+	}
 	if err != nil {
 		return nil, fmt.Errorf("truss geometry: %w", err)
 	}
 	return t, nil
 }
+
+// paramFlags names the flag of each geometry parameter.
+var paramFlags = map[string]string{"type": "type", "span": "span", "panels": "panels", "depth": "depth", "deck": "deck", "end_posts": "end-posts"}
 
 // outputFormat validates a --format value against the formats a command offers.
 func outputFormat(got string, allowed ...string) error {

@@ -42,6 +42,8 @@ func newLinesCmd(a *app) *cobra.Command {
 			case "json":
 				return linesJSON(w, t, l)
 			case "csv":
+				// The caution goes to standard error so that the CSV stays machine-readable.
+				printCaution(cmd.ErrOrStderr())
 				return linesCSV(w, l)
 			}
 			return linesTable(w, t, l)
