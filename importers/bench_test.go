@@ -24,7 +24,7 @@ func fleetCSV(tb testing.TB, n, membersPer int) (bridges, members []byte) {
 	mb.WriteString("bridge_id,member,capacity_tension_kn,capacity_compression_kn,condition_factor,area_mm2,fatigue_category\n")
 	for i := 0; i < n; i++ {
 		id := fmt.Sprintf("BEN-%05d", i)
-		fmt.Fprintf(&bb, "%s,Bench span %d,Bench Line,%.3f,pratt,72,12,9,through,%.1f,%d,54.%04d,-2.%04d\n", id, i, float64(i)*0.7, 15+float64(i%50)/10, 1880+i%60, i%10000, i%10000)
+		fmt.Fprintf(&bb, "%s,Bench span %d,Bench Line,%.3f,pratt,72,12,9,through,%.1f,%d,-47.%04d,-128.%04d\n", id, i, float64(i)*0.7, 15+float64(i%50)/10, 1880+i%60, i%10000, i%10000)
 		for j, l := range labels {
 			fmt.Fprintf(&mb, "%s,%s,%d,%d,%.2f,%d,71\n", id, l, 2000+(i+j)%3000, 1800+(i*j)%2500, 0.8+float64((i+j)%20)/100, 6000+j*100)
 		}

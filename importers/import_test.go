@@ -33,7 +33,7 @@ func TestImportCycle(t *testing.T) {
 		t.Fatal(err)
 	}
 	sum := sha256.Sum256(data)
-	changed := strings.Replace(string(data), "Morbeck Viaduct span 2,Northmoor Main Line,12.480,pratt,48.0,8,6.5", "Morbeck Viaduct span 2,Northmoor Main Line,12.480,pratt,48.0,8,6.6", 1)
+	changed := strings.Replace(string(data), "Quarnrigg Viaduct span 2,Northmoor Main Line,12.480,pratt,48.0,8,6.5", "Quarnrigg Viaduct span 2,Northmoor Main Line,12.480,pratt,48.0,8,6.6", 1)
 	steps := []struct {
 		name  string
 		text  string

@@ -53,7 +53,7 @@ func TestExampleFilesParse(t *testing.T) {
 	if len(bridges) != 4 {
 		t.Fatalf("%d bridges, want 4", len(bridges))
 	}
-	if got := bridges[3].Name; got != "Corgarth Viaduct, east span" {
+	if got := bridges[3].Name; got != "Ombrysett Viaduct, east span" {
 		t.Errorf("quoted name with a comma read as %q", got)
 	}
 	m, err := os.Open("../testdata/members.csv")

@@ -18,9 +18,9 @@ import (
 func ptr[T any](v T) *T { return &v }
 
 func bridge(id string, spanM float64) store.Bridge {
-	return store.Bridge{BridgeID: id, Name: "Span " + id, Line: "Hollin Vale", TrussType: "pratt", SpanM: spanM,
+	return store.Bridge{BridgeID: id, Name: "Span " + id, Line: "Vellbrae Vale", TrussType: "pratt", SpanM: spanM,
 		Panels: 8, DepthM: 6, Deck: "through", Trusses: 2, TrussShare: 0.5, Tracks: 1, DeadLoadKNPerM: 18,
-		YearBuilt: ptr(1904), Latitude: ptr(52.1), Longitude: ptr(-1.2)}
+		YearBuilt: ptr(1904), Latitude: ptr(-47.1), Longitude: ptr(-128.2)}
 }
 
 // importBridges runs one whole staged import, as the importer does.

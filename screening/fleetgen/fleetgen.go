@@ -35,9 +35,9 @@ func Defaults(n int) Options {
 }
 
 var (
-	lines    = []string{"Northmoor Main Line", "Eastfell Valley Branch", "Harlow Moss Loop", "Skelbrigg Mineral Line", "Coldwater Junction Spur"}
-	prefixes = []string{"Mor", "Tal", "Fen", "Cor", "Bram", "Hel", "Lin", "Quen", "Sar", "Wend", "Yar", "Dru", "Ost", "Pell", "Rav", "Ulm"}
-	suffixes = []string{"wick", "holme", "beck", "stead", "moor", "dale", "garth", "ridge", "water", "thwaite", "sike", "fold"}
+	lines    = []string{"Northmoor Main Line", "Eastfell Valley Branch", "Quarnmoss Loop", "Skarvrigg Mineral Line", "Thraskwater Junction Spur"}
+	prefixes = []string{"Quarn", "Thrask", "Vell", "Ombry", "Skarv", "Drav", "Zenn", "Prell", "Ulth", "Kest", "Brogg", "Ysk", "Carrod", "Mirren", "Fask", "Gwarr"}
+	suffixes = []string{"rigg", "holt", "brae", "sett", "wath", "syke", "thorpe", "gill", "scar", "ness", "mire", "haugh"}
 	kinds    = []string{"Viaduct", "Bridge", "Underbridge", "Girders"}
 )
 

@@ -27,7 +27,7 @@ func smallFleet(t testing.TB) *fixture {
 	}, 3)
 	bad := invented{
 		Bridge: screening.Bridge{ID: "NER-90003", Truss: truss.Params{Type: "pratt", SpanM: 35, Panels: 7, DepthM: 5}, TrussShare: 0.5, Tracks: 1, DeadLoadKNPerM: 12},
-		Name:   "Odd Panel Bridge", Line: "Harlow Moss Loop", ChainageKm: 9.9,
+		Name:   "Odd Panel Bridge", Line: "Quarnmoss Loop", ChainageKm: 9.9,
 	}
 	return screenFleet(t, []invented{weak, strong, bad})
 }
