@@ -65,7 +65,11 @@ func ImportMembers(ctx context.Context, db *store.DB, file string, r io.Reader, 
 	if err != nil {
 		return Result{File: file}, err
 	}
-	geom := NewStoredGeometry(bridges)
+	trains, err := db.Trains(ctx)
+	if err != nil {
+		return Result{File: file}, err
+	}
+	geom := NewStoredGeometry(bridges).WithTrains(trains)
 	return load(ctx, db, store.KindMembers, file, r, opts, []string{"bridge_id", "member"},
 		func(r io.Reader, emit func(store.Staged[store.Member]) bool) (Report, error) {
 			return ParseMembers(file, r, geom, emit)

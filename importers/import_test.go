@@ -17,6 +17,10 @@ import (
 func importExamples(t *testing.T, db *store.DB) {
 	t.Helper()
 	ctx := context.Background()
+	// Trains first: the members' stored rating factors name their reference train.
+	if _, err := ImportTrains(ctx, db, "../configs/trains", Options{}); err != nil {
+		t.Fatal(err)
+	}
 	if _, err := ImportBridgesFile(ctx, db, "../testdata/bridges.csv", Options{}); err != nil {
 		t.Fatal(err)
 	}
@@ -100,6 +104,13 @@ func TestBadFileWritesNothing(t *testing.T) {
 			}
 		})
 	}
+	t.Run("unknown reference train", func(t *testing.T) {
+		text := "bridge_id,member,rating_factor,reference_train\nNME-0101,L0-L1,1.2,lm71:alpha=1\nNME-0101,L1-L2,1.3,nosuch-train\n"
+		_, err := ImportMembers(ctx, db, "members.csv", strings.NewReader(text), Options{})
+		if err == nil || !strings.Contains(err.Error(), "line 3, column 4 (reference_train), value \"nosuch-train\"") || strings.Contains(err.Error(), "line 2") {
+			t.Fatalf("error %v: want only line 3's unknown train", err)
+		}
+	})
 	t.Run("member of an unknown bridge", func(t *testing.T) {
 		text := "bridge_id,member,capacity_tension_kn\nNME-0101,L0-L1,3200\nNME-9999,L0-L1,100\n"
 		_, err := ImportMembers(ctx, db, "members.csv", strings.NewReader(text), Options{})

@@ -3,8 +3,10 @@ package importers
 import (
 	"fmt"
 	"io"
+	"path/filepath"
 	"strings"
 
+	"github.com/trussfleet/trussfleet/screening/traffic"
 	"github.com/trussfleet/trussfleet/screening/truss"
 	"github.com/trussfleet/trussfleet/store"
 )
@@ -52,10 +54,39 @@ type Geometry interface {
 	Labels(bridgeID string) (labels map[string]string, ordered []string, desc string, ok bool)
 }
 
+// TrainChecker, when the Geometry also implements it, tells whether a reference train can
+// be resolved by a screening run (a stored train or a built-in model).
+type TrainChecker interface {
+	KnownTrain(name string) bool
+}
+
 // StoredGeometry builds each stored bridge's truss on first use and keeps its labels.
 type StoredGeometry struct {
 	bridges map[string]store.Bridge
 	cache   map[string]*labelSet
+	trains  map[string]bool // nil: reference trains are not checked
+}
+
+// WithTrains makes the geometry check reference trains against the stored trains: by name,
+// by file name, or by file name without .yaml, as a screening run resolves them.
+func (g *StoredGeometry) WithTrains(trains []store.Train) *StoredGeometry {
+	g.trains = map[string]bool{}
+	for _, t := range trains {
+		base := filepath.Base(t.FileName)
+		for _, n := range []string{t.Name, t.FileName, base, strings.TrimSuffix(strings.TrimSuffix(base, ".yaml"), ".yml")} {
+			g.trains[n] = true
+		}
+	}
+	return g
+}
+
+// KnownTrain implements TrainChecker.
+func (g *StoredGeometry) KnownTrain(name string) bool {
+	if g.trains == nil || g.trains[name] {
+		return true
+	}
+	_, ok, err := traffic.Builtin(name)
+	return ok && err == nil
 }
 
 type labelSet struct {
@@ -130,6 +161,9 @@ func parseMember(r memberRecord, p *row, geom Geometry) (store.Member, bool) {
 		p.fail("reference_train", r.ReferenceTrain, "a rating_factor needs the reference_train it was rated for")
 	case r.RatingFactor == "" && r.ReferenceTrain != "":
 		p.fail("rating_factor", r.RatingFactor, "reference_train %q is given without a rating_factor", r.ReferenceTrain)
+	}
+	if tc, ok := geom.(TrainChecker); ok && r.ReferenceTrain != "" && !tc.KnownTrain(r.ReferenceTrain) {
+		p.fail("reference_train", r.ReferenceTrain, "not a stored train (import the train files first: trussfleet import trains DIR) nor a built-in model")
 	}
 	if f := p.number("condition_factor", r.ConditionFactor, false); f != nil {
 		m.ConditionFactor = *f
