@@ -68,13 +68,17 @@ func exportRun(ctx context.Context, db *store.DB, run store.Run, dir, format str
 	}
 	bPath := filepath.Join(dir, "priority-bridges."+format)
 	mPath := filepath.Join(dir, "priority-members."+format)
+	d := forPeople
+	if format == "json" {
+		d = forPrograms
+	}
 	br := make([][]string, len(rows))
 	for i, r := range rows {
-		br[i] = bridgeRecord(r)
+		br[i] = bridgeRecord(r, d)
 	}
 	mr := make([][]string, len(members))
 	for i, m := range members {
-		mr[i] = memberRecord(m)
+		mr[i] = memberRecord(m, d)
 	}
 	if format == "json" {
 		doc := func(kind string, header []string, records [][]string) any {
@@ -137,34 +141,47 @@ func recordObject(header, rec []string) map[string]any {
 	return o
 }
 
-func cell(v *float64) string {
+// digits formats the numbers of an export: a few decimals for people (CSV), every digit
+// for programs (JSON: -1, the shortest exact form).
+type digits int
+
+const (
+	forPeople   digits = 4
+	forPrograms digits = -1
+)
+
+func (d digits) num(v float64, people int) string {
+	if d == forPrograms {
+		return strconv.FormatFloat(v, 'g', -1, 64)
+	}
+	return strconv.FormatFloat(v, 'f', people, 64)
+}
+
+func (d digits) opt(v *float64, people int) string {
 	if v == nil {
 		return ""
 	}
-	return strconv.FormatFloat(*v, 'f', 4, 64)
+	return d.num(*v, people)
 }
 
-func pct(v *float64) string {
-	if v == nil {
-		return ""
+func bridgeRecord(r report.BridgeRow, d digits) []string {
+	var change *float64
+	if r.Change != nil {
+		c := 100 * *r.Change
+		change = &c
 	}
-	return strconv.FormatFloat(100**v, 'f', 1, 64)
+	return []string{strconv.Itoa(r.Rank), r.BridgeID, r.Name, r.Line, d.opt(r.ChainageKm, 3), r.TrussType,
+		strconv.FormatFloat(r.SpanM, 'f', -1, 64), strconv.Itoa(r.Panels), r.WorstMember, d.opt(r.RFExisting, 4),
+		d.opt(r.RFProposed, 4), d.opt(change, 1), d.num(100*r.DemandIncrease, 1),
+		strings.Join(r.Flags, ";"), d.opt(r.Headroom, 4), r.GoverningTrain, r.GoverningSense, d.opt(r.GoverningHeadM, 3),
+		r.GoverningDirection, d.opt(r.GoverningFromM, 3), d.opt(r.GoverningToM, 3), r.LastInspected, r.Status, r.Error}
 }
 
-func bridgeRecord(r report.BridgeRow) []string {
-	return []string{strconv.Itoa(r.Rank), r.BridgeID, r.Name, r.Line, cell(r.ChainageKm), r.TrussType,
-		strconv.FormatFloat(r.SpanM, 'f', -1, 64), strconv.Itoa(r.Panels), r.WorstMember, cell(r.RFExisting),
-		cell(r.RFProposed), pct(r.Change), strconv.FormatFloat(100*r.DemandIncrease, 'f', 1, 64),
-		strings.Join(r.Flags, ";"), cell(r.Headroom), r.GoverningTrain, r.GoverningSense, cell(r.GoverningHeadM),
-		r.GoverningDirection, cell(r.GoverningFromM), cell(r.GoverningToM), r.LastInspected, r.Status, r.Error}
-}
-
-func memberRecord(m store.FlaggedMember) []string {
-	f := func(v float64) string { return strconv.FormatFloat(v, 'f', 3, 64) }
-	return []string{strconv.Itoa(m.BridgeRank), m.BridgeID, m.Name, m.Member, m.Kind, cell(m.RFExisting),
-		cell(m.RFProposed), m.Sense, f(100 * m.DemandIncrease), strings.Join(m.Flags, ";"), f(m.DeadKN),
-		f(m.LiveMaxKN), f(m.LiveMinKN), strconv.FormatFloat(m.Impact, 'f', 4, 64), m.Train, cell(m.HeadM),
-		m.Direction, cell(m.FromM), cell(m.ToM)}
+func memberRecord(m store.FlaggedMember, d digits) []string {
+	return []string{strconv.Itoa(m.BridgeRank), m.BridgeID, m.Name, m.Member, m.Kind, d.opt(m.RFExisting, 4),
+		d.opt(m.RFProposed, 4), m.Sense, d.num(100*m.DemandIncrease, 1), strings.Join(m.Flags, ";"), d.num(m.DeadKN, 2),
+		d.num(m.LiveMaxKN, 2), d.num(m.LiveMinKN, 2), d.num(m.Impact, 4), m.Train, d.opt(m.HeadM, 3),
+		m.Direction, d.opt(m.FromM, 3), d.opt(m.ToM, 3)}
 }
 
 // writeCSV writes a caution line, a header and the records.
