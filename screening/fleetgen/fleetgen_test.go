@@ -1,0 +1,88 @@
+package fleetgen_test
+
+import (
+	"bytes"
+	"encoding/csv"
+	"strconv"
+	"testing"
+
+	"github.com/trussfleet/trussfleet/configs"
+	"github.com/trussfleet/trussfleet/screening/fleetgen"
+	"github.com/trussfleet/trussfleet/screening/traffic"
+	"github.com/trussfleet/trussfleet/screening/truss"
+)
+
+func generate(t *testing.T, n int, seed uint64) (bridges, members [][]string) {
+	t.Helper()
+	ref, err := traffic.ParseSpec("northmoor-freight-today", configs.Trains())
+	if err != nil {
+		t.Fatal(err)
+	}
+	opt := fleetgen.Defaults(n)
+	opt.Seed, opt.Reference = seed, ref
+	var b, m bytes.Buffer
+	if err := fleetgen.Generate(opt, &b, &m); err != nil {
+		t.Fatal(err)
+	}
+	br, err := csv.NewReader(&b).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	mr, err := csv.NewReader(&m).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	return br, mr
+}
+
+// TestFleet: the same seed gives the same fleet; every bridge builds; every member row holds
+// capacities or a stored rating factor with its train, and names a member of its bridge.
+func TestFleet(t *testing.T) {
+	b1, m1 := generate(t, 60, 7)
+	b2, m2 := generate(t, 60, 7)
+	if len(b1) != 61 || len(b1) != len(b2) || len(m1) != len(m2) {
+		t.Fatalf("sizes %d/%d bridges, %d/%d members", len(b1), len(b2), len(m1), len(m2))
+	}
+	for i := range m1 {
+		for j := range m1[i] {
+			if m1[i][j] != m2[i][j] {
+				t.Fatalf("row %d differs between two runs with one seed", i)
+			}
+		}
+	}
+	labels := map[string]map[string]bool{}
+	types := map[string]bool{}
+	for _, r := range b1[1:] {
+		span, _ := strconv.ParseFloat(r[5], 64)
+		n, _ := strconv.Atoi(r[6])
+		depth, _ := strconv.ParseFloat(r[7], 64)
+		tr, err := truss.Build(truss.Params{Type: r[4], SpanM: span, Panels: n, DepthM: depth, Deck: r[8], EndPosts: r[9]})
+		if err != nil {
+			t.Fatalf("bridge %s: %v", r[0], err)
+		}
+		types[r[4]] = true
+		labels[r[0]] = map[string]bool{}
+		for _, l := range tr.Labels() {
+			labels[r[0]][l] = true
+		}
+	}
+	if len(types) != len(truss.Types) {
+		t.Errorf("types %v, want all %d", types, len(truss.Types))
+	}
+	stored := 0
+	for _, r := range m1[1:] {
+		if !labels[r[0]][r[1]] {
+			t.Errorf("member %s of %s is not in its geometry", r[1], r[0])
+		}
+		switch {
+		case r[2] != "" && r[3] != "" && r[4] == "":
+		case r[2] == "" && r[3] == "" && r[4] != "" && r[5] == "Northmoor freight today":
+			stored++
+		default:
+			t.Errorf("member row %v holds neither capacities nor a stored rating", r)
+		}
+	}
+	if stored == 0 || stored == len(m1)-1 {
+		t.Errorf("%d of %d members with stored ratings; want some of both kinds", stored, len(m1)-1)
+	}
+}
