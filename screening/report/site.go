@@ -300,7 +300,7 @@ func runConfig(run Run) []keyValue {
 		keyValue{"equation", equation(run)},
 		keyValue{"thresholds", fmt.Sprintf("exceeds below %s, review below %s, worse when more than %s %% below existing", num(flag, 2), num(review, 2), num(100*run.WorseFraction, 0))},
 		keyValue{"program", orDash(run.ProgramVersion)},
-		keyValue{"configuration hash", orDash(run.ConfigHash)},
+		keyValue{"configuration hash", orDash(shortHash(run.ConfigHash))},
 	)
 	return kv
 }
@@ -573,4 +573,13 @@ func calcOf(c senseCalc) calcView {
 		v.Basis = dash
 	}
 	return v
+}
+
+// shortHash is enough of a hash to tell runs apart on a page (the full one is in the
+// database and in `trussfleet runs show`).
+func shortHash(h string) string {
+	if len(h) > 16 {
+		return h[:16] + "…"
+	}
+	return h
 }

@@ -251,7 +251,12 @@ func drawIL(id, label string, spanM float64, xs, eta []float64, ob onBridge, lef
 			dir = "running right to left"
 			ax, tip = c.Left+64, c.Left+4
 		}
-		c.Direction = elevText{X: (ax + tip) / 2, Y: trainTop - 4, Anchor: "middle", Text: dir}
+		// The words end at the arrow's tip side, so that they stay inside the drawing.
+		anchor := "end"
+		if !leftToRight {
+			anchor = "start"
+		}
+		c.Direction = elevText{X: tip, Y: trainTop - 4, Anchor: anchor, Text: dir}
 		back := tip - 8*math.Copysign(1, tip-ax)
 		c.DirShaft = line{ax, trainTop + 4, back, trainTop + 4}
 		c.DirHead = fmt.Sprintf("%.2f,%.2f %.2f,%.2f %.2f,%.2f", back, trainTop, back, trainTop+8, tip, trainTop+4)
