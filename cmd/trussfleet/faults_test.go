@@ -133,7 +133,7 @@ func TestKilledWorkers(t *testing.T) {
 		t.Fatal(err)
 	}
 	defer db.Close()
-	const n = 300
+	const n = 1000
 	seedDemoFleet(t, db, n)
 	id := newRun(t, db, cfg)
 	start := func() *exec.Cmd {
@@ -166,6 +166,17 @@ func TestKilledWorkers(t *testing.T) {
 	// runs about every 30 s on the elected leader.
 	waitCompleted(t, db, id, 3*time.Minute)
 	checkOnce(t, db, id, n)
+	// The kills landed mid-job: some jobs were worked more than once (rescued from a dead
+	// worker), and still nothing was written twice.
+	var rescued int
+	if err := db.Pool.QueryRow(context.Background(), `SELECT count(*) FROM river_job
+		WHERE (args->>'run_id')::bigint = $1 AND attempt > 1`, id).Scan(&rescued); err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("%d jobs were attempted more than once", rescued)
+	if rescued == 0 {
+		t.Errorf("no job was interrupted by the %d kills; the test proved nothing", kills)
+	}
 }
 
 // TestDatabaseRestart restarts the PostgreSQL server in the middle of a run: the workers
