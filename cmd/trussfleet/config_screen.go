@@ -65,7 +65,7 @@ func setScreenDefaults(v *viper.Viper) {
 	v.SetDefault("thresholds.review", 1.1)
 	v.SetDefault("thresholds.worse_fraction", 0.20)
 	v.SetDefault("chunk_size", 50)
-	v.SetDefault("jobs", 2)
+	v.SetDefault("jobs", 4)
 	v.SetDefault("job_timeout", "2m")
 	v.SetDefault("rescue_after", "5m")
 }
