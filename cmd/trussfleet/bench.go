@@ -43,7 +43,7 @@ func newBenchCmd(a *app) *cobra.Command {
 		Long: `bench run generates an invented fleet of --bridges bridges (or reuses the one in its folder),
 imports it with the example trains into a database of its own (DIR/n-N/pg, unless a database
 URL or data directory is configured), and times "trussfleet screen" as a child process: its
-wall time, bridges per second, peak resident memory and CPU time, the embedded server's CPU
+wall time, bridges per second, peak resident memory (its own VmHWM) and CPU time, the embedded server's CPU
 time and peak memory (proportional set size of its processes), and where the jobs' time went.
 Then it copies the run's result rows alone into empty tables of the same shape (the COPY
 floor) and prints the ratio of the two. The run is deleted afterwards unless --keep.`,
@@ -191,7 +191,7 @@ func (a *app) benchRun(ctx context.Context, out io.Writer, o benchOptions) error
 	fmt.Fprintf(out, "screen:      %.1f s wall (run %d: %.1f s from creation to completion), %.0f bridges/s\n",
 		wall.Seconds(), run.ID, runS, float64(run.BridgesTotal)/wall.Seconds())
 	if ru != nil {
-		fmt.Fprintf(out, "  trussfleet: peak RSS %.0f MB, CPU %.1f s (user %.1f, system %.1f)\n", float64(ru.Maxrss)/1024,
+		fmt.Fprintf(out, "  trussfleet: peak RSS %.0f MB, CPU %.1f s (user %.1f, system %.1f)\n", phases.PeakRSSKB/1024,
 			tvSeconds(ru.Utime)+tvSeconds(ru.Stime), tvSeconds(ru.Utime), tvSeconds(ru.Stime))
 	}
 	if server != nil {

@@ -32,6 +32,11 @@ type phaseTotals struct {
 	CopyS   float64 `json:"copy_s"`
 	UpdateS float64 `json:"update_s"`
 	CommitS float64 `json:"commit_s"`
+	// PeakRSSKB is the process's own peak resident set (VmHWM) when it ended; 0 where the
+	// system does not tell. (A parent's rusage of a child can report the parent's own peak
+	// instead: Go starts children with vfork, whose memory the kernel counts as the child's
+	// until exec.)
+	PeakRSSKB float64 `json:"peak_rss_kb"`
 }
 
 func (p *profiling) flags(cmd *cobra.Command) {
@@ -70,6 +75,9 @@ func (p *profiling) start() (func() error, error) {
 		}
 		if p.timings != "" {
 			p.mu.Lock()
+			if b, err := os.ReadFile("/proc/self/status"); err == nil {
+				p.sum.PeakRSSKB = kbField(b, "VmHWM:")
+			}
 			b, err := json.MarshalIndent(p.sum, "", "  ")
 			p.mu.Unlock()
 			errs = append(errs, err, os.WriteFile(p.timings, append(b, '\n'), 0o644))
