@@ -2,11 +2,13 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math/rand/v2"
 	"os"
 	"os/exec"
 	"path/filepath"
+	"strconv"
 	"syscall"
 	"testing"
 	"time"
@@ -240,5 +242,60 @@ func TestDatabaseRestart(t *testing.T) {
 		t.Fatal(err)
 	}
 	waitCompleted(t, db, id, 3*time.Minute)
+	checkOnce(t, db, id, n)
+}
+
+// TestInterruptAndResume sends SIGINT to a running `trussfleet screen`: it exits 130 with the
+// run marked interrupted and its finished bridges kept; `screen --resume` finishes the run,
+// every bridge once.
+func TestInterruptAndResume(t *testing.T) {
+	t.Parallel()
+	url := pgtest.URL(t)
+	cfgPath, _ := faultConfig(t, url)
+	db, err := store.Open(context.Background(), store.Options{URL: url})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	const n = 1500
+	seedDemoFleet(t, db, n)
+	cmd := exec.Command(os.Args[0], "--", "--config", cfgPath, "screen")
+	cmd.Env = append(os.Environ(), beMain+"=1")
+	if err := cmd.Start(); err != nil {
+		t.Fatal(err)
+	}
+	// Interrupt once some bridges are done.
+	deadline := time.Now().Add(time.Minute)
+	var id int64
+	for time.Now().Before(deadline) {
+		r, err := db.LatestRun(context.Background(), false)
+		if err == nil {
+			if p, err := db.Progress(context.Background(), r.ID); err == nil && p.Done >= 40 {
+				id = r.ID
+				break
+			}
+		}
+		time.Sleep(20 * time.Millisecond)
+	}
+	if id == 0 {
+		t.Fatal("the run never started")
+	}
+	if err := cmd.Process.Signal(os.Interrupt); err != nil {
+		t.Fatal(err)
+	}
+	err = cmd.Wait()
+	var ee *exec.ExitError
+	if !errors.As(err, &ee) || ee.ExitCode() != exitInterrupted {
+		t.Fatalf("screen after SIGINT: %v, want exit code %d", err, exitInterrupted)
+	}
+	r, _ := db.GetRun(context.Background(), id)
+	p, _ := db.Progress(context.Background(), id)
+	if r.Status != store.RunInterrupted || p.Done == 0 || p.Pending == 0 {
+		t.Fatalf("after the interrupt: run %s, %+v; want interrupted with some bridges kept and some left", r.Status, p)
+	}
+	out, err := run(t, "--config", cfgPath, "screen", "--resume", strconv.FormatInt(id, 10))
+	if err != nil {
+		t.Fatalf("resume: %v\n%s", err, out)
+	}
 	checkOnce(t, db, id, n)
 }
