@@ -122,6 +122,13 @@ func (db *DB) Progress(ctx context.Context, id int64) (RunProgress, error) {
 	return p, err
 }
 
+// PendingBridges counts a run's bridges still to be screened (an index-only count).
+func (db *DB) PendingBridges(ctx context.Context, id int64) (int, error) {
+	var n int
+	err := db.Pool.QueryRow(ctx, `SELECT count(*) FROM run_bridges WHERE run_id = $1 AND status = 'pending'`, id).Scan(&n)
+	return n, err
+}
+
 // inputHash is the digest of everything a bridge's result depends on: the plan (trains and
 // settings), the bridge's geometry and loads, and its members' stored data.
 const inputHash = `md5(concat_ws('|', $2::text, b.truss_type, b.span_m, b.panels, b.depth_m, b.deck, b.end_posts,

@@ -33,6 +33,7 @@ SIGINT or SIGTERM stops it: running jobs finish first (up to job_timeout), then 
 				return err
 			}
 			defer db.Close()
+			screeningGC()
 			s := a.cfg.Screen
 			wc, err := db.NewWorkerClient(store.WorkerOptions{
 				Jobs: s.Jobs, Threads: a.cfg.Workers, JobTimeout: s.JobTimeout, RescueAfter: s.RescueAfter,
