@@ -95,9 +95,12 @@ type Calculator struct {
 	minAt   []found
 	items   []item
 	events  []event
-	curved  bool
-	runs    []runInfo
-	ck      checkpoint
+	// scratch for building events: the items by offset, the other half of the merge
+	order     []int32
+	eventsTmp []event
+	curved    bool
+	runs      []runInfo
+	ck        checkpoint
 	// fullSweeps sweeps every count from the beginning (the reference the tests compare
 	// the resumed sweeps with).
 	fullSweeps bool
@@ -179,7 +182,7 @@ func (c *Calculator) train(l *Lines, ld *Load, out []Extremes) []Extremes {
 			gr = l.refinedGrid(d)
 		}
 		if prev == nil || !slices.Equal(prev.x, gr.x) {
-			c.events = events(gr, c.items, c.events)
+			c.buildEvents(gr, c.items)
 		}
 		prev = gr
 		c.ck.ok = false // a new direction starts from the beginning

@@ -55,17 +55,58 @@ func streamsFor(ld *Load) []stream {
 	return []stream{{max: true, curved: true}, {max: true, cut: true, curved: true}, {min: true, curved: true}, {min: true, cut: true, curved: true}}
 }
 
-// events lists, in order of the front's position, every position where an item of the train
+// buildEvents lists in c.events, in order of the front's position, every position where an item of the train
 // reaches a vertex of the grid: between two of them every stream is linear or quadratic.
-func events(gr *grid, items []item, dst []event) []event {
-	dst = dst[:0]
-	for k, it := range items {
-		for j, x := range gr.x {
-			dst = append(dst, event{s: x + it.d, it: int32(k), j: int32(j)})
+//
+// Taking the items in order of their offsets, the events at one vertex are already in order
+// (adding the vertex's x keeps the order of the offsets, also in floating point), so the list
+// is built as one sorted run per vertex and the runs are merged pairwise, as in a merge sort
+// that starts from runs of that length: about log2(vertices) linear passes instead of a full
+// sort. Equal positions keep the order of their vertices, then of their items.
+func (c *Calculator) buildEvents(gr *grid, items []item) {
+	order := c.order[:0]
+	for k := range items {
+		order = append(order, int32(k))
+	}
+	if !slices.IsSortedFunc(items, func(a, b item) int { return cmp.Compare(a.d, b.d) }) {
+		slices.SortStableFunc(order, func(a, b int32) int { return cmp.Compare(items[a].d, items[b].d) })
+	}
+	c.order = order
+	n := len(items) * len(gr.x)
+	dst := slices.Grow(c.events[:0], n)[:n]
+	k := 0
+	for j, x := range gr.x {
+		for _, it := range order {
+			dst[k] = event{s: x + items[it].d, it: it, j: int32(j)}
+			k++
 		}
 	}
-	slices.SortFunc(dst, func(a, b event) int { return cmp.Compare(a.s, b.s) })
-	return dst
+	src, tmp := dst, slices.Grow(c.eventsTmp[:0], n)[:n]
+	for w := len(items); w > 0 && w < n; w *= 2 {
+		for lo := 0; lo < n; lo += 2 * w {
+			mergeEvents(tmp[lo:min(lo+2*w, n)], src[lo:min(lo+w, n)], src[min(lo+w, n):min(lo+2*w, n)])
+		}
+		src, tmp = tmp, src
+	}
+	c.events, c.eventsTmp = src, tmp
+}
+
+// mergeEvents merges the ordered lists a and b into dst (len(a)+len(b) long), a first
+// among equal positions.
+func mergeEvents(dst, a, b []event) {
+	i, j, k := 0, 0, 0
+	for i < len(a) && j < len(b) {
+		if b[j].s < a[i].s {
+			dst[k] = b[j]
+			j++
+		} else {
+			dst[k] = a[i]
+			i++
+		}
+		k++
+	}
+	k += copy(dst[k:], a[i:])
+	copy(dst[k:], b[j:])
 }
 
 // sweep moves the train with n vehicles in its last group across the grid, front first from
@@ -258,7 +299,6 @@ func (c *Calculator) sweep(gr *grid, ld *Load, n int, run int16) {
 // its state at group save for the next count (see sweep).
 func (c *Calculator) sweepLinear(gr *grid, n int, run int16, sPrev float64, start, save int) {
 	m := c.m
-	nx := len(gr.x)
 	st := &c.state[0]
 	v, g, t := st.v, st.g, st.t
 	if start == 0 {
@@ -266,55 +306,29 @@ func (c *Calculator) sweepLinear(gr *grid, n int, run int16, sPrev float64, star
 			t[i] = sPrev
 		}
 	}
-	bmax, bmin := c.maxV, c.minV
-	items, ev := c.items, c.events
-	endJump := gr.endJumps
-	for g0 := start; g0 < len(ev); {
+	ev := c.events
+	// Events need not be taken in groups of equal position: a member's second event at the
+	// same position finds it up to date (t[i] == s) and only adds its slope change. Only the
+	// jumps at the bearings look at a whole group, before its first slope change. The save
+	// point is a group's first event.
+	saveAt := func(g0 int) {
 		if g0 == save {
 			c.ck.save(n, g0, sPrev, c.state[:1])
 		}
-		s := ev[g0].s
-		g1, active, jumps := g0, false, false
-		for ; g1 < len(ev) && ev[g1].s == s; g1++ {
-			e := ev[g1]
-			if items[e.it].unit <= int32(n) {
-				active = true
-				jumps = jumps || (endJump && (e.j == 0 || int(e.j) == nx-1))
-			}
+	}
+	if !gr.endJumps {
+		end := len(ev)
+		if save >= start {
+			sPrev = c.linearEvents(gr, start, save, n, run, sPrev)
+			saveAt(save)
+			start = save
 		}
-		if !active {
-			g0 = g1
-			continue
-		}
-		if jumps {
-			for i := range m {
-				v[i] += g[i] * (s - t[i])
-				t[i] = s
-			}
-			c.sweepJumps(gr, ev[g0:g1], n, s, run)
-		}
-		for _, e := range ev[g0:g1] {
-			it := items[e.it]
-			if it.unit > int32(n) {
-				continue
-			}
-			lo, hi := gr.kinkStart[e.j], gr.kinkStart[e.j+1]
-			for k, i := range gr.kinkMember[lo:hi] {
-				if t[i] != s {
-					vi := v[i] + g[i]*(s-t[i])
-					v[i], t[i] = vi, s
-					if vi > bmax[i] {
-						bmax[i] = vi
-						c.maxAt[i] = found{s: s, run: run}
-					} else if vi < bmin[i] {
-						bmin[i] = vi
-						c.minAt[i] = found{s: s, run: run}
-					}
-				}
-				g[i] += it.w * gr.kinkSlope[int(lo)+k]
-			}
-		}
-		sPrev = s
+		sPrev = c.linearEvents(gr, start, end, n, run, sPrev)
+	}
+	for g0 := start; gr.endJumps && g0 < len(ev); {
+		saveAt(g0)
+		g1 := c.groupJumps(gr, g0, n, run)
+		sPrev = c.linearEvents(gr, g0, g1, n, run, sPrev)
 		g0 = g1
 	}
 	// Bring every member to the end, as the other sweeps leave them.
@@ -369,6 +383,66 @@ func (ck *checkpoint) restore(state []sweepState) (g0 int, sPrev float64) {
 		copy(state[si].t, ck.t[si])
 	}
 	return ck.g0, ck.sPrev
+}
+
+// groupJumps applies the jumps at the bearings of the event group that starts at event g0,
+// if it has an axle of the first n vehicles at a bearing, bringing every member up to date
+// first.
+func (c *Calculator) groupJumps(gr *grid, g0, n int, run int16) (g1 int) {
+	ev, nx := c.events, len(gr.x)
+	s := ev[g0].s
+	g1, jumps := g0, false
+	for ; g1 < len(ev) && ev[g1].s == s; g1++ {
+		if e := ev[g1]; c.items[e.it].unit <= int32(n) && (e.j == 0 || int(e.j) == nx-1) {
+			jumps = true
+		}
+	}
+	if !jumps {
+		return g1
+	}
+	st := &c.state[0]
+	for i := range c.m {
+		st.v[i] += st.g[i] * (s - st.t[i])
+		st.t[i] = s
+	}
+	c.sweepJumps(gr, ev[g0:g1], n, s, run)
+	return g1
+}
+
+// linearEvents applies events from to to (exclusive) of the items of the first n vehicles,
+// updating each member at its own kinks, and returns the position of the last one applied
+// (sPrev if none).
+func (c *Calculator) linearEvents(gr *grid, from, to, n int, run int16, sPrev float64) float64 {
+	st := &c.state[0]
+	v, g, t := st.v, st.g, st.t
+	bmax, bmin := c.maxV, c.minV
+	items := c.items
+	un := int32(n)
+	for _, e := range c.events[from:to] {
+		it := &items[e.it]
+		if it.unit > un {
+			continue
+		}
+		s, w := e.s, it.w
+		lo, hi := gr.kinkStart[e.j], gr.kinkStart[e.j+1]
+		slope := gr.kinkSlope[lo:hi]
+		for k, i := range gr.kinkMember[lo:hi] {
+			if t[i] != s {
+				vi := v[i] + g[i]*(s-t[i])
+				v[i], t[i] = vi, s
+				if vi > bmax[i] {
+					bmax[i] = vi
+					c.maxAt[i] = found{s: s, run: run}
+				} else if vi < bmin[i] {
+					bmin[i] = vi
+					c.minAt[i] = found{s: s, run: run}
+				}
+			}
+			g[i] += w * slope[k]
+		}
+		sPrev = s
+	}
+	return sPrev
 }
 
 // sweepJumps handles a group of events at s that includes an axle reaching a bearing where
