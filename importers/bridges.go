@@ -172,10 +172,15 @@ func parseBridge(r bridgeRecord, p *row) (store.Bridge, bool) {
 		p.fail("latitude", r.Latitude, "give latitude and longitude together, or neither")
 	}
 	b.LastInspected = p.date("last_inspected", r.LastInspected)
-	if !p.ok || span == nil || depth == nil || dead == nil {
+	if span == nil || depth == nil {
 		return b, false
 	}
-	b.SpanM, b.DepthM, b.DeadLoadKNPerM = *span, *depth, *dead
+	b.SpanM, b.DepthM = *span, *depth
+	if dead != nil {
+		b.DeadLoadKNPerM = *dead
+	}
+	// The geometry is checked even when another field of the row failed, so that the row's
+	// every problem is reported at once.
 
 	// The geometry generator is the judge of type, panels, proportions, deck and end posts.
 	t, err := truss.Build(geometryOf(b))
@@ -184,7 +189,9 @@ func parseBridge(r bridgeRecord, p *row) (store.Bridge, bool) {
 	case errors.As(err, &pe):
 		c := trussColumn[pe.Param]
 		name := p.pick(c)
-		p.fail(name, rawOf(r, name), "%s", pe.Allowed)
+		if !p.failed[name] { // a column already reported says why already
+			p.fail(name, rawOf(r, name), "%s", pe.Allowed)
+		}
 		return b, false
 	case err != nil:
 		p.fail("truss_type", r.TrussType, "this truss cannot be built: %v", err)
@@ -193,7 +200,7 @@ func parseBridge(r bridgeRecord, p *row) (store.Bridge, bool) {
 	// Store what was built, defaults filled in: a later change of default must not change
 	// what a stored bridge means.
 	b.TrussType, b.Deck, b.EndPosts = t.Params.Type, t.Params.Deck, t.Params.EndPosts
-	return b, true
+	return b, p.ok && dead != nil
 }
 
 // geometryOf gives the truss parameters of a stored bridge.

@@ -19,13 +19,18 @@ const (
 
 // row parses the fields of one record, recording each problem against its column.
 type row struct {
-	src  *csvSource
-	errs *errorList
-	line int
-	ok   bool
+	src    *csvSource
+	errs   *errorList
+	line   int
+	ok     bool
+	failed map[string]bool // columns already reported on this row
 }
 
 func (p *row) fail(name, value, format string, args ...any) {
+	if p.failed == nil {
+		p.failed = map[string]bool{}
+	}
+	p.failed[name] = true
 	p.ok = false
 	p.errs.add(&FieldError{Line: p.line, Column: p.src.col(name), Field: name, Value: value, Msg: fmt.Sprintf(format, args...)})
 }

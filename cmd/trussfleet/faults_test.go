@@ -27,8 +27,13 @@ import (
 // worker's jobs are handed on quickly.
 func faultConfig(t *testing.T, url string) (string, Config) {
 	t.Helper()
+	return faultConfigChunks(t, url, 4)
+}
+
+func faultConfigChunks(t *testing.T, url string, chunk int) (string, Config) {
+	t.Helper()
 	p := filepath.Join(t.TempDir(), "trussfleet.yaml")
-	text := fmt.Sprintf("database:\n  url: %q\nchunk_size: 4\njobs: 2\nworkers: 1\njob_timeout: 2s\nrescue_after: 3s\n", url)
+	text := fmt.Sprintf("database:\n  url: %q\nchunk_size: %d\njobs: 2\nworkers: 1\njob_timeout: 5s\nrescue_after: 6s\n", url, chunk)
 	if err := os.WriteFile(p, []byte(text), 0o600); err != nil {
 		t.Fatal(err)
 	}
@@ -129,7 +134,8 @@ func waitCompleted(t *testing.T, db *store.DB, id int64, limit time.Duration) {
 func TestKilledWorkers(t *testing.T) {
 	t.Parallel()
 	url := pgtest.URL(t)
-	cfgPath, cfg := faultConfig(t, url)
+	// Chunks of 25 bridges: a job lasts long enough for a kill to land inside it.
+	cfgPath, cfg := faultConfigChunks(t, url, 25)
 	db, err := store.Open(context.Background(), store.Options{URL: url})
 	if err != nil {
 		t.Fatal(err)
@@ -146,18 +152,36 @@ func TestKilledWorkers(t *testing.T) {
 		}
 		return cmd
 	}
+	// Kill each worker while it holds a job (one is marked running), so that the kill
+	// orphans it; count the kills after which a job was left running by the dead process.
+	running := func() int {
+		var n int
+		_ = db.Pool.QueryRow(context.Background(), `SELECT count(*) FROM river_job
+			WHERE (args->>'run_id')::bigint = $1 AND state = 'running'`, id).Scan(&n)
+		return n
+	}
 	r := rand.New(rand.NewPCG(7, 11))
-	kills := 0
-	for range 5 {
+	kills, orphaning := 0, 0
+	for orphaning < 3 && kills < 15 {
 		w := start()
-		time.Sleep(time.Duration(300+r.IntN(700)) * time.Millisecond)
+		// Let it work a while (some chunks commit), then strike while it holds a job.
+		time.Sleep(time.Duration(200+r.IntN(600)) * time.Millisecond)
+		for deadline := time.Now().Add(10 * time.Second); running() == 0 && time.Now().Before(deadline); {
+			time.Sleep(2 * time.Millisecond)
+		}
 		if err := w.Process.Signal(syscall.SIGKILL); err != nil {
 			t.Fatal(err)
 		}
 		_ = w.Wait()
 		kills++
+		if running() > 0 {
+			orphaning++
+		}
 		p, _ := db.Progress(context.Background(), id)
-		t.Logf("kill %d: %d of %d bridges done", kills, p.Done, p.Total)
+		t.Logf("kill %d: %d of %d bridges done, %d kills left a job running", kills, p.Done, p.Total, orphaning)
+	}
+	if orphaning == 0 {
+		t.Fatalf("none of %d kills caught a worker holding a job", kills)
 	}
 	w := start()
 	defer func() {
@@ -177,7 +201,7 @@ func TestKilledWorkers(t *testing.T) {
 	}
 	t.Logf("%d jobs were attempted more than once", rescued)
 	if rescued == 0 {
-		t.Errorf("no job was interrupted by the %d kills; the test proved nothing", kills)
+		t.Errorf("%d kills left jobs running, but no job was attempted twice", orphaning)
 	}
 }
 
@@ -212,7 +236,7 @@ func TestDatabaseRestart(t *testing.T) {
 		t.Fatal(err)
 	}
 	_, cfg := faultConfig(t, url)
-	const n = 120
+	const n = 600
 	seedDemoFleet(t, db, n)
 	id := newRun(t, db, cfg)
 	wc, err := db.NewWorkerClient(store.WorkerOptions{Jobs: 2, Threads: 1, JobTimeout: 2 * time.Second, RescueAfter: 3 * time.Second})
@@ -229,6 +253,9 @@ func TestDatabaseRestart(t *testing.T) {
 			t.Fatal(err)
 		}
 		if p.Done >= 8 {
+			if p.Pending == 0 {
+				t.Fatalf("the run ended before the restart: nothing was tested")
+			}
 			t.Logf("restarting the server with %d of %d bridges done", p.Done, p.Total)
 			break
 		}
