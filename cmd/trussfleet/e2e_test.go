@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"context"
 	"encoding/csv"
 	"fmt"
@@ -16,18 +15,6 @@ import (
 	"github.com/trussfleet/trussfleet/screening/truss"
 	"github.com/trussfleet/trussfleet/store/pgtest"
 )
-
-// run executes the trussfleet command line and returns what it printed.
-func run(t *testing.T, args ...string) (string, error) {
-	t.Helper()
-	root := newRootCmd()
-	var out bytes.Buffer
-	root.SetOut(&out)
-	root.SetErr(&out)
-	root.SetArgs(args)
-	err := root.ExecuteContext(context.Background())
-	return out.String(), err
-}
 
 // TestEndToEnd imports a small fleet, screens it and reads the priority list, against values
 // worked by hand. Every bridge is a Pratt truss, span 48 m, 8 panels, depth 6 m. For its
@@ -101,7 +88,7 @@ func TestEndToEnd(t *testing.T) {
 			t.Fatal(err)
 		}
 	}
-	out, err := run(t, "--database-url", url, "--config", cfg, "screen", "--workers", "2")
+	out, err := runCmd(t, "--database-url", url, "--config", cfg, "screen", "--workers", "2")
 	if err != nil {
 		t.Fatalf("screen: %v\n%s", err, out)
 	}
@@ -109,7 +96,7 @@ func TestEndToEnd(t *testing.T) {
 		t.Errorf("summary:\n%s", out)
 	}
 	outDir := filepath.Join(dir, "out")
-	if out, err := run(t, "--database-url", url, "--config", cfg, "export", "--format", "csv", "--out", outDir); err != nil {
+	if out, err := runCmd(t, "--database-url", url, "--config", cfg, "export", "--format", "csv", "--out", outDir); err != nil {
 		t.Fatalf("export: %v\n%s", err, out)
 	}
 	rows := readExport(t, filepath.Join(outDir, "priority-bridges.csv"))
@@ -168,12 +155,12 @@ func TestEndToEnd(t *testing.T) {
 		t.Errorf("%d L3-U3 reversals in the member list, want 3", reversals)
 	}
 	// explain shows the hand-worked arithmetic of T-1's L2-L3: D = 360, L = 300, RF = 0.80.
-	out, err = run(t, "--database-url", url, "--config", cfg, "explain", "T-1", "L2-L3")
+	out, err = runCmd(t, "--database-url", url, "--config", cfg, "explain", "T-1", "L2-L3")
 	if err != nil || !strings.Contains(out, "+360.0") || !strings.Contains(out, "300.0") || !strings.Contains(out, "0.80") || !strings.Contains(out, "CAUTION") {
 		t.Errorf("explain: %v\n%s", err, out)
 	}
 	site := filepath.Join(dir, "report")
-	if out, err := run(t, "--database-url", url, "--config", cfg, "report", "--out", site); err != nil {
+	if out, err := runCmd(t, "--database-url", url, "--config", cfg, "report", "--out", site); err != nil {
 		t.Errorf("report: %v\n%s", err, out)
 	}
 	for _, id := range []string{"T-1", "T-2", "T-3"} {
@@ -181,7 +168,7 @@ func TestEndToEnd(t *testing.T) {
 			t.Errorf("report page of %s: %v", id, err)
 		}
 	}
-	out, err = run(t, "--database-url", url, "--config", cfg, "rank")
+	out, err = runCmd(t, "--database-url", url, "--config", cfg, "rank")
 	if err != nil || strings.Index(out, "T-3") > strings.Index(out, "T-1") || strings.Index(out, "T-1") > strings.Index(out, "T-2") {
 		t.Errorf("rank: %v\n%s", err, out)
 	}

@@ -2,11 +2,13 @@ package main
 
 import (
 	"bytes"
+	"context"
 	"encoding/json"
 	"strings"
 	"testing"
 )
 
+// runCmd executes the trussfleet command line and returns what it printed.
 func runCmd(t *testing.T, args ...string) (string, error) {
 	t.Helper()
 	root := newRootCmd()
@@ -14,7 +16,7 @@ func runCmd(t *testing.T, args ...string) (string, error) {
 	root.SetOut(&out)
 	root.SetErr(&out)
 	root.SetArgs(args)
-	err := root.Execute()
+	err := root.ExecuteContext(context.Background())
 	return out.String(), err
 }
 

@@ -320,7 +320,7 @@ func TestInterruptAndResume(t *testing.T) {
 	if r.Status != store.RunInterrupted || p.Done == 0 || p.Pending == 0 {
 		t.Fatalf("after the interrupt: run %s, %+v; want interrupted with some bridges kept and some left", r.Status, p)
 	}
-	out, err := run(t, "--config", cfgPath, "screen", "--resume", strconv.FormatInt(id, 10))
+	out, err := runCmd(t, "--config", cfgPath, "screen", "--resume", strconv.FormatInt(id, 10))
 	if err != nil {
 		t.Fatalf("resume: %v\n%s", err, out)
 	}

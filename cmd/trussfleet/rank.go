@@ -43,10 +43,7 @@ func printRanked(w io.Writer, run store.Run, rows []report.BridgeRow) error {
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "rank\tbridge\tname\tline\tkm\ttype\tspan m\tworst\tRF ex\tRF pr\tchange\tdemand +\theadroom\tflags\tgoverning train (where)\tinspected")
 	for _, r := range rows {
-		flags := strings.Join(r.Flags, ",")
-		if r.Status == "failed" {
-			flags = "NOT SCREENED: " + r.Error
-		}
+		flags := flagsText(r)
 		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%.1f\t%s\t%s\t%s\t%s\t%.0f%%\t%s\t%s\t%s\t%s\n",
 			r.Rank, r.BridgeID, r.Name, r.Line, fmtOpt(r.ChainageKm, "%.3f"), r.TrussType, r.SpanM, r.WorstMember,
 			fmtRF(r.RFExisting), fmtRF(r.RFProposed), fmtPct(r.Change), 100*r.DemandIncrease, fmtOpt(r.Headroom, "%.2f×"),
@@ -61,6 +58,14 @@ func printRanked(w io.Writer, run store.Run, rows []report.BridgeRow) error {
 	fmt.Fprintln(w)
 	printCaution(w)
 	return nil
+}
+
+// flagsText is a row's flags, or why its bridge was not screened.
+func flagsText(r report.BridgeRow) string {
+	if r.Status == "failed" {
+		return "NOT SCREENED: " + r.Error
+	}
+	return strings.Join(r.Flags, ",")
 }
 
 func countFailed(rows []report.BridgeRow) int {

@@ -4,7 +4,6 @@ import (
 	"context"
 	"fmt"
 	"io"
-	"strings"
 	"text/tabwriter"
 
 	"github.com/trussfleet/trussfleet/screening/rating"
@@ -40,10 +39,7 @@ func (a *app) printSummary(ctx context.Context, db *store.DB, w io.Writer, id in
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "rank\tbridge\tname\tworst member\tRF existing\tRF proposed\tflags")
 	for _, r := range rows {
-		flags := strings.Join(r.Flags, ",")
-		if r.Status == "failed" {
-			flags = "NOT SCREENED: " + r.Error
-		}
+		flags := flagsText(r)
 		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%s\n", r.Rank, r.BridgeID, r.Name, r.WorstMember, fmtRF(r.RFExisting), fmtRF(r.RFProposed), flags)
 	}
 	if err := tw.Flush(); err != nil {
