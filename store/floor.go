@@ -33,7 +33,10 @@ var floorTables = []string{"member_results", "member_assessments"}
 // rows are first read back into files under dir, untimed, so that memory stays flat
 // however big the run; streams splits the bridges between that many connections copying
 // at once. The copies are dropped afterwards.
-func (db *DB) MeasureCopyFloor(ctx context.Context, runID int64, dir string, streams int) (CopyFloor, error) {
+//
+// When measure is not nil it is called just before the timed copy and the function it
+// returns just after, so that a caller can measure the server's share of the copy too.
+func (db *DB) MeasureCopyFloor(ctx context.Context, runID int64, dir string, streams int, measure func() func()) (CopyFloor, error) {
 	streams = max(streams, 1)
 	f := CopyFloor{Streams: streams}
 	tmp, err := os.MkdirTemp(dir, "copy-floor-")
@@ -65,6 +68,10 @@ func (db *DB) MeasureCopyFloor(ctx context.Context, runID int64, dir string, str
 		}
 	}
 	rows := make([]int64, streams)
+	done := func() {}
+	if measure != nil {
+		done = measure()
+	}
 	start := time.Now()
 	g, gctx := errgroup.WithContext(ctx)
 	for s := range streams {
@@ -81,10 +88,12 @@ func (db *DB) MeasureCopyFloor(ctx context.Context, runID int64, dir string, str
 			})
 		})
 	}
-	if err := g.Wait(); err != nil {
+	err = g.Wait()
+	f.Elapsed = time.Since(start)
+	done()
+	if err != nil {
 		return f, err
 	}
-	f.Elapsed = time.Since(start)
 	for _, n := range rows {
 		f.Rows += n
 	}
@@ -140,6 +149,18 @@ func copyFile(ctx context.Context, tx pgx.Tx, path, table string) (int64, error)
 		return 0, err
 	}
 	return tag.RowsAffected(), nil
+}
+
+// Settle vacuums and analyses the inventory and result tables and writes a checkpoint, so
+// that a benchmark that follows is not slowed by the autovacuum of an earlier import or
+// deletion, nor by its checkpoint (which a role without the right to CHECKPOINT skips). It
+// may take a while after a large deletion.
+func (db *DB) Settle(ctx context.Context) error {
+	if _, err := db.Pool.Exec(ctx, "VACUUM (ANALYZE) bridges, members, trains, runs, run_bridges, member_results, member_assessments"); err != nil {
+		return fmt.Errorf("settling the database: %w", err)
+	}
+	_, _ = db.Pool.Exec(ctx, "CHECKPOINT")
+	return nil
 }
 
 // DeleteRun removes a run with its bridges and results (benchmark runs, which would

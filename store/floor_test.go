@@ -36,7 +36,7 @@ func TestCopyFloorAndDeleteRun(t *testing.T) {
 	if want == 0 {
 		t.Fatal("the run wrote no result rows")
 	}
-	f, err := db.MeasureCopyFloor(ctx, id, t.TempDir(), 2)
+	f, err := db.MeasureCopyFloor(ctx, id, t.TempDir(), 2, nil)
 	if err != nil {
 		t.Fatal(err)
 	}

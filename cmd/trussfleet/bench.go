@@ -110,6 +110,10 @@ func (a *app) benchRun(ctx context.Context, out io.Writer, o benchOptions) error
 		return err
 	}
 
+	if err := db.Settle(ctx); err != nil {
+		return err
+	}
+
 	// The screen command itself, as a child process, so that its memory and CPU are its own.
 	exe, err := os.Executable()
 	if err != nil {
@@ -172,7 +176,16 @@ func (a *app) benchRun(ctx context.Context, out io.Writer, o benchOptions) error
 		_ = json.Unmarshal(b, &phases)
 	}
 
-	floor, err := db.MeasureCopyFloor(ctx, run.ID, dir, o.streams)
+	var floorCPU float64
+	var measure func() func()
+	if db.Server != nil {
+		pid := db.Server.Status().PID
+		measure = func() func() {
+			cpu0 := serverCPU(pid)
+			return func() { floorCPU = serverCPU(pid) - cpu0 }
+		}
+	}
+	floor, err := db.MeasureCopyFloor(ctx, run.ID, dir, o.streams, measure)
 	if err != nil {
 		return err
 	}
@@ -200,8 +213,12 @@ func (a *app) benchRun(ctx context.Context, out io.Writer, o benchOptions) error
 	}
 	fmt.Fprintf(out, "  jobs:       %d; summed over jobs: load %.1f s, screen %.1f s, copy %.1f s, update %.1f s, commit %.1f s\n",
 		phases.Jobs, phases.LoadS, phases.ScreenS, phases.CopyS, phases.UpdateS, phases.CommitS)
-	fmt.Fprintf(out, "copy floor:  %d rows (%.0f MB) in %.1f s over %d connections\n",
+	fmt.Fprintf(out, "copy floor:  %d rows (%.0f MB) in %.1f s over %d connections",
 		floor.Rows, float64(floor.Bytes)/1e6, floor.Elapsed.Seconds(), floor.Streams)
+	if measure != nil {
+		fmt.Fprintf(out, ", server CPU %.1f s", floorCPU)
+	}
+	fmt.Fprintln(out)
 	fmt.Fprintf(out, "ratio:       %.2f (screen wall time / COPY floor)\n", wall.Seconds()/floor.Elapsed.Seconds())
 	if o.profile {
 		fmt.Fprintf(out, "profiles:    %s, %s\n", filepath.Join(dir, "cpu.pprof"), filepath.Join(dir, "heap.pprof"))
