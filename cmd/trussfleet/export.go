@@ -154,7 +154,11 @@ func (d digits) num(v float64, people int) string {
 	if d == forPrograms {
 		return strconv.FormatFloat(v, 'g', -1, 64)
 	}
-	return strconv.FormatFloat(v, 'f', people, 64)
+	s := strconv.FormatFloat(v, 'f', people, 64)
+	if strings.Trim(s, "-0.") == "" { // no negative zero from rounding noise
+		s = strings.TrimPrefix(s, "-")
+	}
+	return s
 }
 
 func (d digits) opt(v *float64, people int) string {

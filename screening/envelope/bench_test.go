@@ -1,12 +1,13 @@
 package envelope
 
 import (
-	"github.com/trussfleet/trussfleet/configs"
 	"math"
 	"slices"
 	"testing"
 
+	"github.com/trussfleet/trussfleet/configs"
 	"github.com/trussfleet/trussfleet/screening/traffic"
+	"github.com/trussfleet/trussfleet/screening/truss"
 )
 
 // The benchmarks sweep a 12-panel Pratt truss (60 m span, 7.5 m deep; 45 members, lines by
@@ -43,14 +44,28 @@ func benchTrains(b *testing.B) map[string]*traffic.Train {
 
 func BenchmarkEnvelope(b *testing.B) {
 	l, _, _ := benchTruss()
+	benchEnvelopes(b, l, "")
+}
+
+// BenchmarkEnvelopeMirrored sweeps the same trains over a computed 12-panel Pratt truss
+// (60 m, 7.5 m deep), which is its own mirror image: one direction's sweeps serve both.
+func BenchmarkEnvelopeMirrored(b *testing.B) {
+	l := builtLines(b, truss.Params{Type: "pratt", SpanM: 60, Panels: 12, DepthM: 7.5})
+	benchEnvelopes(b, l, "")
+	benchEnvelopes(b, l, "both-")
+}
+
+// benchEnvelopes times each example train over l; with the prefix "both-", sweeping both
+// directions as for a truss that is not symmetric.
+func benchEnvelopes(b *testing.B, l *Lines, prefix string) {
 	trains := benchTrains(b)
 	for _, name := range []string{"lm71", "freight", "uniform"} {
 		ld, err := Prepare(trains[name])
 		if err != nil {
 			b.Fatal(err)
 		}
-		b.Run(name, func(b *testing.B) {
-			var c Calculator
+		b.Run(prefix+name, func(b *testing.B) {
+			c := Calculator{bothSweeps: prefix == "both-"}
 			var out []Extremes
 			b.ReportAllocs()
 			for b.Loop() {

@@ -104,6 +104,12 @@ type Calculator struct {
 	// fullSweeps sweeps every count from the beginning (the reference the tests compare
 	// the resumed sweeps with).
 	fullSweeps bool
+	// bothSweeps sweeps both directions even over a truss that is its own mirror image (the
+	// reference the tests compare the mirrored extremes with).
+	bothSweeps bool
+	// the extremes of the left-to-right sweeps, read while the mirrored ones are merged in
+	snapV  []float64
+	snapAt []found
 }
 
 type runInfo struct {
@@ -177,6 +183,10 @@ func (c *Calculator) train(l *Lines, ld *Load, out []Extremes) []Extremes {
 	refined := ld.hasUnfav || ld.hasCut
 	var prev *grid
 	for d := range 2 {
+		if d == 1 && l.mirror != nil && !c.bothSweeps {
+			c.mirrorSweeps(l.mirror)
+			break
+		}
 		gr := l.dir[d].plain
 		if refined {
 			gr = l.refinedGrid(d)
@@ -201,6 +211,37 @@ func (c *Calculator) train(l *Lines, ld *Load, out []Extremes) []Extremes {
 	return out
 }
 
+// mirrorSweeps stands in for the right-to-left sweeps over a truss that is its own mirror
+// image: a train running right to left does to member i what it does running left to right
+// to member mirror[i], so the left-to-right sweeps just made hold the right-to-left extremes
+// too. Each run gets its right-to-left twin, and a mirror member's extreme replaces a
+// member's own where it is larger by more than the tolerance the mirror was found with (a
+// tie, as for a symmetric train, keeps left to right, as a sweep does).
+func (c *Calculator) mirrorSweeps(mirror []int32) {
+	n := len(c.runs)
+	for _, r := range c.runs[:n] {
+		c.runs = append(c.runs, runInfo{dir: 1, cnt: r.cnt})
+	}
+	for _, sense := range []struct {
+		v  []float64
+		at []found
+		s  float64
+	}{{c.maxV, c.maxAt, 1}, {c.minV, c.minAt, -1}} {
+		c.snapV = append(c.snapV[:0], sense.v...)
+		c.snapAt = append(c.snapAt[:0], sense.at...)
+		for i, j := range mirror {
+			mv, own := c.snapV[j], sense.v[i]
+			if c.snapAt[j].run < 0 || sense.s*(mv-own) <= mirrorTol*max(math.Abs(mv), math.Abs(own)) {
+				continue
+			}
+			f := c.snapAt[j]
+			f.run += int16(n)
+			f.via = j + 1
+			sense.v[i], sense.at[i] = mv, f
+		}
+	}
+}
+
 // extreme turns a recorded candidate into a result with its placement in the truss's own
 // coordinates.
 func (c *Calculator) extreme(l *Lines, ld *Load, i int, v float64, f found, isMax bool) Extreme {
@@ -208,10 +249,16 @@ func (c *Calculator) extreme(l *Lines, ld *Load, i int, v float64, f found, isMa
 		return Extreme{}
 	}
 	r := c.runs[f.run]
+	// The sweep that found it: its direction's grid and the member it followed there (for a
+	// mirrored extreme, the mirror member, left to right).
+	sd := r.dir
+	if f.via > 0 {
+		sd, i = 0, int(f.via-1)
+	}
 	refined := ld.hasUnfav || ld.hasCut
-	gr := l.dir[r.dir].plain
+	gr := l.dir[sd].plain
 	if refined {
-		gr = l.refinedGrid(r.dir)
+		gr = l.refinedGrid(sd)
 	}
 	span := l.SpanM()
 	h := f.s + float64(f.side)*1e-9*max(1, span)

@@ -1,6 +1,7 @@
 package envelope
 
 import (
+	"cmp"
 	"errors"
 	"fmt"
 	"math"
@@ -20,6 +21,10 @@ type Lines struct {
 	// dir[0] is the truss as given (trains running left to right); dir[1] its mirror image,
 	// on which a train running right to left is swept as if it ran left to right.
 	dir [2]direction
+	// mirror, when the truss is its own mirror image (see mirrorOf), maps each member i to a
+	// member whose line, as given, is i's line in the mirror image: a train running right to
+	// left does to member i what it does, running left to right, to member mirror[i].
+	mirror []int32
 }
 
 type direction struct {
@@ -123,7 +128,84 @@ func NewLines(x []float64, ordinates [][]float64) (*Lines, error) {
 	for d := range l.dir {
 		l.dir[d].plain = newGrid(l.dir[d].x, l.dir[d].ord, false)
 	}
+	l.mirror = mirrorOf(l.dir[0].x, l.dir[0].ord, mx, mord)
 	return l, nil
+}
+
+// mirrorTol is how closely a truss must be its own mirror image for one direction's sweep
+// to stand for the other's: panel points within 1e-9 of the span, ordinates within 1e-9 of
+// the largest ordinate. A force taken from the mirror member then differs from the one the
+// other direction's sweep would give by less than 1e-9 of the largest it could be, far below
+// any digit a screening reports, while influence lines computed for a symmetric truss agree
+// with their mirror images to rounding (about 1e-14).
+const mirrorTol = 1e-9
+
+// mirrorOf maps each member i to a member j whose line ord[j] matches i's mirrored line
+// mord[i], when the panel points x are symmetric (mx, the mirrored points, match them) and
+// every member has such a match; otherwise nil. Several members may share a match (equal
+// lines, such as zero-force members), which is as good.
+//
+// Candidates are found by the lines' first moments about x's first index (a mirrored line's
+// is that of its match) in a sorted list, then checked ordinate by ordinate.
+func mirrorOf(x []float64, ord [][]float64, mx []float64, mord [][]float64) []int32 {
+	n := len(x)
+	span := x[n-1] - x[0]
+	for j := range x {
+		if math.Abs(mx[j]-x[j]) > mirrorTol*span {
+			return nil
+		}
+	}
+	scale := 0.0
+	for _, o := range ord {
+		for _, v := range o {
+			scale = max(scale, math.Abs(v))
+		}
+	}
+	tol := mirrorTol * max(scale, math.SmallestNonzeroFloat64)
+	moment := func(o []float64) float64 {
+		s := 0.0
+		for k, v := range o {
+			s += float64(k) * v
+		}
+		return s
+	}
+	type keyed struct {
+		key float64
+		i   int32
+	}
+	keys := make([]keyed, len(ord))
+	for i, o := range ord {
+		keys[i] = keyed{moment(o), int32(i)}
+	}
+	slices.SortFunc(keys, func(a, b keyed) int { return cmp.Compare(a.key, b.key) })
+	// Matching lines differ by at most tol at each point, so their moments by at most
+	// tol·n(n-1)/2 (and a little rounding).
+	keyTol := tol*float64(n*n) + 1e-12*scale*float64(n*n)
+	mirror := make([]int32, len(ord))
+	for i, mo := range mord {
+		want := moment(mo)
+		k, _ := slices.BinarySearchFunc(keys, want-keyTol, func(a keyed, t float64) int { return cmp.Compare(a.key, t) })
+		found := false
+		for ; k < len(keys) && keys[k].key <= want+keyTol; k++ {
+			if linesMatch(ord[keys[k].i], mo, tol) {
+				mirror[i], found = keys[k].i, true
+				break
+			}
+		}
+		if !found {
+			return nil
+		}
+	}
+	return mirror
+}
+
+func linesMatch(a, b []float64, tol float64) bool {
+	for k := range a {
+		if math.Abs(a[k]-b[k]) > tol {
+			return false
+		}
+	}
+	return true
 }
 
 // Members is the number of influence lines.

@@ -33,6 +33,9 @@ type found struct {
 	side   int8
 	stream int8
 	run    int16
+	// via is 1 + the member whose left-to-right sweep found a right-to-left extreme over a
+	// truss that is its own mirror image (see mirrorSweeps); 0 for the member's own sweep.
+	via int32
 }
 
 // sweepState is the per-member state of one stream: value, slope and curvature in s.
