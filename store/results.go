@@ -1,8 +1,10 @@
 package store
 
 import (
+	"bytes"
 	"context"
 	"encoding/json"
+	"fmt"
 	"math"
 	"strings"
 	"time"
@@ -86,8 +88,12 @@ var memberResultColumns = []string{"run_id", "bridge_id", "scenario", "member", 
 	"live_min_kn", "impact", "rf_tension", "rf_compression", "basis", "max_train", "max_head_m", "max_direction",
 	"max_from_m", "max_to_m", "min_train", "min_head_m", "min_direction", "min_from_m", "min_to_m", "max_count", "min_count"}
 
+var copyMemberResults = copyStatement("member_results", memberResultColumns)
+
 var memberAssessmentColumns = []string{"run_id", "bridge_id", "member", "rf_existing", "rf_proposed",
 	"sense_proposed", "demand_increase", "flags"}
+
+var copyMemberAssessments = copyStatement("member_assessments", memberAssessmentColumns)
 
 // writeResults writes the results of the bridges that are still pending, locking their rows
 // first: a second attempt at the same job (a rescued job whose first attempt committed) finds
@@ -111,36 +117,18 @@ func writeResults(ctx context.Context, tx pgx.Tx, runID int64, results []screeni
 	for _, id := range still {
 		pending[id] = true
 	}
-	var mr, ma [][]any
 	var u bridgeUpdates
+	var written []screening.Result
 	for _, r := range results {
-		if !pending[r.BridgeID] {
-			continue
-		}
-		u.add(r)
-		for _, m := range r.Members {
-			mr = append(mr, memberResultRow(runID, r.BridgeID, "existing", m, m.Existing, m.Assessment.Existing))
-			mr = append(mr, memberResultRow(runID, r.BridgeID, "proposed", m, m.Proposed, m.Assessment.Proposed))
-			a := m.Assessment
-			flags := make([]string, len(a.Flags))
-			for i, f := range a.Flags {
-				flags[i] = string(f)
-			}
-			sense := ""
-			if a.HasPr {
-				sense = a.WorstPr.Sense.String()
-			}
-			ma = append(ma, []any{runID, r.BridgeID, m.Label, rfOrNil(a.WorstEx, a.HasEx), rfOrNil(a.WorstPr, a.HasPr),
-				sense, num(a.DemandIncrease), flags})
+		if pending[r.BridgeID] {
+			u.add(r)
+			written = append(written, r)
 		}
 	}
 	if len(u.ids) == 0 {
 		return 0, nil
 	}
-	if _, err := tx.CopyFrom(ctx, pgx.Identifier{"member_results"}, memberResultColumns, pgx.CopyFromRows(mr)); err != nil {
-		return 0, err
-	}
-	if _, err := tx.CopyFrom(ctx, pgx.Identifier{"member_assessments"}, memberAssessmentColumns, pgx.CopyFromRows(ma)); err != nil {
+	if err := copyResults(ctx, tx, runID, written); err != nil {
 		return 0, err
 	}
 	t1 := time.Now()
@@ -160,6 +148,45 @@ func writeResults(ctx context.Context, tx pgx.Tx, runID int64, results []screeni
 	}
 	tm.Copy, tm.Update = t1.Sub(t0), time.Since(t1)
 	return len(u.ids), nil
+}
+
+// copyResults copies the results' member_results and member_assessments rows, one table after
+// the other through one encoder's buffer. After an error the encoder is dropped, not pooled:
+// when the connection breaks, pgconn can return before its sender has stopped reading it.
+func copyResults(ctx context.Context, tx pgx.Tx, runID int64, results []screening.Result) error {
+	e := copyEncoders.Get().(*copyEncoder)
+	conn := tx.Conn().PgConn()
+	if _, err := conn.CopyFrom(ctx, bytes.NewReader(encodeMemberResults(e, runID, results)), copyMemberResults); err != nil {
+		return fmt.Errorf("member_results: %w", err)
+	}
+	if _, err := conn.CopyFrom(ctx, bytes.NewReader(encodeMemberAssessments(e, runID, results)), copyMemberAssessments); err != nil {
+		return fmt.Errorf("member_assessments: %w", err)
+	}
+	copyEncoders.Put(e)
+	return nil
+}
+
+// encodeMemberResults encodes the results' member_results rows, both scenarios of each member.
+func encodeMemberResults(e *copyEncoder, runID int64, results []screening.Result) []byte {
+	e.begin()
+	for _, r := range results {
+		for _, m := range r.Members {
+			appendMemberResult(e, runID, r.BridgeID, "existing", m, m.Existing, m.Assessment.Existing)
+			appendMemberResult(e, runID, r.BridgeID, "proposed", m, m.Proposed, m.Assessment.Proposed)
+		}
+	}
+	return e.end()
+}
+
+// encodeMemberAssessments encodes the results' member_assessments rows, one a member.
+func encodeMemberAssessments(e *copyEncoder, runID int64, results []screening.Result) []byte {
+	e.begin()
+	for _, r := range results {
+		for _, m := range r.Members {
+			appendMemberAssessment(e, runID, r.BridgeID, m)
+		}
+	}
+	return e.end()
 }
 
 // bridgeUpdates gathers run_bridges columns for one UPDATE ... FROM unnest.
@@ -215,48 +242,93 @@ func (u *bridgeUpdates) add(r screening.Result) {
 	}
 }
 
-func memberResultRow(runID int64, bridge, scenario string, m screening.MemberResult, e screening.Envelope, rfs []rating.Factor) []any {
-	var rt, rc *float64
+// appendMemberResult encodes a member's member_results row under one scenario, in the order
+// of memberResultColumns.
+func appendMemberResult(e *copyEncoder, runID int64, bridge, scenario string, m screening.MemberResult, env screening.Envelope, rfs []rating.Factor) {
+	// NaN: no factor in that sense (NULL, as is a factor without a finite value).
+	rt, rc := math.NaN(), math.NaN()
 	basis := ""
 	for _, f := range rfs {
-		v := num(f.RF)
 		if f.Sense == rating.Tension {
-			rt = v
+			rt = f.RF
 		} else {
-			rc = v
+			rc = f.RF
 		}
 		basis = f.Basis
 	}
-	return []any{runID, bridge, scenario, m.Label, string(m.Kind), m.Dead, e.Max.Value, e.Min.Value, e.Impact, rt, rc, basis,
-		e.Max.Train, placementNum(e.Max.Loaded, e.Max.HeadM), dirText(e.Max.Loaded, e.Max.Direction.String()),
-		placementNum(e.Max.Loaded, e.Max.LoadedFromM), placementNum(e.Max.Loaded, e.Max.LoadedToM),
-		e.Min.Train, placementNum(e.Min.Loaded, e.Min.HeadM), dirText(e.Min.Loaded, e.Min.Direction.String()),
-		placementNum(e.Min.Loaded, e.Min.LoadedFromM), placementNum(e.Min.Loaded, e.Min.LoadedToM),
-		countOf(e.Max), countOf(e.Min)}
+	e.row(len(memberResultColumns))
+	e.int8(runID)
+	e.text(bridge)
+	e.text(scenario)
+	e.text(m.Label)
+	e.text(string(m.Kind))
+	// The forces and the allowance are stored as they are, NaN and ±Inf included.
+	e.float8(m.Dead)
+	e.float8(env.Max.Value)
+	e.float8(env.Min.Value)
+	e.float8(env.Impact)
+	e.float8OrNull(rt)
+	e.float8OrNull(rc)
+	e.text(basis)
+	appendPlacement(e, env.Max)
+	appendPlacement(e, env.Min)
+	appendCount(e, env.Max)
+	appendCount(e, env.Min)
 }
 
-// countOf is the vehicle count in the consist's last group at an extreme (NULL without a
-// train on the bridge).
-func countOf(e screening.Extreme) *int32 {
-	if !e.Loaded {
-		return nil
+// appendPlacement encodes an extreme's train, head position, direction and loaded stretch;
+// with no train on the bridge all but the train are NULL and the direction is empty.
+func appendPlacement(e *copyEncoder, x screening.Extreme) {
+	e.text(x.Train)
+	if !x.Loaded {
+		e.null()
+		e.text("")
+		e.null()
+		e.null()
+		return
 	}
-	n := int32(e.Count)
-	return &n
+	e.float8OrNull(x.HeadM)
+	e.text(x.Direction.String())
+	e.float8OrNull(x.LoadedFromM)
+	e.float8OrNull(x.LoadedToM)
 }
 
-func placementNum(loaded bool, v float64) *float64 {
-	if !loaded {
-		return nil
+// appendCount encodes the vehicle count in the consist's last group at an extreme (NULL
+// without a train on the bridge).
+func appendCount(e *copyEncoder, x screening.Extreme) {
+	if !x.Loaded {
+		e.null()
+		return
 	}
-	return num(v)
+	e.int4(int32(x.Count))
 }
 
-func dirText(loaded bool, d string) string {
-	if !loaded {
-		return ""
+// appendMemberAssessment encodes a member's member_assessments row, in the order of
+// memberAssessmentColumns.
+func appendMemberAssessment(e *copyEncoder, runID int64, bridge string, m screening.MemberResult) {
+	a := m.Assessment
+	sense := ""
+	if a.HasPr {
+		sense = a.WorstPr.Sense.String()
 	}
-	return d
+	e.row(len(memberAssessmentColumns))
+	e.int8(runID)
+	e.text(bridge)
+	e.text(m.Label)
+	appendRF(e, a.WorstEx, a.HasEx)
+	appendRF(e, a.WorstPr, a.HasPr)
+	e.text(sense)
+	e.float8OrNull(a.DemandIncrease)
+	textArray(e, a.Flags)
+}
+
+// appendRF encodes a rating factor, NULL when there is none or it has no finite value.
+func appendRF(e *copyEncoder, f rating.Factor, ok bool) {
+	if !ok {
+		e.null()
+		return
+	}
+	e.float8OrNull(f.RF)
 }
 
 // num stores a finite number; NaN and ±Inf (no value) become NULL.
