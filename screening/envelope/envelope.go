@@ -187,7 +187,7 @@ func (c *Calculator) train(l *Lines, ld *Load, out []Extremes) []Extremes {
 			c.mirrorSweeps(l.mirror)
 			break
 		}
-		gr := l.dir[d].plain
+		gr := l.plainGrid(d)
 		if refined {
 			gr = l.refinedGrid(d)
 		}
@@ -256,7 +256,7 @@ func (c *Calculator) extreme(l *Lines, ld *Load, i int, v float64, f found, isMa
 		sd, i = 0, int(f.via-1)
 	}
 	refined := ld.hasUnfav || ld.hasCut
-	gr := l.dir[sd].plain
+	gr := l.plainGrid(sd)
 	if refined {
 		gr = l.refinedGrid(sd)
 	}

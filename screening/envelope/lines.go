@@ -30,12 +30,22 @@ type Lines struct {
 type direction struct {
 	x     []float64
 	ord   [][]float64
-	plain *grid // the panel points: enough for axles and whole distributed parts
+	// plain has the panel points: enough for axles and whole distributed parts. The mirror
+	// image's is built on first use, as a truss that is its own mirror image never needs it.
+	plainOnce sync.Once
+	plain     *grid
 	// refined adds every member's zero crossings, for parts applied by sign and uniform
 	// loads. Most trains never need it, so it is built on first use (once, also when several
 	// goroutines sweep the same Lines).
 	refinedOnce sync.Once
 	refined     *grid
+}
+
+// plainGrid is direction d's grid of the panel points.
+func (l *Lines) plainGrid(d int) *grid {
+	dr := &l.dir[d]
+	dr.plainOnce.Do(func() { dr.plain = newGrid(dr.x, dr.ord, false) })
+	return dr.plain
 }
 
 // refinedGrid is direction d's refined grid, built on first use.
@@ -125,9 +135,7 @@ func NewLines(x []float64, ordinates [][]float64) (*Lines, error) {
 	}
 	l.dir[0].x, l.dir[0].ord = l.x, l.ord
 	l.dir[1].x, l.dir[1].ord = mx, mord
-	for d := range l.dir {
-		l.dir[d].plain = newGrid(l.dir[d].x, l.dir[d].ord, false)
-	}
+	l.plainGrid(0)
 	l.mirror = mirrorOf(l.dir[0].x, l.dir[0].ord, mx, mord)
 	return l, nil
 }
