@@ -89,7 +89,7 @@ func (db *DB) NewInsertClient() (*Client, error) {
 
 // NewWorkerClient gives a client that works the screening jobs of every open run; Start it.
 func (db *DB) NewWorkerClient(opt WorkerOptions) (*Client, error) {
-	w := &chunkWorker{db: db, opt: opt, settings: map[int64]*screening.Settings{}}
+	w := &chunkWorker{db: db, opt: opt, runs: map[int64]runPlan{}}
 	workers := river.NewWorkers()
 	if err := river.AddWorkerSafely(workers, w); err != nil {
 		return nil, err
@@ -146,13 +146,19 @@ func (c *Client) CreateRun(ctx context.Context, nr NewRun) (int64, error) {
 				return err
 			}
 		}
-		if err := tx.QueryRow(ctx, `INSERT INTO runs (program_version, config, config_hash, trains, mode, base_run_id)
-			VALUES ($1, $2, $3, $4, $5, $6) RETURNING id`,
-			nr.ProgramVersion, cfg, hex.EncodeToString(sum[:]), plan, mode, base).Scan(&id); err != nil {
+		if err := tx.QueryRow(ctx, `INSERT INTO runs (program_version, config, config_hash, trains, mode, base_run_id, plan_hash)
+			VALUES ($1, $2, $3, $4, $5, $6, $7) RETURNING id`,
+			nr.ProgramVersion, cfg, hex.EncodeToString(sum[:]), plan, mode, base, nr.PlanHash).Scan(&id); err != nil {
 			return err
 		}
-		if _, err := tx.Exec(ctx, `INSERT INTO run_bridges (run_id, bridge_id, input_hash)
-			SELECT $1, b.bridge_id, `+inputHash+` FROM bridges b`, id, nr.PlanHash); err != nil {
+		// The jobs hash each bridge as they load it (chunkInputs); only a run that carries
+		// unchanged bridges forward needs every hash now.
+		q, args := `INSERT INTO run_bridges (run_id, bridge_id, input_hash) SELECT $1, b.bridge_id, '' FROM bridges b`, []any{id}
+		if base != nil {
+			q = `INSERT INTO run_bridges (run_id, bridge_id, input_hash) SELECT $1, b.bridge_id, ` + inputHash + ` FROM bridges b`
+			args = append(args, nr.PlanHash)
+		}
+		if _, err := tx.Exec(ctx, q, args...); err != nil {
 			return err
 		}
 		if base != nil {
@@ -244,34 +250,42 @@ type chunkWorker struct {
 	db  *DB
 	opt WorkerOptions
 
-	mu       sync.Mutex
-	settings map[int64]*screening.Settings
+	mu   sync.Mutex
+	runs map[int64]runPlan
+}
+
+// runPlan is what a worker keeps of a run it works on: the settings from its plan and the
+// plan's share of the input hashes.
+type runPlan struct {
+	set      *screening.Settings
+	planHash string
 }
 
 // Timeout bounds one job.
 func (w *chunkWorker) Timeout(*river.Job[ChunkArgs]) time.Duration { return w.opt.JobTimeout }
 
-func (w *chunkWorker) runSettings(ctx context.Context, runID int64) (*screening.Settings, error) {
+func (w *chunkWorker) runPlan(ctx context.Context, runID int64) (runPlan, error) {
 	w.mu.Lock()
 	defer w.mu.Unlock()
-	if s, ok := w.settings[runID]; ok {
-		return s, nil
+	if rp, ok := w.runs[runID]; ok {
+		return rp, nil
 	}
 	run, err := w.db.GetRun(ctx, runID)
 	if err != nil {
-		return nil, err
+		return runPlan{}, err
 	}
 	var plan screening.Plan
 	if err := json.Unmarshal(run.Plan, &plan); err != nil {
-		return nil, fmt.Errorf("run %d plan: %w", runID, err)
+		return runPlan{}, fmt.Errorf("run %d plan: %w", runID, err)
 	}
 	s, err := plan.Settings()
 	if err != nil {
-		return nil, fmt.Errorf("run %d plan: %w", runID, err)
+		return runPlan{}, fmt.Errorf("run %d plan: %w", runID, err)
 	}
 	s.ShareTrains()
-	w.settings[runID] = s
-	return s, nil
+	rp := runPlan{set: s, planHash: run.PlanHash}
+	w.runs[runID] = rp
+	return rp, nil
 }
 
 // Work screens the job's bridges that are still pending and commits their results together
@@ -280,23 +294,23 @@ func (w *chunkWorker) Work(ctx context.Context, job *river.Job[ChunkArgs]) error
 	a := job.Args
 	var tm ChunkTiming
 	t0 := time.Now()
-	set, err := w.runSettings(ctx, a.RunID)
+	rp, err := w.runPlan(ctx, a.RunID)
 	if err != nil {
 		return w.giveUp(ctx, job, err)
 	}
-	inputs, err := w.db.chunkInputs(ctx, a.RunID, a.Bridges)
+	inputs, hashes, err := w.db.chunkInputs(ctx, a.RunID, rp.planHash, a.Bridges)
 	if err != nil {
 		return w.giveUp(ctx, job, err)
 	}
 	t1 := time.Now()
-	results, err := screening.ScreenAll(ctx, inputs, set, w.opt.Threads)
+	results, err := screening.ScreenAll(ctx, inputs, rp.set, w.opt.Threads)
 	if err != nil {
 		return err // cancelled: the job runs again
 	}
 	t2 := time.Now()
 	tm.Load, tm.Screen = t1.Sub(t0), t2.Sub(t1)
 	err = pgx.BeginFunc(ctx, w.db.Pool, func(tx pgx.Tx) error {
-		n, err := writeResults(ctx, tx, a.RunID, results, &tm)
+		n, err := writeResults(ctx, tx, a.RunID, results, hashes, &tm)
 		if err != nil {
 			return err
 		}

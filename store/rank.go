@@ -83,7 +83,9 @@ func (db *DB) ranked(ctx context.Context, runID int64, limit int, only string) (
 
 // FlagTotals counts a run's members per flag, and its bridges with any flag.
 func (db *DB) FlagTotals(ctx context.Context, runID int64) (members map[string]int, bridgesFlagged int, err error) {
-	rows, err := db.Pool.Query(ctx, `SELECT f, count(*) FROM member_assessments, unnest(flags) AS f
+	// Each bridge's summary counts its members by flag: summing those reads one row a bridge
+	// instead of one a member.
+	rows, err := db.Pool.Query(ctx, `SELECT f, sum(n::int) FROM run_bridges, jsonb_each_text(flag_counts) AS c(f, n)
 		WHERE run_id = $1 GROUP BY f`, runID)
 	if err != nil {
 		return nil, 0, err

@@ -16,28 +16,41 @@ import (
 )
 
 // chunkInputs loads the bridges of a job that are still pending in the run, with their
-// members, as screening inputs.
-func (db *DB) chunkInputs(ctx context.Context, runID int64, ids []string) ([]screening.Bridge, error) {
-	rows, err := db.Pool.Query(ctx, "SELECT "+bridgeColumns+` FROM bridges b
-		JOIN run_bridges r ON r.bridge_id = b.bridge_id AND r.run_id = $1 AND r.status = 'pending'
-		WHERE b.bridge_id = ANY($2) ORDER BY b.bridge_id`, runID, ids)
-	if err != nil {
-		return nil, err
-	}
-	bridges, err := pgx.CollectRows(rows, func(r pgx.CollectableRow) (Bridge, error) {
-		var b Bridge
-		return b, r.Scan(b.pointers()...)
+// members, as screening inputs, and each bridge's input hash (with planHash, the run's; none
+// for a run without one), all from one snapshot, so that the hash describes what is screened.
+func (db *DB) chunkInputs(ctx context.Context, runID int64, planHash string, ids []string) ([]screening.Bridge, map[string]string, error) {
+	var bridges []Bridge
+	var members []Member
+	hashes := make(map[string]string, len(ids))
+	err := pgx.BeginTxFunc(ctx, db.Pool, pgx.TxOptions{IsoLevel: pgx.RepeatableRead, AccessMode: pgx.ReadOnly}, func(tx pgx.Tx) error {
+		// r.bridge_id = ANY($3) as well as the join: a run just created has no statistics,
+		// and without it the planner may read all the run's bridges to join 50 of them.
+		rows, err := tx.Query(ctx, "SELECT "+bridgeColumns+`, CASE WHEN $2 = '' THEN '' ELSE `+inputHash+` END
+			FROM bridges b JOIN run_bridges r ON r.bridge_id = b.bridge_id AND r.run_id = $1 AND r.status = 'pending'
+				AND r.bridge_id = ANY($3)
+			WHERE b.bridge_id = ANY($3) ORDER BY b.bridge_id`, runID, planHash, ids)
+		if err != nil {
+			return err
+		}
+		bridges, err = pgx.CollectRows(rows, func(r pgx.CollectableRow) (Bridge, error) {
+			var b Bridge
+			var h string
+			err := r.Scan(append(b.pointers(), &h)...)
+			hashes[b.BridgeID] = h
+			return b, err
+		})
+		if err != nil {
+			return err
+		}
+		rows, err = tx.Query(ctx, "SELECT "+memberColumns+" FROM members WHERE bridge_id = ANY($1)", ids)
+		if err != nil {
+			return err
+		}
+		members, err = collectMembers(rows)
+		return err
 	})
 	if err != nil {
-		return nil, err
-	}
-	rows, err = db.Pool.Query(ctx, "SELECT "+memberColumns+" FROM members WHERE bridge_id = ANY($1)", ids)
-	if err != nil {
-		return nil, err
-	}
-	members, err := collectMembers(rows)
-	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	out := make([]screening.Bridge, len(bridges))
 	index := make(map[string]int, len(bridges))
@@ -50,7 +63,7 @@ func (db *DB) chunkInputs(ctx context.Context, runID int64, ids []string) ([]scr
 			out[i].Members[m.Member] = RatingMember(m)
 		}
 	}
-	return out, nil
+	return out, hashes, nil
 }
 
 // ScreeningInput turns an inventory row and its members into what screening needs.
@@ -97,8 +110,10 @@ var copyMemberAssessments = copyStatement("member_assessments", memberAssessment
 
 // writeResults writes the results of the bridges that are still pending, locking their rows
 // first: a second attempt at the same job (a rescued job whose first attempt committed) finds
-// them done and writes nothing. It returns the number of bridges written.
-func writeResults(ctx context.Context, tx pgx.Tx, runID int64, results []screening.Result, tm *ChunkTiming) (int, error) {
+// them done and writes nothing. hashes are the bridges' input hashes as loaded; a bridge
+// without one keeps the hash its run was created with. It returns the number of bridges
+// written.
+func writeResults(ctx context.Context, tx pgx.Tx, runID int64, results []screening.Result, hashes map[string]string, tm *ChunkTiming) (int, error) {
 	t0 := time.Now()
 	ids := make([]string, len(results))
 	for i, r := range results {
@@ -121,7 +136,7 @@ func writeResults(ctx context.Context, tx pgx.Tx, runID int64, results []screeni
 	var written []screening.Result
 	for _, r := range results {
 		if pending[r.BridgeID] {
-			u.add(r)
+			u.add(r, hashes[r.BridgeID])
 			written = append(written, r)
 		}
 	}
@@ -132,18 +147,21 @@ func writeResults(ctx context.Context, tx pgx.Tx, runID int64, results []screeni
 		return 0, err
 	}
 	t1 := time.Now()
+	// r.bridge_id = ANY($2) beside the join: the planner, with no statistics yet for a new
+	// run, would otherwise hash all the run's rows to join the chunk's (an index lookup each).
 	if _, err := tx.Exec(ctx, `UPDATE run_bridges r SET status = u.status, error = u.error,
 		worst_member = u.worst, rf_existing = u.rfe, rf_proposed = u.rfp, demand_increase = u.inc,
 		headroom = u.head, flags = string_to_array(u.flags, ','), flag_counts = u.counts::jsonb,
 		governing_train = u.gtrain, governing_sense = u.gsense, governing_head_m = u.ghead,
-		governing_direction = u.gdir, governing_from_m = u.gfrom, governing_to_m = u.gto, screened_at = now()
+		governing_direction = u.gdir, governing_from_m = u.gfrom, governing_to_m = u.gto, screened_at = now(),
+		input_hash = CASE WHEN u.hash = '' THEN r.input_hash ELSE u.hash END
 		FROM unnest($2::text[], $3::text[], $4::text[], $5::text[], $6::float8[], $7::float8[], $8::float8[],
 			$9::float8[], $10::text[], $11::text[], $12::text[], $13::text[], $14::float8[], $15::text[], $16::float8[],
-			$17::float8[])
-			AS u(id, status, error, worst, rfe, rfp, inc, head, flags, counts, gtrain, gsense, ghead, gdir, gfrom, gto)
-		WHERE r.run_id = $1 AND r.bridge_id = u.id`,
+			$17::float8[], $18::text[])
+			AS u(id, status, error, worst, rfe, rfp, inc, head, flags, counts, gtrain, gsense, ghead, gdir, gfrom, gto, hash)
+		WHERE r.run_id = $1 AND r.bridge_id = ANY($2) AND r.bridge_id = u.id`,
 		runID, u.ids, u.status, u.errs, u.worst, u.rfe, u.rfp, u.inc, u.head, u.flags, u.counts, u.gtrain, u.gsense,
-		u.ghead, u.gdir, u.gfrom, u.gto); err != nil {
+		u.ghead, u.gdir, u.gfrom, u.gto, u.hashes); err != nil {
 		return 0, err
 	}
 	tm.Copy, tm.Update = t1.Sub(t0), time.Since(t1)
@@ -191,13 +209,14 @@ func encodeMemberAssessments(e *copyEncoder, runID int64, results []screening.Re
 
 // bridgeUpdates gathers run_bridges columns for one UPDATE ... FROM unnest.
 type bridgeUpdates struct {
-	ids, status, errs, flags, counts, gtrain, gsense, gdir []string
-	worst                                                  []*string
-	rfe, rfp, inc, head, ghead, gfrom, gto                 []*float64
+	ids, status, errs, flags, counts, gtrain, gsense, gdir, hashes []string
+	worst                                                          []*string
+	rfe, rfp, inc, head, ghead, gfrom, gto                         []*float64
 }
 
-func (u *bridgeUpdates) add(r screening.Result) {
+func (u *bridgeUpdates) add(r screening.Result, hash string) {
 	u.ids = append(u.ids, r.BridgeID)
+	u.hashes = append(u.hashes, hash)
 	if r.Err != nil {
 		u.status = append(u.status, "failed")
 		u.errs = append(u.errs, r.Err.Error())

@@ -324,7 +324,7 @@ func TestWriteResultsMatchesPgxCopy(t *testing.T) {
 	var written int
 	err := pgx.BeginFunc(ctx, db.Pool, func(tx pgx.Tx) error {
 		var err error
-		written, err = store.WriteResults(ctx, tx, runID, results, &store.ChunkTiming{})
+		written, err = store.WriteResults(ctx, tx, runID, results, nil, &store.ChunkTiming{})
 		return err
 	})
 	if err != nil {

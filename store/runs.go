@@ -24,6 +24,7 @@ type Run struct {
 	Plan           json.RawMessage // screening.Plan: the trains and settings as used
 	BridgesTotal   int
 	Note           string
+	PlanHash       string // the plan's share of its bridges' input hashes ("" before migration 005)
 }
 
 // Run states.
@@ -47,12 +48,12 @@ type NewRun struct {
 }
 
 const runColumns = `id, status, mode, base_run_id, started_at, finished_at, program_version, config, config_hash,
-	trains, bridges_total, note`
+	trains, bridges_total, note, plan_hash`
 
 func scanRun(r pgx.Row) (Run, error) {
 	var x Run
 	err := r.Scan(&x.ID, &x.Status, &x.Mode, &x.BaseRunID, &x.StartedAt, &x.FinishedAt, &x.ProgramVersion, &x.Config,
-		&x.ConfigHash, &x.Plan, &x.BridgesTotal, &x.Note)
+		&x.ConfigHash, &x.Plan, &x.BridgesTotal, &x.Note, &x.PlanHash)
 	return x, err
 }
 
@@ -129,7 +130,7 @@ func (db *DB) PendingBridges(ctx context.Context, id int64) (int, error) {
 	return n, err
 }
 
-// inputHash is the digest of everything a bridge's result depends on: the plan (trains and
+// inputHash, with the plan hash as $2, is the digest of everything a bridge's result depends on: the plan (trains and
 // settings), the bridge's geometry and loads, and its members' stored data.
 const inputHash = `md5(concat_ws('|', $2::text, b.truss_type, b.span_m, b.panels, b.depth_m, b.deck, b.end_posts,
 	b.trusses, b.truss_share, b.tracks, b.dead_load_kn_per_m, coalesce((SELECT string_agg(concat_ws(',', m.member,

@@ -182,7 +182,13 @@ func TestRunScreensEveryBridgeOnce(t *testing.T) {
 			t.Errorf("rank %d RF %v above rank %d RF %v", i, *a, i+1, *b)
 		}
 	}
-	// A nightly run with nothing changed carries every bridge forward and queues nothing.
+	// The jobs hashed each bridge's inputs as they loaded them.
+	var unhashed int
+	if err := db.Pool.QueryRow(ctx, `SELECT count(*) FROM run_bridges WHERE run_id = $1 AND input_hash = ''`, id).Scan(&unhashed); err != nil || unhashed != 0 {
+		t.Errorf("%d bridges without an input hash (%v)", unhashed, err)
+	}
+	// A nightly run with nothing changed carries every bridge forward and queues nothing: the
+	// hashes it takes of every bridge when it is created equal those the jobs took.
 	id2, err := ic.CreateRun(ctx, store.NewRun{ProgramVersion: "test", Config: map[string]any{"k": 1}, Plan: plan, PlanHash: plan.Hash(), ChunkSize: 4, Changed: true})
 	if err != nil {
 		t.Fatal(err)

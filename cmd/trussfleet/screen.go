@@ -81,8 +81,17 @@ func (a *app) screen(ctx context.Context, db *store.DB, out, errw io.Writer, cha
 func (a *app) screenWith(ctx context.Context, db *store.DB, out, errw io.Writer, changed bool, resume int64, onTiming func(store.ChunkTiming)) error {
 	screeningGC()
 	s := a.cfg.Screen
+	// Each committed job wakes the wait below, which then looks at once whether the run
+	// has ended instead of at its next poll.
+	wake := make(chan struct{}, 1)
 	wc, err := db.NewWorkerClient(store.WorkerOptions{
 		Jobs: s.Jobs, Threads: a.cfg.Workers, JobTimeout: s.JobTimeout, RescueAfter: s.RescueAfter, OnTiming: onTiming,
+		OnChunk: func(int64, int) {
+			select {
+			case wake <- struct{}{}:
+			default:
+			}
+		},
 	})
 	if err != nil {
 		return err
@@ -121,7 +130,7 @@ func (a *app) screenWith(ctx context.Context, db *store.DB, out, errw io.Writer,
 	if err := wc.Start(context.WithoutCancel(ctx)); err != nil {
 		return err
 	}
-	status, err := waitForRun(ctx, db, id, errw, p0.Total-p0.Pending, start)
+	status, err := waitForRun(ctx, db, id, errw, p0.Total-p0.Pending, start, wake)
 	stopCtx, cancel := context.WithTimeout(context.Background(), 30*time.Second)
 	defer cancel()
 	if errors.Is(err, context.Canceled) {
@@ -154,8 +163,9 @@ func (a *app) screenWith(ctx context.Context, db *store.DB, out, errw io.Writer,
 }
 
 // waitForRun polls the run until it is no longer running, showing progress: a bar on a
-// terminal, a log line every few seconds otherwise.
-func waitForRun(ctx context.Context, db *store.DB, id int64, errw io.Writer, first int, start time.Time) (string, error) {
+// terminal, a log line every few seconds otherwise. A signal on wake (a job of this process
+// committed) makes it look at the run's status at once.
+func waitForRun(ctx context.Context, db *store.DB, id int64, errw io.Writer, first int, start time.Time, wake <-chan struct{}) (string, error) {
 	tty := isTerminal(errw)
 	var lastLog, lastJobCheck time.Time
 	var lostSince time.Time
@@ -167,6 +177,10 @@ func waitForRun(ctx context.Context, db *store.DB, id int64, errw io.Writer, fir
 		case <-ctx.Done():
 			return "", ctx.Err()
 		case <-tick.C:
+		case <-wake:
+			if r, err := db.GetRun(ctx, id); err != nil || r.Status == store.RunRunning {
+				continue // the next tick reports progress, or the loss of the database
+			}
 		}
 		run, err := db.GetRun(ctx, id)
 		var pending int
