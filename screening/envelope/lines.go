@@ -28,8 +28,8 @@ type Lines struct {
 }
 
 type direction struct {
-	x     []float64
-	ord   [][]float64
+	x   []float64
+	ord [][]float64
 	// plain has the panel points: enough for axles and whole distributed parts. The mirror
 	// image's is built on first use, as a truss that is its own mirror image never needs it.
 	plainOnce sync.Once
