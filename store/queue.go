@@ -100,7 +100,7 @@ func (db *DB) NewWorkerClient(opt WorkerOptions) (*Client, error) {
 		Workers:              workers,
 		JobTimeout:           opt.JobTimeout,
 		RescueStuckJobsAfter: opt.RescueAfter,
-		FetchCooldown:        50 * time.Millisecond,
+		FetchCooldown:        10 * time.Millisecond,
 		FetchPollInterval:    500 * time.Millisecond,
 		MaxAttempts:          chunkMaxAttempts,
 	}

@@ -66,6 +66,14 @@ func (ub uniformBest) extreme(q, minM, maxM, x0, xl, tol float64) Extreme {
 	if !ub.ok || math.Abs(q*ub.v) < 1e-9 {
 		return Extreme{}
 	}
+	// An end within the tolerance of a bearing is at the bearing: an interval of bounding
+	// length laid from the far end (a = xl - L, b = a + L) may miss it by a rounding.
+	if ub.a <= x0+tol {
+		ub.a = x0
+	}
+	if ub.b >= xl-tol {
+		ub.b = xl
+	}
 	p := Placement{Loaded: true, LoadedFromM: ub.a, LoadedToM: ub.b, HeadM: ub.b}
 	p.LengthM = min(max(minM, ub.b-ub.a), maxM)
 	if ub.b >= xl-tol && ub.a > x0+tol {
