@@ -36,12 +36,15 @@ func TestCopyFloorAndDeleteRun(t *testing.T) {
 	if want == 0 {
 		t.Fatal("the run wrote no result rows")
 	}
-	f, err := db.MeasureCopyFloor(ctx, id, t.TempDir(), 2, nil)
+	f, err := db.MeasureCopyFloor(ctx, id, t.TempDir(), store.FloorOptions{Streams: 2, Repeats: 2})
 	if err != nil {
 		t.Fatal(err)
 	}
 	if f.Rows != want || f.Bytes <= 0 || f.Elapsed <= 0 {
 		t.Fatalf("copy floor: %d rows, %d bytes, %v; want %d rows", f.Rows, f.Bytes, f.Elapsed, want)
+	}
+	if len(f.Times) != 2 || f.Elapsed != min(f.Times[0], f.Times[1]) {
+		t.Fatalf("copy floor %v of times %v: want the fastest of 2", f.Elapsed, f.Times)
 	}
 	if err := db.DeleteRun(ctx, id); err != nil {
 		t.Fatal(err)
