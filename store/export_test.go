@@ -5,6 +5,7 @@ import "github.com/trussfleet/trussfleet/screening"
 // What the result-writing tests and benchmarks reach inside the package for.
 var (
 	WriteResults            = writeResults
+	InputHashes             = inputHashes
 	MemberResultColumns     = memberResultColumns
 	MemberAssessmentColumns = memberAssessmentColumns
 	Num                     = num

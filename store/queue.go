@@ -153,13 +153,20 @@ func (c *Client) CreateRun(ctx context.Context, nr NewRun) (int64, error) {
 		}
 		// The jobs hash each bridge as they load it (chunkInputs); only a run that carries
 		// unchanged bridges forward needs every hash now.
-		q, args := `INSERT INTO run_bridges (run_id, bridge_id, input_hash) SELECT $1, b.bridge_id, '' FROM bridges b`, []any{id}
-		if base != nil {
-			q = `INSERT INTO run_bridges (run_id, bridge_id, input_hash) SELECT $1, b.bridge_id, ` + inputHash + ` FROM bridges b`
-			args = append(args, nr.PlanHash)
-		}
-		if _, err := tx.Exec(ctx, q, args...); err != nil {
-			return err
+		if base == nil {
+			if _, err := tx.Exec(ctx, `INSERT INTO run_bridges (run_id, bridge_id, input_hash)
+				SELECT $1, bridge_id, '' FROM bridges`, id); err != nil {
+				return err
+			}
+		} else {
+			ids, hashes, err := inputHashes(ctx, tx, nr.PlanHash)
+			if err != nil {
+				return err
+			}
+			if _, err := tx.Exec(ctx, `INSERT INTO run_bridges (run_id, bridge_id, input_hash)
+				SELECT $1, * FROM unnest($2::text[], $3::text[])`, id, ids, hashes); err != nil {
+				return err
+			}
 		}
 		// Statistics that know the new run: without them the planner takes the run for a
 		// handful of rows and reads all its pending bridges to find a job's 50 (10 ms a job

@@ -16,51 +16,45 @@ import (
 )
 
 // chunkInputs loads the bridges of a job that are still pending in the run, with their
-// members, as screening inputs, and each bridge's input hash (with planHash, the run's; none
-// for a run without one), all from one snapshot, so that the hash describes what is screened.
+// members, as screening inputs, and each bridge's input hash (InputHash with planHash, the
+// run's; none for a run without one), taken of the rows loaded: the hash describes exactly
+// what is screened.
 func (db *DB) chunkInputs(ctx context.Context, runID int64, planHash string, ids []string) ([]screening.Bridge, map[string]string, error) {
-	var bridges []Bridge
-	var members []Member
-	hashes := make(map[string]string, len(ids))
-	err := pgx.BeginTxFunc(ctx, db.Pool, pgx.TxOptions{IsoLevel: pgx.RepeatableRead, AccessMode: pgx.ReadOnly}, func(tx pgx.Tx) error {
-		// r.bridge_id = ANY($3) as well as the join: a run just created has no statistics,
-		// and without it the planner may read all the run's bridges to join 50 of them.
-		rows, err := tx.Query(ctx, "SELECT "+bridgeColumns+`, CASE WHEN $2 = '' THEN '' ELSE `+inputHash+` END
-			FROM bridges b JOIN run_bridges r ON r.bridge_id = b.bridge_id AND r.run_id = $1 AND r.status = 'pending'
-				AND r.bridge_id = ANY($3)
-			WHERE b.bridge_id = ANY($3) ORDER BY b.bridge_id`, runID, planHash, ids)
-		if err != nil {
-			return err
-		}
-		bridges, err = pgx.CollectRows(rows, func(r pgx.CollectableRow) (Bridge, error) {
-			var b Bridge
-			var h string
-			err := r.Scan(append(b.pointers(), &h)...)
-			hashes[b.BridgeID] = h
-			return b, err
-		})
-		if err != nil {
-			return err
-		}
-		rows, err = tx.Query(ctx, "SELECT "+memberColumns+" FROM members WHERE bridge_id = ANY($1)", ids)
-		if err != nil {
-			return err
-		}
-		members, err = collectMembers(rows)
-		return err
+	// r.bridge_id = ANY($2) as well as the join: a run just created may have no statistics,
+	// and then the planner may read all the run's bridges to join 50 of them.
+	rows, err := db.Pool.Query(ctx, "SELECT "+bridgeColumns+` FROM bridges b
+		JOIN run_bridges r ON r.bridge_id = b.bridge_id AND r.run_id = $1 AND r.status = 'pending'
+			AND r.bridge_id = ANY($2)
+		WHERE b.bridge_id = ANY($2) ORDER BY b.bridge_id`, runID, ids)
+	if err != nil {
+		return nil, nil, err
+	}
+	bridges, err := pgx.CollectRows(rows, func(r pgx.CollectableRow) (Bridge, error) {
+		var b Bridge
+		return b, r.Scan(b.pointers()...)
 	})
 	if err != nil {
 		return nil, nil, err
 	}
-	out := make([]screening.Bridge, len(bridges))
-	index := make(map[string]int, len(bridges))
-	for i, b := range bridges {
-		out[i] = ScreeningInput(b, nil)
-		index[b.BridgeID] = i
+	rows, err = db.Pool.Query(ctx, "SELECT "+memberColumns+" FROM members WHERE bridge_id = ANY($1)", ids)
+	if err != nil {
+		return nil, nil, err
 	}
+	members, err := collectMembers(rows)
+	if err != nil {
+		return nil, nil, err
+	}
+	byBridge := make(map[string][]Member, len(bridges))
 	for _, m := range members {
-		if i, ok := index[m.BridgeID]; ok {
-			out[i].Members[m.Member] = RatingMember(m)
+		byBridge[m.BridgeID] = append(byBridge[m.BridgeID], m)
+	}
+	out := make([]screening.Bridge, len(bridges))
+	hashes := make(map[string]string, len(bridges))
+	for i, b := range bridges {
+		ms := byBridge[b.BridgeID]
+		out[i] = ScreeningInput(b, ms)
+		if planHash != "" {
+			hashes[b.BridgeID] = InputHash(planHash, b, ms)
 		}
 	}
 	return out, hashes, nil

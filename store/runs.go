@@ -130,13 +130,6 @@ func (db *DB) PendingBridges(ctx context.Context, id int64) (int, error) {
 	return n, err
 }
 
-// inputHash, with the plan hash as $2, is the digest of everything a bridge's result depends on: the plan (trains and
-// settings), the bridge's geometry and loads, and its members' stored data.
-const inputHash = `md5(concat_ws('|', $2::text, b.truss_type, b.span_m, b.panels, b.depth_m, b.deck, b.end_posts,
-	b.trusses, b.truss_share, b.tracks, b.dead_load_kn_per_m, coalesce((SELECT string_agg(concat_ws(',', m.member,
-	m.capacity_tension_kn, m.capacity_compression_kn, m.rating_factor, m.reference_train, m.condition_factor), ';'
-	ORDER BY m.member) FROM members m WHERE m.bridge_id = b.bridge_id), '')))`
-
 // ReferenceTrains lists the distinct reference trains that stored rating factors name.
 func (db *DB) ReferenceTrains(ctx context.Context) ([]string, error) {
 	rows, err := db.Pool.Query(ctx, `SELECT DISTINCT reference_train FROM members
