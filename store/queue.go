@@ -329,15 +329,13 @@ func (w *chunkWorker) Work(ctx context.Context, job *river.Job[ChunkArgs]) error
 			return err
 		}
 		tm.Bridges = n
-		if err := finishRunIfDone(ctx, tx, a.RunID); err != nil {
-			return err
-		}
 		_, err = river.JobCompleteTx[*riverpgxv5.Driver](ctx, tx, job)
 		return err
 	})
 	if err != nil {
 		return w.giveUp(ctx, job, fmt.Errorf("writing results: %w", err))
 	}
+	w.finishRun(ctx, a.RunID)
 	tm.Commit = time.Since(t2) - tm.Copy - tm.Update
 	if w.opt.OnChunk != nil {
 		w.opt.OnChunk(a.RunID, tm.Bridges)
@@ -360,26 +358,34 @@ func (w *chunkWorker) giveUp(ctx context.Context, job *river.Job[ChunkArgs], cau
 			job.Args.RunID, job.Args.Bridges, fmt.Sprintf("job failed after %d attempts: %v", job.Attempt, cause)); err != nil {
 			return err
 		}
-		if err := finishRunIfDone(ctx, tx, job.Args.RunID); err != nil {
-			return err
-		}
 		_, err := river.JobCompleteTx[*riverpgxv5.Driver](ctx, tx, job)
 		return err
 	})
 	if err != nil {
 		return errors.Join(cause, err)
 	}
+	w.finishRun(ctx, job.Args.RunID)
 	return nil
 }
 
-// finishRunIfDone marks the run completed when no bridge is pending. The run row is locked
-// first, so that of two jobs committing at once the later one sees the other's bridges done.
-func finishRunIfDone(ctx context.Context, tx pgx.Tx, runID int64) error {
-	if _, err := tx.Exec(ctx, "SELECT 1 FROM runs WHERE id = $1 FOR UPDATE", runID); err != nil {
-		return err
+// finishRun completes the run if this job's commit left no bridge pending. It runs after
+// the commit, in a statement of its own: of two jobs committing at once, the one committing
+// later looks after both commits and sees every bridge done, so no lock is needed (a lock on
+// the run's row, held to the commit, made every job wait for the one before). Should this
+// process die between the commit and the check, FinishRuns completes the run later.
+func (w *chunkWorker) finishRun(ctx context.Context, runID int64) {
+	if err := w.db.FinishRuns(context.WithoutCancel(ctx), runID); err != nil && w.opt.Logger != nil {
+		w.opt.Logger.Warn("completing the run", "run", runID, "err", err)
 	}
-	_, err := tx.Exec(ctx, `UPDATE runs SET status = 'completed', finished_at = now()
-		WHERE id = $1 AND status IN ('running', 'interrupted')
-		AND NOT EXISTS (SELECT 1 FROM run_bridges WHERE run_id = $1 AND status = 'pending')`, runID)
+}
+
+// FinishRuns marks completed the given run, or with id 0 every run, that is running or
+// interrupted with no bridge pending. It is idempotent and safe to call at any time: a
+// worker calls it after each job, and screen, worker and CreateRun call it for runs whose
+// last job's process died between its commit and its check.
+func (db *DB) FinishRuns(ctx context.Context, runID int64) error {
+	_, err := db.Pool.Exec(ctx, `UPDATE runs r SET status = 'completed', finished_at = now()
+		WHERE ($1 = 0 OR r.id = $1) AND r.status IN ('running', 'interrupted')
+		AND NOT EXISTS (SELECT 1 FROM run_bridges b WHERE b.run_id = r.id AND b.status = 'pending')`, runID)
 	return err
 }

@@ -237,3 +237,38 @@ func TestRunScreensEveryBridgeOnce(t *testing.T) {
 		t.Errorf("diff %+v does not show %s with a lower RF", d, victim)
 	}
 }
+
+// TestFinishRunsAfterALostCheck: a run whose bridges are all written but which is still
+// open (the process of its last job died between the job's commit and its check) is
+// completed by FinishRuns; a run with a bridge pending is left running.
+func TestFinishRunsAfterALostCheck(t *testing.T) {
+	ctx := context.Background()
+	db := pgtest.DB(t)
+	seedFleet(t, db, 5)
+	plan := testPlan(t, db)
+	ic, err := db.NewInsertClient()
+	if err != nil {
+		t.Fatal(err)
+	}
+	nr := store.NewRun{ProgramVersion: "test", Config: map[string]any{}, Plan: plan, PlanHash: plan.Hash(), ChunkSize: 5}
+	done, err := ic.CreateRun(ctx, nr)
+	if err != nil {
+		t.Fatal(err)
+	}
+	runToEnd(t, db, done, 1)
+	if _, err := db.Pool.Exec(ctx, `UPDATE runs SET status = 'running', finished_at = NULL WHERE id = $1`, done); err != nil {
+		t.Fatal(err)
+	}
+	open, err := ic.CreateRun(ctx, nr)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := db.FinishRuns(ctx, 0); err != nil {
+		t.Fatal(err)
+	}
+	for id, want := range map[int64]string{done: store.RunCompleted, open: store.RunRunning} {
+		if r, err := db.GetRun(ctx, id); err != nil || r.Status != want {
+			t.Errorf("run %d: %s (%v), want %s", id, r.Status, err, want)
+		}
+	}
+}

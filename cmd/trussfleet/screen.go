@@ -223,7 +223,15 @@ func waitForRun(ctx context.Context, db *store.DB, id int64, errw io.Writer, fir
 			}
 			return run.Status, nil
 		}
-		if pending > 0 && time.Since(lastJobCheck) > 10*time.Second {
+		if pending == 0 {
+			// Every bridge is written but the run is still open: the process of its last
+			// job died between the job's commit and its check. Complete it here.
+			if err := db.FinishRuns(ctx, id); err != nil {
+				slog.Warn("completing the run", "run", id, "err", err)
+			}
+			continue
+		}
+		if time.Since(lastJobCheck) > 10*time.Second {
 			lastJobCheck = time.Now()
 			if n, err := db.OpenJobs(ctx, id); err == nil && n == 0 {
 				return run.Status, fmt.Errorf("run %d: %d bridges pending but no jobs left to work them", id, pending)

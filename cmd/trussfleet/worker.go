@@ -46,7 +46,20 @@ SIGINT or SIGTERM stops it: running jobs finish first (up to job_timeout), then 
 				return err
 			}
 			fmt.Fprintf(cmd.ErrOrStderr(), "worker started (pid %d): %d jobs at once, %d threads each\n", os.Getpid(), s.Jobs, a.cfg.Workers)
-			<-ctx.Done()
+			// A job completes its run after its commit; a worker that died in between leaves
+			// the run open with nothing pending. Any worker completes such runs, now and then.
+			tick := time.NewTicker(30 * time.Second)
+			defer tick.Stop()
+			for done := false; !done; {
+				if err := db.FinishRuns(ctx, 0); err != nil && ctx.Err() == nil {
+					slog.Warn("completing finished runs", "err", err)
+				}
+				select {
+				case <-ctx.Done():
+					done = true
+				case <-tick.C:
+				}
+			}
 			stopCtx, cancel := context.WithTimeout(context.Background(), s.JobTimeout+10*time.Second)
 			defer cancel()
 			return wc.Stop(stopCtx)
