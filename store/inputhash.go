@@ -63,22 +63,26 @@ func (h *inputHasher) num(v float64) {
 
 func (h *inputHasher) int(n int) { h.buf = binary.BigEndian.AppendUint64(h.buf, uint64(n)) }
 
-func (h *inputHasher) optNum(v *float64) {
-	if v == nil {
-		h.buf = append(h.buf, 0)
-		return
+// present writes whether an optional value is there, and returns it.
+func (h *inputHasher) present(ok bool) bool {
+	b := byte(0)
+	if ok {
+		b = 1
 	}
-	h.buf = append(h.buf, 1)
-	h.num(*v)
+	h.buf = append(h.buf, b)
+	return ok
+}
+
+func (h *inputHasher) optNum(v *float64) {
+	if h.present(v != nil) {
+		h.num(*v)
+	}
 }
 
 func (h *inputHasher) optText(s *string) {
-	if s == nil {
-		h.buf = append(h.buf, 0)
-		return
+	if h.present(s != nil) {
+		h.text(*s)
 	}
-	h.buf = append(h.buf, 1)
-	h.text(*s)
 }
 
 // inputHashes hashes every bridge of the inventory as InputHash does, reading the bridges
