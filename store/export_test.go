@@ -1,6 +1,19 @@
 package store
 
-import "github.com/trussfleet/trussfleet/screening"
+import (
+	"context"
+
+	"github.com/trussfleet/trussfleet/screening"
+)
+
+// NewWorkerClientScreening is NewWorkerClient with its own screening function.
+func (db *DB) NewWorkerClientScreening(opt WorkerOptions,
+	screen func(context.Context, []screening.Bridge, *screening.Settings, int) ([]screening.Result, error)) (*Client, error) {
+	return db.newWorkerClient(opt, screen)
+}
+
+// MaxRequeues is how often a bridge left without a job is queued again.
+const MaxRequeues = maxRequeues
 
 // What the result-writing tests and benchmarks reach inside the package for.
 var (
@@ -23,4 +36,9 @@ func EncodeMemberResults(buf []byte, runID int64, results []screening.Result) []
 func EncodeMemberAssessments(buf []byte, runID int64, results []screening.Result) []byte {
 	e := copyEncoder{buf: buf}
 	return encodeMemberAssessments(&e, runID, results)
+}
+
+// CancelJob cancels a job through River's own API.
+func (c *Client) CancelJob(ctx context.Context, id int64) (any, error) {
+	return c.river.JobCancel(ctx, id)
 }

@@ -56,6 +56,11 @@ func (db *DB) BeginImport(ctx context.Context, kind Kind, fileName string) (*Imp
 		return nil, fmt.Errorf("beginning import of %s: %w", fileName, err)
 	}
 	im := &Import{tx: tx, kind: kind}
+	// An import reported as committed must survive a crash of the server.
+	if err := durable(ctx, tx); err != nil {
+		tx.Rollback(ctx)
+		return nil, fmt.Errorf("beginning import of %s: %w", fileName, err)
+	}
 	// The batch row exists from the start so that merged rows can refer to it; Commit fills
 	// in the digest and the counts. A placeholder digest satisfies the column's check.
 	err = tx.QueryRow(ctx, `INSERT INTO import_batches (kind, file_name, sha256, rows, inserted, updated, unchanged, started_at)

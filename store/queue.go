@@ -89,7 +89,13 @@ func (db *DB) NewInsertClient() (*Client, error) {
 
 // NewWorkerClient gives a client that works the screening jobs of every open run; Start it.
 func (db *DB) NewWorkerClient(opt WorkerOptions) (*Client, error) {
-	w := &chunkWorker{db: db, opt: opt, runs: map[int64]runPlan{}}
+	return db.newWorkerClient(opt, screening.ScreenAll)
+}
+
+// newWorkerClient is NewWorkerClient with the function that screens a chunk's bridges (the
+// fault tests give one that hangs on chosen bridges).
+func (db *DB) newWorkerClient(opt WorkerOptions, screen screenFunc) (*Client, error) {
+	w := &chunkWorker{db: db, opt: opt, screen: screen, runs: map[int64]runPlan{}}
 	workers := river.NewWorkers()
 	if err := river.AddWorkerSafely(workers, w); err != nil {
 		return nil, err
@@ -137,6 +143,9 @@ func (c *Client) CreateRun(ctx context.Context, nr NewRun) (int64, error) {
 	chunk := max(nr.ChunkSize, 1)
 	var id int64
 	err = pgx.BeginFunc(ctx, c.db.Pool, func(tx pgx.Tx) error {
+		if err := durable(ctx, tx); err != nil {
+			return err
+		}
 		var base *int64
 		mode := "full"
 		if nr.Changed {
@@ -189,19 +198,12 @@ func (c *Client) CreateRun(ctx context.Context, nr NewRun) (int64, error) {
 		if err != nil {
 			return err
 		}
-		var jobs []river.InsertManyParams
-		for start := 0; start < len(pending); start += chunk {
-			ids := pending[start:min(start+chunk, len(pending))]
-			jobs = append(jobs, river.InsertManyParams{Args: ChunkArgs{RunID: id, Bridges: ids}})
-		}
-		if len(jobs) > 0 {
-			if _, err := c.river.InsertManyFastTx(ctx, tx, jobs); err != nil {
-				return fmt.Errorf("queueing jobs: %w", err)
-			}
+		if err := insertChunks(ctx, c.river, tx, id, pending, chunk); err != nil {
+			return err
 		}
 		_, err = tx.Exec(ctx, `UPDATE runs SET bridges_total = (SELECT count(*) FROM run_bridges WHERE run_id = $1),
 			status = CASE WHEN $2 THEN 'completed' ELSE status END,
-			finished_at = CASE WHEN $2 THEN now() END WHERE id = $1`, id, len(jobs) == 0)
+			finished_at = CASE WHEN $2 THEN now() END WHERE id = $1`, id, len(pending) == 0)
 		return err
 	})
 	if err != nil {
@@ -258,11 +260,15 @@ func (db *DB) OpenJobs(ctx context.Context, runID int64) (int, error) {
 	return n, err
 }
 
+// screenFunc screens a chunk's bridges: screening.ScreenAll.
+type screenFunc func(ctx context.Context, bridges []screening.Bridge, s *screening.Settings, threads int) ([]screening.Result, error)
+
 // chunkWorker works ChunkArgs jobs.
 type chunkWorker struct {
 	river.WorkerDefaults[ChunkArgs]
-	db  *DB
-	opt WorkerOptions
+	db     *DB
+	opt    WorkerOptions
+	screen screenFunc
 
 	mu   sync.Mutex
 	runs map[int64]runPlan
@@ -304,26 +310,39 @@ func (w *chunkWorker) runPlan(ctx context.Context, runID int64) (runPlan, error)
 
 // Work screens the job's bridges that are still pending and commits their results together
 // with the job's completion, so that a bridge's results are written exactly once.
+//
+// Every way a job ends leaves each of its bridges done, failed with its reason, or in another
+// open job: a failure is retried until the last attempt, which records it on the bridges; a
+// job whose screening outlasts its timeout is split into one job per bridge, and a one-bridge
+// job that does is recorded as failed (the computation would only time out again). Jobs that
+// River itself ends without Work (rescued too often, discarded, cancelled) are swept up by
+// RecoverRuns.
 func (w *chunkWorker) Work(ctx context.Context, job *river.Job[ChunkArgs]) error {
 	a := job.Args
 	var tm ChunkTiming
 	t0 := time.Now()
 	rp, err := w.runPlan(ctx, a.RunID)
 	if err != nil {
-		return w.giveUp(ctx, job, err)
+		return w.retryOrFail(ctx, job, err)
 	}
 	inputs, hashes, err := w.db.chunkInputs(ctx, a.RunID, rp.planHash, a.Bridges)
 	if err != nil {
-		return w.giveUp(ctx, job, err)
+		return w.retryOrFail(ctx, job, err)
 	}
 	t1 := time.Now()
-	results, err := screening.ScreenAll(ctx, inputs, rp.set, w.opt.Threads)
+	results, err := w.screen(ctx, inputs, rp.set, w.opt.Threads)
 	if err != nil {
-		return err // cancelled: the job runs again
+		if errors.Is(ctx.Err(), context.DeadlineExceeded) {
+			return w.timedOut(ctx, job, inputs, time.Since(t1))
+		}
+		return err // the process is stopping: the job runs again
 	}
 	t2 := time.Now()
 	tm.Load, tm.Screen = t1.Sub(t0), t2.Sub(t1)
 	err = pgx.BeginFunc(ctx, w.db.Pool, func(tx pgx.Tx) error {
+		if err := durable(ctx, tx); err != nil {
+			return err
+		}
 		n, err := writeResults(ctx, tx, a.RunID, results, hashes, &tm)
 		if err != nil {
 			return err
@@ -333,7 +352,7 @@ func (w *chunkWorker) Work(ctx context.Context, job *river.Job[ChunkArgs]) error
 		return err
 	})
 	if err != nil {
-		return w.giveUp(ctx, job, fmt.Errorf("writing results: %w", err))
+		return w.retryOrFail(ctx, job, fmt.Errorf("writing results: %w", err))
 	}
 	w.finishRun(ctx, a.RunID)
 	tm.Commit = time.Since(t2) - tm.Copy - tm.Update
@@ -346,26 +365,83 @@ func (w *chunkWorker) Work(ctx context.Context, job *river.Job[ChunkArgs]) error
 	return nil
 }
 
-// giveUp returns err for River to retry, except on the job's last attempt: then it records
-// the error on the job's pending bridges, so that the run can end.
-func (w *chunkWorker) giveUp(ctx context.Context, job *river.Job[ChunkArgs], cause error) error {
-	if job.Attempt < job.MaxAttempts || ctx.Err() != nil {
-		return cause
-	}
-	err := pgx.BeginFunc(ctx, w.db.Pool, func(tx pgx.Tx) error {
-		if _, err := tx.Exec(ctx, `UPDATE run_bridges SET status = 'failed', error = $3, screened_at = now()
-			WHERE run_id = $1 AND bridge_id = ANY($2) AND status = 'pending'`,
-			job.Args.RunID, job.Args.Bridges, fmt.Sprintf("job failed after %d attempts: %v", job.Attempt, cause)); err != nil {
+// endingTimeout bounds the transaction that records how a job ended; it runs on a context of
+// its own, since the job's may have run out.
+const endingTimeout = 30 * time.Second
+
+// endJob runs fn and completes the job in one durable transaction on a fresh context, then
+// completes the run if nothing is left pending.
+func (w *chunkWorker) endJob(ctx context.Context, job *river.Job[ChunkArgs], fn func(context.Context, pgx.Tx) error) error {
+	ectx, cancel := context.WithTimeout(context.WithoutCancel(ctx), endingTimeout)
+	defer cancel()
+	err := pgx.BeginFunc(ectx, w.db.Pool, func(tx pgx.Tx) error {
+		if err := durable(ectx, tx); err != nil {
 			return err
 		}
-		_, err := river.JobCompleteTx[*riverpgxv5.Driver](ctx, tx, job)
+		if err := fn(ectx, tx); err != nil {
+			return err
+		}
+		_, err := river.JobCompleteTx[*riverpgxv5.Driver](ectx, tx, job)
 		return err
 	})
 	if err != nil {
+		return err
+	}
+	w.finishRun(ectx, job.Args.RunID)
+	return nil
+}
+
+// retryOrFail returns cause for River to retry the job, except on its last attempt: then it
+// records the error on the job's pending bridges, so that the run can end. A job cancelled
+// because its process is stopping is always left to run again.
+func (w *chunkWorker) retryOrFail(ctx context.Context, job *river.Job[ChunkArgs], cause error) error {
+	if errors.Is(ctx.Err(), context.Canceled) || job.Attempt < job.MaxAttempts {
+		return cause
+	}
+	why := failReason("job failed after %d attempts: %v", job.Attempt, cause)
+	err := w.endJob(ctx, job, func(ctx context.Context, tx pgx.Tx) error {
+		return failBridges(ctx, tx, job.Args.RunID, job.Args.Bridges, why)
+	})
+	if err != nil {
+		// River discards the job; RecoverRuns records its error on the bridges later.
 		return errors.Join(cause, err)
 	}
-	w.finishRun(ctx, job.Args.RunID)
 	return nil
+}
+
+// timedOut ends a job whose screening outlasted its timeout. Screening is deterministic, so
+// trying the same chunk again would time out again: a chunk of several bridges is split into
+// one job per bridge (the slow bridge then fails alone and the others are screened), and a
+// one-bridge job records the timeout on its bridge.
+func (w *chunkWorker) timedOut(ctx context.Context, job *river.Job[ChunkArgs], inputs []screening.Bridge, took time.Duration) error {
+	ids := make([]string, len(inputs))
+	for i, b := range inputs {
+		ids[i] = b.ID
+	}
+	err := w.endJob(ctx, job, func(ctx context.Context, tx pgx.Tx) error {
+		if len(ids) > 1 {
+			// The client working this job inserts the new ones (River puts it in the context).
+			rc, err := river.ClientFromContextSafely[pgx.Tx](ctx)
+			if err != nil {
+				return err
+			}
+			return insertChunks(ctx, rc, tx, job.Args.RunID, ids, 1)
+		}
+		return failBridges(ctx, tx, job.Args.RunID, ids, failReason(
+			"screening took longer than the job timeout (%v, stopped after %v): check its trains and geometry, or raise job_timeout",
+			w.opt.JobTimeout, took.Round(time.Millisecond)))
+	})
+	if err != nil {
+		return fmt.Errorf("job timed out, and ending it failed: %w", err)
+	}
+	return nil
+}
+
+// failBridges records why the run's still pending bridges among ids could not be screened.
+func failBridges(ctx context.Context, tx pgx.Tx, runID int64, ids []string, why string) error {
+	_, err := tx.Exec(ctx, `UPDATE run_bridges SET status = 'failed', error = $3, screened_at = now()
+		WHERE run_id = $1 AND bridge_id = ANY($2) AND status = 'pending'`, runID, ids, why)
+	return err
 }
 
 // finishRun completes the run if this job's commit left no bridge pending. It runs after

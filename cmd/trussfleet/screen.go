@@ -119,6 +119,13 @@ func (a *app) screenWith(ctx context.Context, db *store.DB, out, errw io.Writer,
 		if err := db.SetRunStatus(ctx, resume, store.RunRunning); err != nil {
 			return err
 		}
+		// Bridges whose jobs are gone (ended by River, cleaned away, or lost in a crash)
+		// are queued again or recorded as failed, so that the run can finish.
+		if rec, err := wc.RecoverRuns(ctx, resume, s.ChunkSize); err != nil {
+			return err
+		} else if rec != (store.Recovered{}) {
+			fmt.Fprintf(errw, "run %d: %d bridges without a job queued again, %d recorded as failed\n", resume, rec.Requeued, rec.Failed)
+		}
 	}
 	// Progress counts from here: what the run had before this process started does not
 	// count toward its rate.
@@ -130,7 +137,8 @@ func (a *app) screenWith(ctx context.Context, db *store.DB, out, errw io.Writer,
 	if err := wc.Start(context.WithoutCancel(ctx)); err != nil {
 		return err
 	}
-	status, err := waitForRun(ctx, db, id, errw, p0.Total-p0.Pending, start, wake)
+	sweep := func(ctx context.Context) (store.Recovered, error) { return wc.RecoverRuns(ctx, id, s.ChunkSize) }
+	status, err := waitForRun(ctx, db, id, errw, p0.Total-p0.Pending, start, wake, sweep)
 	stopCtx, cancel := context.WithTimeout(context.Background(), 30*time.Second)
 	defer cancel()
 	if errors.Is(err, context.Canceled) {
@@ -164,8 +172,10 @@ func (a *app) screenWith(ctx context.Context, db *store.DB, out, errw io.Writer,
 
 // waitForRun polls the run until it is no longer running, showing progress: a bar on a
 // terminal, a log line every few seconds otherwise. A signal on wake (a job of this process
-// committed) makes it look at the run's status at once.
-func waitForRun(ctx context.Context, db *store.DB, id int64, errw io.Writer, first int, start time.Time, wake <-chan struct{}) (string, error) {
+// committed) makes it look at the run's status at once. Every few seconds, when bridges are
+// pending but no job is left to work them, sweep ends or requeues them.
+func waitForRun(ctx context.Context, db *store.DB, id int64, errw io.Writer, first int, start time.Time, wake <-chan struct{},
+	sweep func(context.Context) (store.Recovered, error)) (string, error) {
 	tty := isTerminal(errw)
 	var lastLog, lastJobCheck time.Time
 	var lostSince time.Time
@@ -231,14 +241,22 @@ func waitForRun(ctx context.Context, db *store.DB, id int64, errw io.Writer, fir
 			}
 			continue
 		}
-		if time.Since(lastJobCheck) > 10*time.Second {
+		if time.Since(lastJobCheck) > jobCheckEvery {
 			lastJobCheck = time.Now()
 			if n, err := db.OpenJobs(ctx, id); err == nil && n == 0 {
-				return run.Status, fmt.Errorf("run %d: %d bridges pending but no jobs left to work them", id, pending)
+				rec, err := sweep(ctx)
+				if err != nil {
+					slog.Warn("recovering bridges without a job", "run", id, "err", err)
+				} else {
+					slog.Warn("bridges pending with no job left", "run", id, "requeued", rec.Requeued, "failed", rec.Failed)
+				}
 			}
 		}
 	}
 }
+
+// jobCheckEvery is how often a waiting run looks for bridges left without a job.
+const jobCheckEvery = 5 * time.Second
 
 // dbGrace is how long a run waits for a database that went away before it gives up.
 const dbGrace = 2 * time.Minute

@@ -47,12 +47,18 @@ SIGINT or SIGTERM stops it: running jobs finish first (up to job_timeout), then 
 			}
 			fmt.Fprintf(cmd.ErrOrStderr(), "worker started (pid %d): %d jobs at once, %d threads each\n", os.Getpid(), s.Jobs, a.cfg.Workers)
 			// A job completes its run after its commit; a worker that died in between leaves
-			// the run open with nothing pending. Any worker completes such runs, now and then.
+			// the run open with nothing pending. Any worker completes such runs, now and then,
+			// and ends or requeues bridges that are pending with no job left to work them.
 			tick := time.NewTicker(30 * time.Second)
 			defer tick.Stop()
 			for done := false; !done; {
 				if err := db.FinishRuns(ctx, 0); err != nil && ctx.Err() == nil {
 					slog.Warn("completing finished runs", "err", err)
+				}
+				if rec, err := wc.RecoverRuns(ctx, 0, s.ChunkSize); err != nil && ctx.Err() == nil {
+					slog.Warn("recovering bridges without a job", "err", err)
+				} else if rec != (store.Recovered{}) {
+					slog.Warn("bridges pending with no job left", "requeued", rec.Requeued, "failed", rec.Failed)
 				}
 				select {
 				case <-ctx.Done():

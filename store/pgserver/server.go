@@ -364,9 +364,13 @@ func (s *Server) writeSettings() error {
 //
 //   - synchronous_commit = off: a commit returns before its WAL reaches the disk. A crash of
 //     the server or the machine (not of trussfleet) can lose the last moments of commits,
-//     never corrupt the database (fsync stays on). A job's completion and its bridges'
-//     results are one transaction, so a lost commit loses both, the job runs again, and every
-//     bridge is still written exactly once; an import lost that way is simply repeated.
+//     never corrupt the database (fsync stays on). That is acceptable only for what can be
+//     lost: River's own bookkeeping (a job fetched, retried or completed again) and progress
+//     marks. Every transaction that writes results, completes a job with them, queues jobs
+//     or imports a file asks for a durable commit itself (store's durable: SET LOCAL
+//     synchronous_commit = on), on this server and on any other, because River's completer
+//     would otherwise complete again, on the recovered server, a job whose results the crash
+//     lost (TestDatabaseCrash kills the server mid-run with pg_ctl's immediate mode).
 //   - max_wal_size = 4GB: with the default 1 GB a 10,000-bridge run forced a checkpoint
 //     every 25 s, each rewriting the pages it touched again in full into the WAL.
 const privateServerSettings = "synchronous_commit = off\nmax_wal_size = 4GB\n"
