@@ -5,10 +5,13 @@ import (
 	"fmt"
 	"os"
 	"runtime"
+	"strconv"
 	"strings"
+	"time"
 
 	"github.com/spf13/pflag"
 	"github.com/spf13/viper"
+	"github.com/trussfleet/trussfleet/store"
 )
 
 // Config is the whole resolved configuration. configs/default.yaml documents every key.
@@ -18,6 +21,48 @@ type Config struct {
 	Output   string         `mapstructure:"output"`
 	// Screening settings live in config_screen.go.
 	Screen ScreenConfig `mapstructure:",squash"`
+	// Retention prunes old runs after each completed screen (runs prune does it by hand).
+	Retention RetentionConfig `mapstructure:"retention"`
+}
+
+// RetentionConfig says which runs screen keeps after a completed run; both zero keeps all.
+type RetentionConfig struct {
+	Keep int `mapstructure:"keep"`
+	// OlderThan is an age such as 90d or 720h; empty: no age rule.
+	OlderThan string `mapstructure:"older_than"`
+	// Vacuum runs VACUUM on the run tables after a prune that removed something, so that the
+	// next runs reuse the space at once.
+	Vacuum bool `mapstructure:"vacuum"`
+}
+
+// retention resolves the configured rules; ok is false when none is set.
+func (r RetentionConfig) retention() (ret store.Retention, ok bool, err error) {
+	age, err := parseAge(r.OlderThan)
+	if err != nil {
+		return ret, false, fmt.Errorf("configuration key retention.older_than: %w", err)
+	}
+	ret = store.Retention{Keep: r.Keep, OlderThan: age}
+	return ret, r.Keep > 0 || age > 0, nil
+}
+
+// parseAge reads an age as a Go duration (720h, 90m) or a whole number of days (30d).
+func parseAge(s string) (time.Duration, error) {
+	s = strings.TrimSpace(s)
+	if s == "" || s == "0" {
+		return 0, nil
+	}
+	if days, ok := strings.CutSuffix(s, "d"); ok {
+		n, err := strconv.Atoi(days)
+		if err != nil || n < 0 || n > 36500 {
+			return 0, fmt.Errorf("age %q: want a whole number of days from 0 to 36500 (30d) or a duration (720h)", s)
+		}
+		return time.Duration(n) * 24 * time.Hour, nil
+	}
+	d, err := time.ParseDuration(s)
+	if err != nil || d < 0 {
+		return 0, fmt.Errorf("age %q: want a whole number of days (30d) or a duration (720h)", s)
+	}
+	return d, nil
 }
 
 // DatabaseConfig says which PostgreSQL to use.
@@ -42,6 +87,9 @@ func setDefaults(v *viper.Viper) {
 	v.SetDefault("workers", runtime.NumCPU())
 	v.SetDefault("output", "trussfleet-out")
 	setScreenDefaults(v)
+	v.SetDefault("retention.keep", 0)
+	v.SetDefault("retention.older_than", "")
+	v.SetDefault("retention.vacuum", true)
 }
 
 // loadConfig resolves flags > TRUSSFLEET_* environment > config file > defaults, once.
@@ -85,5 +133,11 @@ func (c Config) validate() error {
 		errs = append(errs, fmt.Errorf("configuration key workers: must be at least 1, got %d", c.Workers))
 	}
 	errs = append(errs, c.Screen.validate()...)
+	if c.Retention.Keep < 0 {
+		errs = append(errs, fmt.Errorf("configuration key retention.keep: must not be negative, got %d", c.Retention.Keep))
+	}
+	if _, _, err := c.Retention.retention(); err != nil {
+		errs = append(errs, err)
+	}
 	return errors.Join(errs...)
 }

@@ -60,7 +60,7 @@ func newRunsCmd(a *app) *cobra.Command {
 			return a.withDatabase(ctx, func(db *store.DB) error { return diffRuns(ctx, cmd.OutOrStdout(), db, ids) })
 		},
 	}
-	cmd.AddCommand(list, show, diff)
+	cmd.AddCommand(list, show, diff, newPruneCmd(a))
 	return cmd
 }
 

@@ -164,6 +164,12 @@ func (a *app) screenWith(ctx context.Context, db *store.DB, out, errw io.Writer,
 	if err := a.printSummary(ctx, db, out, id); err != nil {
 		return err
 	}
+	if r, ok, _ := a.cfg.Retention.retention(); ok {
+		// Retention after a completed run: a failure to prune does not fail the run.
+		if err := pruneRuns(ctx, errw, db, r, a.cfg.Retention.Vacuum, false); err != nil {
+			slog.Warn("pruning old runs", "err", err)
+		}
+	}
 	if p, err := db.Progress(ctx, id); err == nil && p.Failed > 0 {
 		return &exitError{code: exitBridgesFailed, err: fmt.Errorf("run %d: %d bridges could not be screened (see `trussfleet rank --run %d`)", id, p.Failed, id)}
 	}
