@@ -286,7 +286,7 @@ func TestIsolatesBidiText(t *testing.T) {
 	if len(rows) == 0 {
 		t.Fatal("the bridge page has no member rows")
 	}
-	if !regexp.MustCompile(`^\s*<td><bdi>(<a [^>]*>)?`+regexp.QuoteMeta(label+"‹U+202E›")+`(</a>)?</bdi></td>`).MatchString(rows[0][2]) {
+	if !regexp.MustCompile(`^\s*<td><bdi>(<a [^>]*>)?` + regexp.QuoteMeta(label+"‹U+202E›") + `(</a>)?</bdi></td>`).MatchString(rows[0][2]) {
 		t.Errorf("the member label with an override is not escaped and in <bdi>: %q", rows[0][2])
 	}
 	index := readFile(t, filepath.Join(dir, "index.html"))
