@@ -40,8 +40,8 @@ func (a *app) printSummary(ctx context.Context, db *store.DB, w io.Writer, id in
 	fmt.Fprintln(w, "\nTop of the priority list:")
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "rank\tbridge\tname\tworst member\tRF existing\tRF proposed\tflags")
+	cell := safetext.Cell
 	for _, r := range rows {
-		cell := safetext.Cell
 		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%s\n", r.Rank, cell(r.BridgeID), cell(r.Name), cell(r.WorstMember), fmtRF(r.RFExisting), fmtRF(r.RFProposed), flagsText(r))
 	}
 	if err := tw.Flush(); err != nil {
