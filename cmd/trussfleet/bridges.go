@@ -9,6 +9,7 @@ import (
 	"text/tabwriter"
 
 	"github.com/spf13/cobra"
+	"github.com/trussfleet/trussfleet/internal/safetext"
 	"github.com/trussfleet/trussfleet/store"
 )
 
@@ -53,12 +54,14 @@ count, which an import ignores), so the list can be edited and imported again.`,
 	return cmd
 }
 
+// bridgesTable prints the bridges for a person, their text through safetext.Cell.
 func bridgesTable(w io.Writer, bs []store.BridgeSummary) error {
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "bridge_id\tname\tline\tkm\ttype\tdeck\tspan m\tpanels\tdepth m\tdead kN/m/truss\tbuilt\tinspected\tmembers")
+	cell := safetext.Cell
 	for _, b := range bs {
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\t%g\t%d\t%g\t%g\t%s\t%s\t%d\n", b.BridgeID, b.Name, b.Line, optFloat(b.ChainageKM),
-			b.TrussType, b.Deck, b.SpanM, b.Panels, b.DepthM, b.DeadLoadKNPerM, optInt(b.YearBuilt), optDate(b), b.Members)
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\t%g\t%d\t%g\t%g\t%s\t%s\t%d\n", cell(b.BridgeID), cell(b.Name), cell(b.Line), optFloat(b.ChainageKM),
+			cell(b.TrussType), cell(b.Deck), b.SpanM, b.Panels, b.DepthM, b.DeadLoadKNPerM, optInt(b.YearBuilt), optDate(b), b.Members)
 	}
 	if err := tw.Flush(); err != nil {
 		return err
@@ -69,16 +72,18 @@ func bridgesTable(w io.Writer, bs []store.BridgeSummary) error {
 }
 
 // bridgesCSV writes the bridges.csv columns, so the output imports again; the first line
-// is the caution as a comment, which the importer skips.
+// is the caution as a comment, which the importer skips. Text cells go through
+// safetext.CSVCell: a name a spreadsheet would run as a formula is written after a quote.
 func bridgesCSV(w io.Writer, bs []store.BridgeSummary) error {
 	fmt.Fprintf(w, "# %s\n", caution)
 	cw := csv.NewWriter(w)
 	cw.Write([]string{"bridge_id", "name", "line", "chainage_km", "truss_type", "span_m", "panels", "depth_m", "deck", "end_posts",
 		"trusses", "truss_share", "tracks", "dead_load_kn_per_m", "year_built", "latitude", "longitude", "last_inspected", "members"})
+	text := safetext.CSVCell
 	for _, b := range bs {
 		f := func(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) }
-		cw.Write([]string{b.BridgeID, b.Name, b.Line, optFloat(b.ChainageKM), b.TrussType, f(b.SpanM), strconv.Itoa(b.Panels), f(b.DepthM),
-			b.Deck, b.EndPosts, strconv.Itoa(b.Trusses), f(b.TrussShare), strconv.Itoa(b.Tracks), f(b.DeadLoadKNPerM),
+		cw.Write([]string{text(b.BridgeID), text(b.Name), text(b.Line), optFloat(b.ChainageKM), text(b.TrussType), f(b.SpanM), strconv.Itoa(b.Panels), f(b.DepthM),
+			text(b.Deck), text(b.EndPosts), strconv.Itoa(b.Trusses), f(b.TrussShare), strconv.Itoa(b.Tracks), f(b.DeadLoadKNPerM),
 			optInt(b.YearBuilt), optFloat(b.Latitude), optFloat(b.Longitude), optDate(b), strconv.Itoa(b.Members)})
 	}
 	cw.Flush()

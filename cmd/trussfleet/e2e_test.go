@@ -27,21 +27,9 @@ import (
 func TestEndToEnd(t *testing.T) {
 	url := pgtest.URL(t)
 	dir := t.TempDir()
-	write := func(name, text string) string {
-		p := filepath.Join(dir, name)
-		if err := os.WriteFile(p, []byte(text), 0o600); err != nil {
-			t.Fatal(err)
-		}
-		return p
-	}
-	axle := func(name string, p float64) string {
-		return fmt.Sprintf("name: %s\nunits: si\nvehicles:\n  - id: a\n    length: 1\n    axles:\n      - {at: 0.5, load: %g}\nconsist:\n  - {vehicle: a, count: 1}\n", name, p)
-	}
-	if err := os.Mkdir(filepath.Join(dir, "trains"), 0o755); err != nil {
-		t.Fatal(err)
-	}
-	write("trains/axle100.yaml", axle("Test axle 100", 100))
-	write("trains/axle400.yaml", axle("Test axle 400", 400))
+	write := func(name, text string) string { return writeTestFile(t, dir, name, text) }
+	write("trains/axle100.yaml", axleTrain("Test axle 100", 100))
+	write("trains/axle400.yaml", axleTrain("Test axle 400", 400))
 	write("bridges.csv", "bridge_id,name,line,truss_type,span_m,panels,depth_m,deck,dead_load_kn_per_m\n"+
 		"T-1,Capacity short,Test line,pratt,48,8,6,through,10\n"+
 		"T-2,Capacity ample,Test line,pratt,48,8,6,through,10\n"+
@@ -174,6 +162,24 @@ func TestEndToEnd(t *testing.T) {
 	}
 }
 
+// writeTestFile writes text to dir/name, making the folders on the way, and returns the path.
+func writeTestFile(t *testing.T, dir, name, text string) string {
+	t.Helper()
+	p := filepath.Join(dir, name)
+	if err := os.MkdirAll(filepath.Dir(p), 0o755); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(p, []byte(text), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	return p
+}
+
+// axleTrain is the text of a train file of one axle of p kN.
+func axleTrain(name string, p float64) string {
+	return fmt.Sprintf("name: %q\nunits: si\nvehicles:\n  - id: a\n    length: 1\n    axles:\n      - {at: 0.5, load: %g}\nconsist:\n  - {vehicle: a, count: 1}\n", name, p)
+}
+
 // readExport reads an export CSV (after its caution line) into maps by column.
 func readExport(t *testing.T, path string) []map[string]string {
 	t.Helper()
@@ -181,9 +187,15 @@ func readExport(t *testing.T, path string) []map[string]string {
 	if err != nil {
 		t.Fatal(err)
 	}
-	first, rest, _ := strings.Cut(string(data), "\n")
+	return parseExport(t, path, string(data))
+}
+
+// parseExport reads the text of an export CSV, named what, into maps by column.
+func parseExport(t *testing.T, what, data string) []map[string]string {
+	t.Helper()
+	first, rest, _ := strings.Cut(data, "\n")
 	if !strings.HasPrefix(first, "# CAUTION") {
-		t.Errorf("%s starts %q, want the caution", path, first)
+		t.Errorf("%s starts %q, want the caution", what, first)
 	}
 	recs, err := csv.NewReader(strings.NewReader(rest)).ReadAll()
 	if err != nil {

@@ -12,6 +12,7 @@ import (
 
 	"github.com/spf13/cobra"
 	"github.com/trussfleet/trussfleet/configs"
+	"github.com/trussfleet/trussfleet/internal/safetext"
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/traffic"
@@ -178,16 +179,16 @@ func (e extremeJSON) cells() []string {
 	if e.Direction == envelope.RightToLeft.String() {
 		dir = "←"
 	}
-	return []string{fmt.Sprintf("%.1f", e.Value), e.Train, f(e.HeadM, 2) + " " + dir, count, f(e.LoadedFromM, 2) + "–" + f(e.LoadedToM, 2), ""}
+	return []string{fmt.Sprintf("%.1f", e.Value), safetext.Cell(e.Train), f(e.HeadM, 2) + " " + dir, count, f(e.LoadedFromM, 2) + "–" + f(e.LoadedToM, 2), ""}
 }
 
 func envelopeTable(w io.Writer, typ string, span float64, doc envelopeDoc) error {
 	fmt.Fprintf(w, "%s truss, span %g m. Member forces in kN (tension +), share %g, dynamic %s (factor %.3f).\n", typ, span, doc.Share, doc.Dynamic, doc.DynamicFactor)
-	fmt.Fprintf(w, "Trains: %s. Head: position of the train's front (m), arrow: direction of travel.\n\n", strings.Join(doc.Trains, "; "))
+	fmt.Fprintf(w, "Trains: %s. Head: position of the train's front (m), arrow: direction of travel.\n\n", safetext.Terminal(strings.Join(doc.Trains, "; ")))
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "member\tmax\ttrain\thead\tcount\tloaded\t\tmin\ttrain\thead\tcount\tloaded\t")
 	for _, m := range doc.Members {
-		fmt.Fprintln(tw, m.Label+"\t"+strings.Join(m.Max.cells(), "\t")+"\t"+strings.Join(m.Min.cells(), "\t"))
+		fmt.Fprintln(tw, safetext.Cell(m.Label)+"\t"+strings.Join(m.Max.cells(), "\t")+"\t"+strings.Join(m.Min.cells(), "\t"))
 	}
 	if err := tw.Flush(); err != nil {
 		return err
@@ -206,6 +207,8 @@ func envelopeCSV(w io.Writer, doc envelopeDoc) error {
 		}
 		return strconv.FormatFloat(*p, 'g', 10, 64)
 	}
+	// Train names come from train files: text cells, kept from a spreadsheet's formulas.
+	text := safetext.CSVCell
 	for _, m := range doc.Members {
 		for _, s := range []struct {
 			sense string
@@ -215,7 +218,7 @@ func envelopeCSV(w io.Writer, doc envelopeDoc) error {
 			if s.e.Count > 0 {
 				count = strconv.Itoa(s.e.Count)
 			}
-			_ = cw.Write([]string{m.Label, m.Kind, s.sense, strconv.FormatFloat(s.e.Value, 'g', 10, 64), s.e.Train, num(s.e.HeadM), s.e.Direction, count, num(s.e.LoadedFromM), num(s.e.LoadedToM), num(s.e.TrailingM)})
+			_ = cw.Write([]string{text(m.Label), text(m.Kind), s.sense, strconv.FormatFloat(s.e.Value, 'g', 10, 64), text(s.e.Train), num(s.e.HeadM), text(s.e.Direction), count, num(s.e.LoadedFromM), num(s.e.LoadedToM), num(s.e.TrailingM)})
 		}
 	}
 	cw.Flush()

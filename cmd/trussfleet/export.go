@@ -12,6 +12,7 @@ import (
 	"strings"
 
 	"github.com/spf13/cobra"
+	"github.com/trussfleet/trussfleet/internal/safetext"
 	"github.com/trussfleet/trussfleet/screening/report"
 	"github.com/trussfleet/trussfleet/store"
 )
@@ -188,7 +189,9 @@ func memberRecord(m store.FlaggedMember, d digits) []string {
 		m.Direction, d.opt(m.FromM, 3), d.opt(m.ToM, 3)}
 }
 
-// writeCSV writes a caution line, a header and the records.
+// writeCSV writes a caution line, a header and the records. Every cell of a column that is
+// not numeric is text, much of it from the inventory, and goes through safetext.CSVCell so
+// that a spreadsheet does not run it; numeric cells are written as they are.
 func writeCSV(w io.Writer, header []string, records [][]string) error {
 	if _, err := fmt.Fprintf(w, "# %s\n", caution); err != nil {
 		return err
@@ -197,9 +200,19 @@ func writeCSV(w io.Writer, header []string, records [][]string) error {
 	if err := cw.Write(header); err != nil {
 		return err
 	}
-	if err := cw.WriteAll(records); err != nil {
-		return err
+	cells := make([]string, len(header))
+	for _, rec := range records {
+		for i, v := range rec {
+			if !numericColumns[header[i]] {
+				v = safetext.CSVCell(v)
+			}
+			cells[i] = v
+		}
+		if err := cw.Write(cells); err != nil {
+			return err
+		}
 	}
+	cw.Flush()
 	return cw.Error()
 }
 

@@ -8,6 +8,7 @@ import (
 
 	"github.com/spf13/cobra"
 	"github.com/trussfleet/trussfleet/importers"
+	"github.com/trussfleet/trussfleet/internal/safetext"
 	"github.com/trussfleet/trussfleet/store"
 )
 
@@ -58,6 +59,7 @@ func printImport(w io.Writer, r importers.Result) {
 			r.File, c.Rows, c.Inserted, c.Updated, c.Unchanged, r.BatchID, r.SHA256)
 	}
 	if len(r.Ignored) > 0 {
-		fmt.Fprintf(w, "  columns not used by trussfleet, ignored: %s\n", strings.Join(r.Ignored, ", "))
+		// The names are the file's own header text.
+		fmt.Fprintf(w, "  columns not used by trussfleet, ignored: %s\n", safetext.Terminal(strings.Join(r.Ignored, ", ")))
 	}
 }

@@ -10,6 +10,7 @@ import (
 	"text/tabwriter"
 
 	"github.com/spf13/cobra"
+	"github.com/trussfleet/trussfleet/internal/safetext"
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/truss"
 )
@@ -160,7 +161,7 @@ func linesCSV(w io.Writer, l *analysis.Lines) error {
 	_ = cw.Write([]string{"member", "kind", "x_m", "ordinate"})
 	for _, m := range l.Members {
 		for i, o := range m.Ordinates {
-			_ = cw.Write([]string{m.Label, string(m.Kind), strconv.FormatFloat(l.X[i], 'g', -1, 64), strconv.FormatFloat(clean(o), 'g', 10, 64)})
+			_ = cw.Write([]string{safetext.CSVCell(m.Label), safetext.CSVCell(string(m.Kind)), strconv.FormatFloat(l.X[i], 'g', -1, 64), strconv.FormatFloat(clean(o), 'g', 10, 64)})
 		}
 	}
 	cw.Flush()

@@ -9,6 +9,8 @@ import (
 	"errors"
 	"fmt"
 	"os"
+
+	"github.com/trussfleet/trussfleet/internal/safetext"
 )
 
 // exitError carries a process exit code chosen by a command (a scheduler acts on it).
@@ -23,7 +25,9 @@ func (e *exitError) Unwrap() error { return e.err }
 func main() {
 	root := newRootCmd()
 	if err := root.Execute(); err != nil {
-		fmt.Fprintln(os.Stderr, "trussfleet:", err)
+		// Messages quote inventory text (a bridge ID, a value of a file), so they are written
+		// through safetext, line by line.
+		fmt.Fprintln(os.Stderr, "trussfleet:", safetext.TerminalLines(err.Error()))
 		var ee *exitError
 		if errors.As(err, &ee) {
 			os.Exit(ee.code)

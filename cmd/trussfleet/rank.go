@@ -8,6 +8,7 @@ import (
 	"text/tabwriter"
 
 	"github.com/spf13/cobra"
+	"github.com/trussfleet/trussfleet/internal/safetext"
 	"github.com/trussfleet/trussfleet/screening/report"
 	"github.com/trussfleet/trussfleet/store"
 )
@@ -37,35 +38,40 @@ func newRankCmd(a *app) *cobra.Command {
 	return cmd
 }
 
-// printRanked prints a priority list for a person.
+// printRanked prints a priority list for a person. Inventory text goes through
+// safetext.Cell: no control characters, and at most safetext.CellRunes runes a cell.
 func printRanked(w io.Writer, run store.Run, rows []report.BridgeRow) error {
 	fmt.Fprintf(w, "Priority list, run %d (%s, started %s)\n\n", run.ID, run.Status, run.StartedAt.Format("2006-01-02 15:04"))
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "rank\tbridge\tname\tline\tkm\ttype\tspan m\tworst\tRF ex\tRF pr\tchange\tdemand +\theadroom\tflags\tgoverning train (where)\tinspected")
+	cell, cut := safetext.Cell, false
 	for _, r := range rows {
-		flags := flagsText(r)
+		cut = cut || r.Status == "failed" && cell(r.Error) != safetext.Terminal(r.Error)
 		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%.1f\t%s\t%s\t%s\t%s\t%.0f%%\t%s\t%s\t%s\t%s\n",
-			r.Rank, r.BridgeID, r.Name, r.Line, fmtOpt(r.ChainageKm, "%.3f"), r.TrussType, r.SpanM, r.WorstMember,
+			r.Rank, cell(r.BridgeID), cell(r.Name), cell(r.Line), fmtOpt(r.ChainageKm, "%.3f"), cell(r.TrussType), r.SpanM, cell(r.WorstMember),
 			fmtRF(r.RFExisting), fmtRF(r.RFProposed), fmtPct(r.Change), 100*r.DemandIncrease, fmtOpt(r.Headroom, "%.2f×"),
-			flags, governing(r.GoverningTrain, r.GoverningSense, r.GoverningDirection, r.GoverningHeadM), r.LastInspected)
+			flagsText(r), governing(r.GoverningTrain, r.GoverningSense, r.GoverningDirection, r.GoverningHeadM), cell(r.LastInspected))
 	}
 	if err := tw.Flush(); err != nil {
 		return err
 	}
 	if failed := countFailed(rows); failed > 0 {
 		fmt.Fprintf(w, "\n%d bridges could not be screened (listed last, NOT SCREENED): they are not cleared; fix their data and run again.\n", failed)
+		if cut {
+			fmt.Fprintf(w, "Reasons longer than %d characters are cut short here; trussfleet export writes them in full.\n", safetext.CellRunes)
+		}
 	}
 	fmt.Fprintln(w)
 	printCaution(w)
 	return nil
 }
 
-// flagsText is a row's flags, or why its bridge was not screened.
+// flagsText is a table cell of a row's flags, or of why its bridge was not screened.
 func flagsText(r report.BridgeRow) string {
 	if r.Status == "failed" {
-		return "NOT SCREENED: " + r.Error
+		return "NOT SCREENED: " + safetext.Cell(r.Error)
 	}
-	return strings.Join(r.Flags, ",")
+	return safetext.Cell(strings.Join(r.Flags, ","))
 }
 
 func countFailed(rows []report.BridgeRow) int {
@@ -104,5 +110,5 @@ func governing(train, sense, dir string, head *float64) string {
 	if train == "" {
 		return "—"
 	}
-	return fmt.Sprintf("%s, %s, head at %s m, %s", train, sense, fmtOpt(head, "%.1f"), dir)
+	return fmt.Sprintf("%s, %s, head at %s m, %s", safetext.Cell(train), safetext.Cell(sense), fmtOpt(head, "%.1f"), safetext.Cell(dir))
 }

@@ -10,6 +10,7 @@ import (
 	"text/tabwriter"
 
 	"github.com/spf13/cobra"
+	"github.com/trussfleet/trussfleet/internal/safetext"
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/store"
 )
@@ -111,9 +112,13 @@ func (a *app) showRun(ctx context.Context, w io.Writer, db *store.DB, id int64) 
 	if r.BaseRunID != nil {
 		fmt.Fprintf(w, "Unchanged bridges carried forward from run %d\n", *r.BaseRunID)
 	}
-	fmt.Fprintf(w, "Existing traffic: %s\nProposed traffic: %s\n", strings.Join(screening.TrainNames(plan.Existing), ", "), strings.Join(screening.TrainNames(plan.Proposed), ", "))
+	// Train names come from train files: written through safetext.
+	names := func(refs []screening.TrainRef) string {
+		return safetext.Terminal(strings.Join(screening.TrainNames(refs), ", "))
+	}
+	fmt.Fprintf(w, "Existing traffic: %s\nProposed traffic: %s\n", names(plan.Existing), names(plan.Proposed))
 	if len(plan.References) > 0 {
-		fmt.Fprintf(w, "Reference trains of stored ratings: %s\n", strings.Join(screening.TrainNames(plan.References), ", "))
+		fmt.Fprintf(w, "Reference trains of stored ratings: %s\n", names(plan.References))
 	}
 	fmt.Fprintf(w, "Dynamic allowance %s; rating %s; flag below %.2f, review below %.2f, worse beyond %.0f %%\n",
 		plan.Dynamic, plan.Method, plan.Flag, plan.Review, 100*plan.Worse)
@@ -172,9 +177,10 @@ func printDiff(w io.Writer, ids [2]int64, changes []store.BridgeChange) error {
 		fmt.Fprintf(w, "\n%s:\n", g.title)
 		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 		fmt.Fprintf(tw, "bridge\tname\trank %d\trank %d\tRF %d\tRF %d\tflags %d\tflags %d\n", ids[0], ids[1], ids[0], ids[1], ids[0], ids[1])
+		cell := safetext.Cell
 		for _, c := range g.rows {
-			fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\n", c.BridgeID, c.Name, rankText(c.RankA, c.StatusA), rankText(c.RankB, c.StatusB),
-				fmtRF(c.RFA), fmtRF(c.RFB), strings.Join(c.FlagsA, ","), strings.Join(c.FlagsB, ","))
+			fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\n", cell(c.BridgeID), cell(c.Name), rankText(c.RankA, c.StatusA), rankText(c.RankB, c.StatusB),
+				fmtRF(c.RFA), fmtRF(c.RFB), cell(strings.Join(c.FlagsA, ",")), cell(strings.Join(c.FlagsB, ",")))
 		}
 		if err := tw.Flush(); err != nil {
 			return err

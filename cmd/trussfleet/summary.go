@@ -6,11 +6,13 @@ import (
 	"io"
 	"text/tabwriter"
 
+	"github.com/trussfleet/trussfleet/internal/safetext"
 	"github.com/trussfleet/trussfleet/screening/rating"
 	"github.com/trussfleet/trussfleet/store"
 )
 
-// printSummary prints a run's counts per flag and its ten highest-priority bridges.
+// printSummary prints a run's counts per flag and its ten highest-priority bridges; inventory
+// text goes through safetext.
 func (a *app) printSummary(ctx context.Context, db *store.DB, w io.Writer, id int64) error {
 	run, err := db.GetRun(ctx, id)
 	if err != nil {
@@ -38,9 +40,9 @@ func (a *app) printSummary(ctx context.Context, db *store.DB, w io.Writer, id in
 	fmt.Fprintln(w, "\nTop of the priority list:")
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "rank\tbridge\tname\tworst member\tRF existing\tRF proposed\tflags")
+	cell := safetext.Cell
 	for _, r := range rows {
-		flags := flagsText(r)
-		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%s\n", r.Rank, r.BridgeID, r.Name, r.WorstMember, fmtRF(r.RFExisting), fmtRF(r.RFProposed), flags)
+		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%s\n", r.Rank, cell(r.BridgeID), cell(r.Name), cell(r.WorstMember), fmtRF(r.RFExisting), fmtRF(r.RFProposed), flagsText(r))
 	}
 	if err := tw.Flush(); err != nil {
 		return err
@@ -62,7 +64,7 @@ func printFailed(ctx context.Context, db *store.DB, w io.Writer, id int64) error
 	}
 	fmt.Fprintf(w, "\n%d bridges could not be screened (not cleared: fix their data and run again):\n", n)
 	for _, f := range failed {
-		fmt.Fprintf(w, "  %s %s: %s\n", f.BridgeID, f.Name, f.Error)
+		fmt.Fprintf(w, "  %s %s: %s\n", safetext.Terminal(f.BridgeID), safetext.Terminal(f.Name), safetext.Terminal(f.Error))
 	}
 	if n > len(failed) {
 		fmt.Fprintf(w, "  ... and %d more (trussfleet rank lists them all)\n", n-len(failed))

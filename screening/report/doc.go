@@ -19,7 +19,14 @@
 // shown beside them as 1 + I.
 //
 // Every text from the inventory passes through html/template's contextual escaping; the
-// package builds no markup by string concatenation. Input arguments are never modified.
+// package builds no markup by string concatenation. Where inventory text stands on its own
+// (IDs, names, lines, member labels, trains, reasons) it sits in a <bdi> element, so that a
+// name in a right-to-left script does not reorder the text around it; and every
+// bidirectional override, embedding or isolate character in a page is written as a visible
+// escape such as ‹U+202E› (package safetext), so that none can reorder what follows it. The
+// drawings' SVG text is the rebuilt geometry's (joint names, member labels) and numbers. The
+// terminal explanation writes inventory text through safetext.Terminal. Input arguments are
+// never modified.
 //
 // Screening is not a load rating: every page and every explanation carries that caution.
 package report

@@ -7,6 +7,7 @@ import (
 	"strings"
 	"text/tabwriter"
 
+	"github.com/trussfleet/trussfleet/internal/safetext"
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/traffic"
@@ -18,10 +19,10 @@ import (
 // it stood (every train of the run's scenarios where run.Trains holds their definitions, the
 // governing ones otherwise), the dynamic allowance, the loads of the governing placement
 // with their sum, the rating arithmetic and why the member is flagged. Texts from the
-// inventory are written with control characters removed.
+// inventory are written through safetext.Terminal (safetext.Cell in tables).
 func Explain(w io.Writer, run Run, b Bridge, member string) error {
 	if b.Row.Status == "failed" {
-		return fmt.Errorf("bridge %s was not screened in run %d: %s", plain(b.Row.BridgeID), run.ID, plain(b.Row.Error))
+		return fmt.Errorf("bridge %s was not screened in run %d: %s", safetext.Terminal(b.Row.BridgeID), run.ID, safetext.Terminal(b.Row.Error))
 	}
 	idx := -1
 	for i, m := range b.Members {
@@ -31,7 +32,7 @@ func Explain(w io.Writer, run Run, b Bridge, member string) error {
 	}
 	t, err := truss.Build(b.Truss)
 	if err != nil {
-		return fmt.Errorf("bridge %s: rebuilding its %s geometry: %w", b.Row.BridgeID, b.Truss.Type, err)
+		return fmt.Errorf("bridge %s: rebuilding its %s geometry: %w", safetext.Terminal(b.Row.BridgeID), safetext.Terminal(b.Truss.Type), err)
 	}
 	if idx < 0 {
 		labels := make([]string, len(b.Members))
@@ -41,15 +42,15 @@ func Explain(w io.Writer, run Run, b Bridge, member string) error {
 		if len(labels) == 0 {
 			labels = t.Labels()
 		}
-		return fmt.Errorf("bridge %s has no member %q; its members: %s", plain(b.Row.BridgeID), plain(member), strings.Join(labels, ", "))
+		return fmt.Errorf("bridge %s has no member %q; its members: %s", safetext.Terminal(b.Row.BridgeID), safetext.Terminal(member), safetext.Terminal(strings.Join(labels, ", ")))
 	}
 	k := t.Member(member)
 	if k < 0 {
-		return fmt.Errorf("bridge %s: member %q is not in the rebuilt %s geometry (members: %s)", plain(b.Row.BridgeID), plain(member), t.Params.Type, strings.Join(t.Labels(), ", "))
+		return fmt.Errorf("bridge %s: member %q is not in the rebuilt %s geometry (members: %s)", safetext.Terminal(b.Row.BridgeID), safetext.Terminal(member), t.Params.Type, strings.Join(t.Labels(), ", "))
 	}
 	lines, err := analysis.InfluenceLines(t, analysis.Options{})
 	if err != nil {
-		return fmt.Errorf("bridge %s: influence lines: %w", plain(b.Row.BridgeID), err)
+		return fmt.Errorf("bridge %s: influence lines: %w", safetext.Terminal(b.Row.BridgeID), err)
 	}
 	m := b.Members[idx]
 	eta := lines.Members[k].Ordinates
@@ -57,10 +58,10 @@ func Explain(w io.Writer, run Run, b Bridge, member string) error {
 	p := func(format string, a ...any) { fmt.Fprintf(ew, format, a...) }
 
 	r := b.Row
-	p("Bridge %s  %s\n", plain(r.BridgeID), plain(r.Name))
+	p("Bridge %s  %s\n", safetext.Terminal(r.BridgeID), safetext.Terminal(r.Name))
 	where := []string{}
 	if r.Line != "" {
-		where = append(where, plain(r.Line))
+		where = append(where, safetext.Terminal(r.Line))
 	}
 	if r.ChainageKm != nil {
 		where = append(where, "km "+num(*r.ChainageKm, 3))
@@ -114,7 +115,7 @@ func Explain(w io.Writer, run Run, b Bridge, member string) error {
 	}{{"existing", m.Existing}, {"proposed", m.Proposed}} {
 		p("\n%s traffic", capitalise(sc.name))
 		if names := run.Scenarios[sc.name]; len(names) > 0 {
-			p(" (%s)", plain(strings.Join(names, ", ")))
+			p(" (%s)", safetext.Terminal(strings.Join(names, ", ")))
 		}
 		p(": dynamic allowance %s gives 1 + I = %s\n", orDash(run.Dynamic), num(sc.s.Impact, 3))
 		explainTrains(ew, run, b, lines.X, eta, sc.name, sc.s)
@@ -127,12 +128,12 @@ func Explain(w io.Writer, run Run, b Bridge, member string) error {
 			if !g.e.Loaded || g.e.Value == 0 {
 				continue
 			}
-			p("  governing %s: %s kN, %s, %s\n", g.sense, signed(g.e.Value, 1), plain(orDash(g.e.Train)), placementWords(g.e, g.tr))
+			p("  governing %s: %s kN, %s, %s\n", g.sense, signed(g.e.Value, 1), safetext.Terminal(orDash(g.e.Train)), placementWords(g.e, g.tr))
 			if g.tr != nil && sc.name == "proposed" && g.sign == governing(m) {
 				if e, ok := placementOf(g.tr, g.e, lines.X, eta, shareOf(b), g.sign); ok {
 					explainLoads(ew, g.tr, e, t.SpanM(), lines.X, eta, g.sign, shareOf(b))
 				} else {
-					p("    (train %s as now defined does not give this force: it has changed since the run)\n", plain(g.e.Train))
+					p("    (train %s as now defined does not give this force: it has changed since the run)\n", safetext.Terminal(g.e.Train))
 				}
 			}
 		}
@@ -152,7 +153,7 @@ func Explain(w io.Writer, run Run, b Bridge, member string) error {
 	_ = tw.Flush()
 	p("  * the lowest RF of the traffic\n")
 	if m.StoredRF != nil {
-		p("  rated by the load-effect ratio from the stored RF %s for %s: RF = RF_ref x L_ref(1 + I) / (L(1 + I))\n", num(*m.StoredRF, 2), plain(orDash(m.ReferenceTrain)))
+		p("  rated by the load-effect ratio from the stored RF %s for %s: RF = RF_ref x L_ref(1 + I) / (L(1 + I))\n", num(*m.StoredRF, 2), safetext.Terminal(orDash(m.ReferenceTrain)))
 	}
 	p("  existing RF %s, proposed RF %s", rfText(m.RFExisting), rfText(m.RFProposed))
 	if m.SenseProposed != "" {
@@ -192,11 +193,11 @@ func explainTrains(w io.Writer, run Run, b Bridge, xs, eta []float64, scenario s
 	for _, tr := range trains {
 		ex, err := envelope.Compute(xs, [][]float64{eta}, tr, envelope.Options{Share: shareOf(b)})
 		if err != nil {
-			fmt.Fprintf(tw, "  %s\t%s\t\t\t\t\n", plain(tr.Name), err)
+			fmt.Fprintf(tw, "  %s\t%s\t\t\t\t\n", safetext.Cell(tr.Name), err)
 			continue
 		}
 		e := ex[0]
-		fmt.Fprintf(tw, "  %s\t%s\t%s\t%s\t%s\t\n", plain(tr.Name), signed(e.Max.Value, 1), placementWords(e.Max, tr), signed(e.Min.Value, 1), placementWords(e.Min, tr))
+		fmt.Fprintf(tw, "  %s\t%s\t%s\t%s\t%s\t\n", safetext.Cell(tr.Name), signed(e.Max.Value, 1), placementWords(e.Max, tr), signed(e.Min.Value, 1), placementWords(e.Min, tr))
 	}
 	_ = tw.Flush()
 }
@@ -267,17 +268,6 @@ func capitalise(s string) string {
 		return s
 	}
 	return strings.ToUpper(s[:1]) + s[1:]
-}
-
-// plain removes control characters (terminal escape sequences among them) from inventory
-// text written to a terminal.
-func plain(s string) string {
-	return strings.Map(func(r rune) rune {
-		if r < 0x20 || r == 0x7f || (r >= 0x80 && r < 0xa0) {
-			return -1
-		}
-		return r
-	}, s)
 }
 
 // errWriter keeps the first write error so that the explanation reads straight through.

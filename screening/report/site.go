@@ -17,6 +17,7 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/trussfleet/trussfleet/internal/safetext"
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/traffic"
@@ -175,12 +176,20 @@ func writeAll(dir string, run Run, rows []BridgeRow, bridge func(id string) (Bri
 	})
 }
 
+// writeFile renders a page and writes it. The templates and the program's own words hold no
+// bidirectional control character, so every one in a page came from the inventory: each is
+// written as a visible escape (safetext.ShowBidi), in text, titles and attributes alike,
+// and cannot reorder what follows it.
 func writeFile(path string, render func(io.Writer) error) error {
 	var buf bytes.Buffer
 	if err := render(&buf); err != nil {
 		return fmt.Errorf("%s: %w", filepath.Base(path), err)
 	}
-	return os.WriteFile(path, buf.Bytes(), 0o644)
+	page := buf.Bytes()
+	if bytes.ContainsFunc(page, safetext.IsBidi) {
+		page = []byte(safetext.ShowBidi(string(page)))
+	}
+	return os.WriteFile(path, page, 0o644)
 }
 
 // hasPage says whether a row gets a bridge page: screened, with a flag.
@@ -377,7 +386,9 @@ func rfClass(run Run, rf *float64) string {
 
 type bridgeView struct {
 	pageBase
-	Row        BridgeRow
+	Row BridgeRow
+	// Where is the bridge's chainage and rank, after its line (Row.Line), which the page
+	// isolates as inventory text.
 	Where      string
 	Facts      []keyValue
 	Problem    string
@@ -416,9 +427,6 @@ func bridgePage(run Run, b Bridge) bridgeView {
 	v := bridgeView{pageBase: base(run, fmt.Sprintf("%s %s: screening run %d", r.BridgeID, r.Name, run.ID)), Row: r, Bands: bands(run), Equation: equation(run)}
 	v.BodyClass = "bridge"
 	where := []string{}
-	if r.Line != "" {
-		where = append(where, r.Line)
-	}
 	if r.ChainageKm != nil {
 		where = append(where, "km "+num(*r.ChainageKm, 3))
 	}

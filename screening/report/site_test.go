@@ -229,6 +229,81 @@ func TestEscapesInventoryText(t *testing.T) {
 	}
 }
 
+// bidiControls are the bidirectional embedding, override and isolate characters
+// U+202A–U+202E and U+2066–U+2069 (common practice: Unicode UAX #9, the characters that
+// reorder the text after them).
+const bidiControls = "\u202A\u202B\u202C\u202D\u202E\u2066\u2067\u2068\u2069"
+
+// TestIsolatesBidiText shows that a right-to-left override in inventory text does not act on
+// the page: every such character is written as a visible escape, and the names stand in
+// <bdi> elements.
+func TestIsolatesBidiText(t *testing.T) {
+	const (
+		name    = "Mill Lane \u202Eexe.1 FR"
+		shown   = "Mill Lane ‹U+202E›exe.1 FR"
+		line    = "Quarnmoss \u2067Loop\u2069"
+		shownLn = "Quarnmoss ‹U+2067›Loop‹U+2069›"
+		id      = "NER-9\u202E0001"
+	)
+	b := pratt48(t, id, name, 0.9)
+	b.Line = line
+	f := screenFleet(t, []invented{b})
+	f.Run.Scenarios = map[string][]string{"existing": demoTrains["existing"], "proposed": {"Fell \u202Dfreight"}}
+	d := f.Bridges[id]
+	d.Members = append([]Member(nil), d.Members...)
+	label := d.Members[0].Label
+	d.Members[0].Label += "\u202E"
+	f.Bridges[id] = d
+	dir := filepath.Join(t.TempDir(), "report")
+	if err := WriteSite(dir, f.Run, f.Rows, f.bridge); err != nil {
+		t.Fatal(err)
+	}
+	pages, _ := filepath.Glob(filepath.Join(dir, "*.html"))
+	if len(pages) != 2 {
+		t.Fatalf("want index and one bridge page, got %v", pages)
+	}
+	title := regexp.MustCompile(`(?s)<title>.*?</title>`)
+	for _, p := range pages {
+		page := readFile(t, p)
+		if i := strings.IndexAny(page, bidiControls); i >= 0 {
+			t.Errorf("%s holds a raw bidirectional control near %q", filepath.Base(p), page[max(0, i-40):min(len(page), i+40)])
+		}
+		// The <title> cannot hold elements; everywhere else the name and the line are
+		// isolated.
+		body := title.ReplaceAllString(page, "")
+		for _, text := range []string{shown, shownLn} {
+			all, isolated := strings.Count(body, text), strings.Count(body, "<bdi>"+text+"</bdi>")
+			if all == 0 || all != isolated {
+				t.Errorf("%s shows %q %d times, %d of them in <bdi>", filepath.Base(p), text, all, isolated)
+			}
+		}
+	}
+	bridgePages, _ := filepath.Glob(filepath.Join(dir, "bridge-*.html"))
+	if len(bridgePages) != 1 {
+		t.Fatalf("bridge pages %v", bridgePages)
+	}
+	rows := memRow.FindAllStringSubmatch(readFile(t, bridgePages[0]), -1)
+	if len(rows) == 0 {
+		t.Fatal("the bridge page has no member rows")
+	}
+	if !regexp.MustCompile(`^\s*<td><bdi>(<a [^>]*>)?` + regexp.QuoteMeta(label+"‹U+202E›") + `(</a>)?</bdi></td>`).MatchString(rows[0][2]) {
+		t.Errorf("the member label with an override is not escaped and in <bdi>: %q", rows[0][2])
+	}
+	index := readFile(t, filepath.Join(dir, "index.html"))
+	if !strings.Contains(index, "<bdi>Fell ‹U+202D›freight</bdi>") {
+		t.Errorf("index does not show the train name escaped and isolated")
+	}
+
+	// The terminal explanation escapes the override too.
+	var sb strings.Builder
+	if err := Explain(&sb, f.Run, f.Bridges[id], "L3-L4"); err != nil {
+		t.Fatal(err)
+	}
+	if strings.ContainsAny(sb.String(), bidiControls) || !strings.Contains(sb.String(), shown) {
+		t.Errorf("explanation: %q", strings.SplitN(sb.String(), "\n", 2)[0])
+	}
+}
+
 func TestWriteSiteReplacesOnlyItsOwn(t *testing.T) {
 	f := smallFleet(t)
 	parent := t.TempDir()
