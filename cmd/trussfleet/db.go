@@ -80,9 +80,11 @@ database start it; it keeps running for the next command until 'trussfleet db st
 				return nil
 			}},
 		&cobra.Command{Use: "url", Short: "Print a connection string (psql accepts it), starting the embedded server if needed", Args: cobra.NoArgs,
+			Long: `url prints the connection string of the embedded server, starting it if needed, or the
+configured database URL with any password shown as xxxxx: trussfleet prints no password.`,
 			RunE: func(cmd *cobra.Command, _ []string) error {
 				if a.cfg.Database.URL != "" {
-					fmt.Fprintln(cmd.OutOrStdout(), a.cfg.Database.URL)
+					fmt.Fprintln(cmd.OutOrStdout(), store.RedactConnString(a.cfg.Database.URL))
 					return nil
 				}
 				srv, err := a.embedded(io.Discard)
