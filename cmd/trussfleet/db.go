@@ -19,7 +19,8 @@ func newDBCmd(a *app) *cobra.Command {
 		Long: `trussfleet keeps its inventory and results in PostgreSQL. With no database URL configured
 (--database-url, TRUSSFLEET_DATABASE_URL or database.url) it runs a private server of its own
 from the machine's PostgreSQL binaries, in the data directory (--data-dir, default
-$XDG_DATA_HOME/trussfleet/pg), listening on a Unix socket only. Commands that need the
+$XDG_DATA_HOME/trussfleet/pg), listening on a Unix socket only and letting in only the
+operating-system user who runs trussfleet (peer authentication). Commands that need the
 database start it; it keeps running for the next command until 'trussfleet db stop'.`,
 	}
 	cmd.AddCommand(
