@@ -75,10 +75,10 @@ func Open(ctx context.Context, opts Options) (*DB, error) {
 		}
 		db.Server, db.URL = srv, srv.URL(pgserver.Database)
 	}
+	// Every error below may quote the URL, and the URL may hold a password.
 	cfg, err := pgxpool.ParseConfig(db.URL)
 	if err != nil {
-		// The URL may hold a password: name the problem, not the string.
-		return nil, fmt.Errorf("database URL: %w", err)
+		return nil, RedactError(fmt.Errorf("database URL: %w", err), db.URL)
 	}
 	if opts.MaxConns > 0 {
 		cfg.MaxConns = opts.MaxConns
@@ -93,11 +93,11 @@ func Open(ctx context.Context, opts Options) (*DB, error) {
 	}
 	pool, err := pgxpool.NewWithConfig(ctx, cfg)
 	if err != nil {
-		return nil, fmt.Errorf("opening database: %w", err)
+		return nil, RedactError(fmt.Errorf("opening database: %w", err), db.URL)
 	}
 	if err := pool.Ping(ctx); err != nil {
 		pool.Close()
-		return nil, fmt.Errorf("connecting to database %s on %s: %w", cfg.ConnConfig.Database, cfg.ConnConfig.Host, err)
+		return nil, RedactError(fmt.Errorf("connecting to database %s on %s: %w", cfg.ConnConfig.Database, cfg.ConnConfig.Host, err), db.URL)
 	}
 	db.Pool = pool
 	return db, nil

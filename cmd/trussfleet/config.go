@@ -73,6 +73,16 @@ type DatabaseConfig struct {
 	DataDir string `mapstructure:"data_dir"`
 }
 
+// Redacted is the configuration as a run stores it: the database URL with its password
+// replaced by xxxxx (store.RedactConnString), so that whoever can read the runs cannot read
+// the password. The URL is kept otherwise, to record which server a run used; a password
+// never changes a result, so the configuration hash does not depend on it either. The
+// receiver is not modified.
+func (c Config) Redacted() Config {
+	c.Database.URL = store.RedactConnString(c.Database.URL)
+	return c
+}
+
 // flagKeys maps persistent and command flags to configuration keys.
 var flagKeys = map[string]string{
 	"database-url": "database.url",

@@ -19,7 +19,8 @@ func newDBCmd(a *app) *cobra.Command {
 		Long: `trussfleet keeps its inventory and results in PostgreSQL. With no database URL configured
 (--database-url, TRUSSFLEET_DATABASE_URL or database.url) it runs a private server of its own
 from the machine's PostgreSQL binaries, in the data directory (--data-dir, default
-$XDG_DATA_HOME/trussfleet/pg), listening on a Unix socket only. Commands that need the
+$XDG_DATA_HOME/trussfleet/pg), listening on a Unix socket only and letting in only the
+operating-system user who runs trussfleet (peer authentication). Commands that need the
 database start it; it keeps running for the next command until 'trussfleet db stop'.`,
 	}
 	cmd.AddCommand(
@@ -80,9 +81,11 @@ database start it; it keeps running for the next command until 'trussfleet db st
 				return nil
 			}},
 		&cobra.Command{Use: "url", Short: "Print a connection string (psql accepts it), starting the embedded server if needed", Args: cobra.NoArgs,
+			Long: `url prints the connection string of the embedded server, starting it if needed, or the
+configured database URL with any password shown as xxxxx: trussfleet prints no password.`,
 			RunE: func(cmd *cobra.Command, _ []string) error {
 				if a.cfg.Database.URL != "" {
-					fmt.Fprintln(cmd.OutOrStdout(), a.cfg.Database.URL)
+					fmt.Fprintln(cmd.OutOrStdout(), store.RedactConnString(a.cfg.Database.URL))
 					return nil
 				}
 				srv, err := a.embedded(io.Discard)

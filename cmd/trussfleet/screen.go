@@ -102,7 +102,7 @@ func (a *app) screenWith(ctx context.Context, db *store.DB, out, errw io.Writer,
 		if err != nil {
 			return err
 		}
-		id, err = wc.CreateRun(ctx, store.NewRun{ProgramVersion: version, Config: a.cfg, Plan: plan,
+		id, err = wc.CreateRun(ctx, store.NewRun{ProgramVersion: version, Config: a.cfg.Redacted(), Plan: plan,
 			PlanHash: plan.Hash(), ChunkSize: s.ChunkSize, Changed: changed})
 		if err != nil {
 			return err

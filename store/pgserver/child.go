@@ -78,7 +78,7 @@ func (s *Server) RunChild(ctx context.Context) (*Child, error) {
 		c.Stop()
 		return nil, err
 	}
-	if err := s.ensureDatabase(ctx); err != nil {
+	if err := s.setUp(ctx); err != nil {
 		c.Stop()
 		return nil, err
 	}

@@ -3,9 +3,16 @@
 //
 // A Server owns one data directory. Start creates it with initdb on first use, then starts
 // the server with pg_ctl; later runs find it running, or start it again, and reuse its data.
-// The server listens on a Unix socket only (a TCP port on localhost only when asked), and
-// trusts local connections: the socket lives in a directory only the server's own account
-// can enter, so the protection is the file system's.
+// The server listens on a Unix socket only (a TCP port on localhost only when asked), in a
+// directory only the server's own account can enter, and lets in one operating-system user:
+// the one running trussfleet. At every start trussfleet writes the server's authentication
+// files (auth.go): peer authentication on the socket, whose map admits only this process's
+// effective user, as the role trussfleet, so that even the server's own account ("postgres"
+// or "nobody" when trussfleet runs as root) is refused; and on TCP, scram-sha-256 with a
+// random password in a file only that user can read (PasswordFile, named by TCPURL). A
+// cluster made by an older trussfleet, whose pg_hba.conf trusted every local connection,
+// gets the same protection at its next start; initdb now writes a pg_hba.conf that refuses
+// everybody, in force only if the server is started without trussfleet's settings.
 //
 // Things that bite, and what this package does about them:
 //

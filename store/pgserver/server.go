@@ -15,6 +15,7 @@ import (
 	"time"
 
 	"github.com/jackc/pgx/v5"
+	"github.com/jackc/pgx/v5/pgconn"
 )
 
 // Names the embedded server is set up with.
@@ -22,7 +23,7 @@ const (
 	// Port is the port number of the socket (the file is .s.PGSQL.<Port>) unless a TCP port
 	// is set; with TCP off it is only a name, so it never collides with another server.
 	Port = 5432
-	// Role is the superuser initdb creates; local connections are trusted.
+	// Role is the superuser initdb creates, the one role anybody may log in as (auth.go).
 	Role = "trussfleet"
 	// Database is the database Start creates for trussfleet's own use.
 	Database = "trussfleet"
@@ -51,8 +52,9 @@ type Options struct {
 	BinDir string
 	// SearchPath is a PATH-style list of directories to look for the binaries in.
 	SearchPath string
-	// TCPPort, when not 0, also listens on localhost at this port (trust authentication:
-	// any local user may connect). 0: Unix socket only.
+	// TCPPort, when not 0, also listens on localhost at this port, where the role
+	// trussfleet logs in with the random password of PasswordFile (scram-sha-256); TCPURL
+	// names the file. 0: Unix socket only.
 	TCPPort int
 	// RunAs names the user to run the server as when the caller is root; empty: "postgres"
 	// where it exists, else "nobody".
@@ -162,7 +164,7 @@ func (s *Server) Start(ctx context.Context) error {
 	}
 	defer unlock()
 	if pid := s.runningPID(); pid > 0 {
-		return s.ensureDatabase(ctx)
+		return s.setUp(ctx)
 	}
 	if err := s.prepare(ctx); err != nil {
 		return err
@@ -174,7 +176,7 @@ func (s *Server) Start(ctx context.Context) error {
 		return fmt.Errorf("starting PostgreSQL in %s: %w%s", s.dataDir, err, tailOf(logFile))
 	}
 	s.opts.Logf("pgserver: started PostgreSQL (%s) in %s as user %s, socket in %s", s.binDir, s.dataDir, s.acct.name, s.sockDir)
-	return s.ensureDatabase(ctx)
+	return s.setUp(ctx)
 }
 
 // Stop shuts the server down (fast mode: sessions are disconnected, work in progress
@@ -235,6 +237,9 @@ func (s *Server) prepare(ctx context.Context) error {
 			return err
 		}
 	}
+	if err := s.writeAuthFiles(); err != nil {
+		return err
+	}
 	if err := s.writeSettings(); err != nil {
 		return err
 	}
@@ -272,7 +277,9 @@ func (s *Server) initCluster(ctx context.Context) error {
 	if err := s.acct.own(s.dataDir); err != nil {
 		return err
 	}
-	args := []string{"-D", s.dataDir, "-U", Role, "--auth=trust", "--encoding=UTF8", "--locale=C"}
+	// The cluster's own pg_hba.conf refuses everybody: trussfleet.conf replaces it with
+	// the files of auth.go, and a server started without them lets nobody in.
+	args := []string{"-D", s.dataDir, "-U", Role, "--auth=reject", "--encoding=UTF8", "--locale=C"}
 	if s.opts.Ephemeral {
 		args = append(args, "--no-sync")
 	}
@@ -345,6 +352,7 @@ func (s *Server) writeSettings() error {
 	fmt.Fprintf(&b, "listen_addresses = %s\n", listen)
 	fmt.Fprintf(&b, "unix_socket_directories = %s\n", confQuote(s.sockDir))
 	b.WriteString("unix_socket_permissions = 0700\n")
+	b.WriteString(s.authSettings())
 	if s.opts.Ephemeral {
 		b.WriteString("fsync = off\nsynchronous_commit = off\nfull_page_writes = off\nshared_buffers = 32MB\n")
 	} else {
@@ -432,13 +440,32 @@ func isPostgresFor(pid int, dataDir string) bool {
 	return false
 }
 
-// ensureDatabase creates the trussfleet database unless it exists.
-func (s *Server) ensureDatabase(ctx context.Context) error {
+// setUp readies a running server for use: it warns when the server still runs without
+// trussfleet's authentication files, creates the trussfleet database unless it exists, and
+// sets the password of the TCP listener.
+func (s *Server) setUp(ctx context.Context) error {
 	conn, err := pgx.Connect(ctx, s.URL("postgres"))
+	var pgErr *pgconn.PgError
+	if errors.As(err, &pgErr) && pgErr.Code == "28000" { // invalid_authorization_specification
+		return fmt.Errorf("the embedded server in %s lets in only the user who started it, not this one: "+
+			"run trussfleet as that user, or choose another data directory (--data-dir): %w", s.dataDir, err)
+	}
 	if err != nil {
 		return fmt.Errorf("connecting to the embedded server in %s: %w", s.dataDir, err)
 	}
 	defer conn.Close(ctx)
+	s.checkAuth(ctx, conn)
+	if err := s.ensureDatabase(ctx, conn); err != nil {
+		return err
+	}
+	if s.opts.TCPPort != 0 {
+		return s.setTCPPassword(ctx, conn)
+	}
+	return nil
+}
+
+// ensureDatabase creates the trussfleet database unless it exists.
+func (s *Server) ensureDatabase(ctx context.Context, conn *pgx.Conn) error {
 	var exists bool
 	if err := conn.QueryRow(ctx, "SELECT EXISTS (SELECT 1 FROM pg_database WHERE datname = $1)", Database).Scan(&exists); err != nil {
 		return fmt.Errorf("embedded server in %s: %w", s.dataDir, err)

@@ -56,7 +56,14 @@ func TestMain(m *testing.M) {
 // no PostgreSQL binaries. A server still running at the end is stopped.
 func newServer(t *testing.T, dataDir string, logf func(string, ...any)) *Server {
 	t.Helper()
-	s, err := New(Options{DataDir: dataDir, SearchPath: os.Getenv("PATH"), Ephemeral: true, Logf: logf})
+	return newServerWith(t, Options{DataDir: dataDir, Logf: logf})
+}
+
+// newServerWith is newServer with more options; the search path and Ephemeral are set.
+func newServerWith(t *testing.T, opts Options) *Server {
+	t.Helper()
+	opts.SearchPath, opts.Ephemeral = os.Getenv("PATH"), true
+	s, err := New(opts)
 	if err != nil {
 		if os.Getenv("CI") == "true" {
 			t.Fatalf("CI needs a PostgreSQL server: %v", err)

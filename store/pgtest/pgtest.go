@@ -164,14 +164,16 @@ func shutdown() error {
 	return nil
 }
 
+// exec runs one statement on its own connection. Its errors are redacted: the URL of
+// TRUSSFLEET_TEST_DATABASE_URL may hold a password, and test logs are often public.
 func exec(ctx context.Context, connURL, stmt string) error {
 	conn, err := pgx.Connect(ctx, connURL)
 	if err != nil {
-		return err
+		return store.RedactError(err, connURL)
 	}
 	defer conn.Close(ctx)
 	_, err = conn.Exec(ctx, stmt)
-	return err
+	return store.RedactError(err, connURL)
 }
 
 func ident(name string) string { return pgx.Identifier{name}.Sanitize() }
