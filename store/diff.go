@@ -22,9 +22,9 @@ type BridgeChange struct {
 // counts as the same as the one it was carried from).
 func (db *DB) DiffRuns(ctx context.Context, a, b int64) ([]BridgeChange, error) {
 	rows, err := db.Pool.Query(ctx, `WITH ra AS (
-			SELECT r.*, row_number() OVER (ORDER BY `+rankOrder+`) AS rank FROM run_bridges r WHERE r.run_id = $1 AND r.status <> 'pending'),
+			SELECT r.*, row_number() OVER (ORDER BY `+rankOrder+`) AS rank FROM run_picture($1) r WHERE r.status <> 'pending'),
 		rb AS (
-			SELECT r.*, row_number() OVER (ORDER BY `+rankOrder+`) AS rank FROM run_bridges r WHERE r.run_id = $2 AND r.status <> 'pending')
+			SELECT r.*, row_number() OVER (ORDER BY `+rankOrder+`) AS rank FROM run_picture($2) r WHERE r.status <> 'pending')
 		SELECT coalesce(rb.bridge_id, ra.bridge_id), coalesce(b.name, ''), ra.rank::int, rb.rank::int,
 			ra.rf_proposed, rb.rf_proposed, coalesce(ra.flags, '{}'), coalesce(rb.flags, '{}'),
 			coalesce(ra.status, ''), coalesce(rb.status, '')

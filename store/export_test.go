@@ -28,14 +28,14 @@ var (
 // EncodeMemberResults and EncodeMemberAssessments give the binary COPY stream writeResults
 // sends for results' rows (all taken as pending), written over buf's storage as a job reuses
 // its encoder's buffer.
-func EncodeMemberResults(buf []byte, runID int64, results []screening.Result) []byte {
+func EncodeMemberResults(buf []byte, setIDs []int64, results []screening.Result) []byte {
 	e := copyEncoder{buf: buf}
-	return encodeMemberResults(&e, runID, results)
+	return encodeMemberResults(&e, results, setIDs)
 }
 
-func EncodeMemberAssessments(buf []byte, runID int64, results []screening.Result) []byte {
+func EncodeMemberAssessments(buf []byte, setIDs []int64, results []screening.Result) []byte {
 	e := copyEncoder{buf: buf}
-	return encodeMemberAssessments(&e, runID, results)
+	return encodeMemberAssessments(&e, results, setIDs)
 }
 
 // CancelJob cancels a job through River's own API.

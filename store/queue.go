@@ -128,8 +128,10 @@ func (c *Client) Stop(ctx context.Context) error { return c.river.Stop(ctx) }
 func (c *Client) StopAndCancel(ctx context.Context) error { return c.river.StopAndCancel(ctx) }
 
 // CreateRun records a run, its bridges and its jobs in one transaction, and returns its id.
-// With NewRun.Changed, bridges whose input hash equals the latest completed run's are carried
-// forward with their results, and only the others get jobs.
+// A full run holds a row for every bridge and screens them all. With NewRun.Changed, the run
+// is based on the latest completed run and holds rows only for what differs from it
+// (writeDelta): bridges whose input hash equals the base run's are carried forward without a
+// row or a job, so a night in which nothing changed writes the run's own row and nothing else.
 func (c *Client) CreateRun(ctx context.Context, nr NewRun) (int64, error) {
 	cfg, err := json.Marshal(nr.Config)
 	if err != nil {
@@ -162,20 +164,20 @@ func (c *Client) CreateRun(ctx context.Context, nr NewRun) (int64, error) {
 		}
 		// The jobs hash each bridge as they load it (chunkInputs); only a run that carries
 		// unchanged bridges forward needs every hash now.
+		var total int
 		if base == nil {
-			if _, err := tx.Exec(ctx, `INSERT INTO run_bridges (run_id, bridge_id, input_hash)
-				SELECT $1, bridge_id, '' FROM bridges`, id); err != nil {
-				return err
-			}
-		} else {
-			ids, hashes, err := inputHashes(ctx, tx, nr.PlanHash)
+			tag, err := tx.Exec(ctx, `INSERT INTO run_bridges (run_id, bridge_id, input_hash)
+				SELECT $1, bridge_id, '' FROM bridges`, id)
 			if err != nil {
 				return err
 			}
-			if _, err := tx.Exec(ctx, `INSERT INTO run_bridges (run_id, bridge_id, input_hash)
-				SELECT $1, * FROM unnest($2::text[], $3::text[])`, id, ids, hashes); err != nil {
+			total = int(tag.RowsAffected())
+		} else {
+			n, err := writeDelta(ctx, tx, id, *base, nr.PlanHash)
+			if err != nil {
 				return err
 			}
+			total = n
 		}
 		// Statistics that know the new run: without them the planner takes the run for a
 		// handful of rows and reads all its pending bridges to find a job's 50 (10 ms a job
@@ -183,11 +185,6 @@ func (c *Client) CreateRun(ctx context.Context, nr NewRun) (int64, error) {
 		// rows, a few milliseconds at any size.
 		if _, err := tx.Exec(ctx, "ANALYZE run_bridges"); err != nil {
 			return err
-		}
-		if base != nil {
-			if err := carryForward(ctx, tx, id, *base); err != nil {
-				return err
-			}
 		}
 		rows, err := tx.Query(ctx, `SELECT bridge_id FROM run_bridges WHERE run_id = $1 AND status = 'pending'
 			ORDER BY bridge_id`, id)
@@ -201,45 +198,15 @@ func (c *Client) CreateRun(ctx context.Context, nr NewRun) (int64, error) {
 		if err := insertChunks(ctx, c.river, tx, id, pending, chunk); err != nil {
 			return err
 		}
-		_, err = tx.Exec(ctx, `UPDATE runs SET bridges_total = (SELECT count(*) FROM run_bridges WHERE run_id = $1),
+		_, err = tx.Exec(ctx, `UPDATE runs SET bridges_total = $3,
 			status = CASE WHEN $2 THEN 'completed' ELSE status END,
-			finished_at = CASE WHEN $2 THEN now() END WHERE id = $1`, id, len(pending) == 0)
+			finished_at = CASE WHEN $2 THEN now() END WHERE id = $1`, id, len(pending) == 0, total)
 		return err
 	})
 	if err != nil {
 		return 0, fmt.Errorf("creating run: %w", err)
 	}
 	return id, nil
-}
-
-// carryForward marks the bridges whose inputs are unchanged since the base run as carried and
-// copies their results into the new run, so that the new run is a complete picture.
-func carryForward(ctx context.Context, tx pgx.Tx, id, base int64) error {
-	if _, err := tx.Exec(ctx, `UPDATE run_bridges r SET status = 'carried',
-		source_run_id = coalesce(o.source_run_id, o.run_id), error = o.error, worst_member = o.worst_member,
-		rf_existing = o.rf_existing, rf_proposed = o.rf_proposed, demand_increase = o.demand_increase,
-		headroom = o.headroom, flags = o.flags, flag_counts = o.flag_counts, governing_train = o.governing_train,
-		governing_sense = o.governing_sense, governing_head_m = o.governing_head_m,
-		governing_direction = o.governing_direction, governing_from_m = o.governing_from_m,
-		governing_to_m = o.governing_to_m, screened_at = o.screened_at
-		FROM run_bridges o
-		WHERE r.run_id = $1 AND o.run_id = $2 AND o.bridge_id = r.bridge_id AND o.input_hash = r.input_hash
-		AND o.status IN ('done', 'carried')`, id, base); err != nil {
-		return err
-	}
-	if _, err := tx.Exec(ctx, `INSERT INTO member_results SELECT $1, m.bridge_id, m.scenario, m.member, m.kind,
-		m.dead_kn, m.live_max_kn, m.live_min_kn, m.impact, m.rf_tension, m.rf_compression, m.basis, m.max_train,
-		m.max_head_m, m.max_direction, m.max_from_m, m.max_to_m, m.min_train, m.min_head_m, m.min_direction,
-		m.min_from_m, m.min_to_m, m.max_count, m.min_count
-		FROM member_results m JOIN run_bridges r ON r.run_id = $1 AND r.bridge_id = m.bridge_id AND r.status = 'carried'
-		WHERE m.run_id = $2`, id, base); err != nil {
-		return err
-	}
-	_, err := tx.Exec(ctx, `INSERT INTO member_assessments SELECT $1, m.bridge_id, m.member, m.rf_existing,
-		m.rf_proposed, m.sense_proposed, m.demand_increase, m.flags
-		FROM member_assessments m JOIN run_bridges r ON r.run_id = $1 AND r.bridge_id = m.bridge_id AND r.status = 'carried'
-		WHERE m.run_id = $2`, id, base)
-	return err
 }
 
 // QueueChunk queues one more job for bridges of a run. Bridges already written are skipped
@@ -464,4 +431,56 @@ func (db *DB) FinishRuns(ctx context.Context, runID int64) error {
 		WHERE ($1 = 0 OR r.id = $1) AND r.status IN ('running', 'interrupted')
 		AND NOT EXISTS (SELECT 1 FROM run_bridges b WHERE b.run_id = r.id AND b.status = 'pending')`, runID)
 	return err
+}
+
+// writeDelta writes the rows of a run based on base that differ from base's picture: a
+// pending row for each bridge whose input hash differs from its row there (or that has none,
+// or whose screening failed), a removed row for each bridge of base's picture gone from the
+// inventory; and marks the run incomplete (its picture continues in base's). It returns the
+// number of bridges in the inventory.
+func writeDelta(ctx context.Context, tx pgx.Tx, id, base int64, planHash string) (int, error) {
+	ids, hashes, err := inputHashes(ctx, tx, planHash)
+	if err != nil {
+		return 0, err
+	}
+	rows, err := tx.Query(ctx, `SELECT bridge_id, input_hash, status FROM run_picture($1)`, base)
+	if err != nil {
+		return 0, err
+	}
+	type held struct{ hash, status string }
+	before := map[string]held{}
+	var b, h, st string
+	if _, err := pgx.ForEachRow(rows, []any{&b, &h, &st}, func() error {
+		before[b] = held{h, st}
+		return nil
+	}); err != nil {
+		return 0, fmt.Errorf("picture of run %d: %w", base, err)
+	}
+	var changed, changedHashes []string
+	for i, b := range ids {
+		old, ok := before[b]
+		delete(before, b)
+		if ok && old.hash == hashes[i] && (old.status == "done" || old.status == "carried") {
+			continue
+		}
+		changed, changedHashes = append(changed, b), append(changedHashes, hashes[i])
+	}
+	removed := make([]string, 0, len(before))
+	for b := range before {
+		removed = append(removed, b)
+	}
+	if len(changed) > 0 {
+		if _, err := tx.Exec(ctx, `INSERT INTO run_bridges (run_id, bridge_id, input_hash)
+			SELECT $1, * FROM unnest($2::text[], $3::text[])`, id, changed, changedHashes); err != nil {
+			return 0, err
+		}
+	}
+	if len(removed) > 0 {
+		if _, err := tx.Exec(ctx, `INSERT INTO run_bridges (run_id, bridge_id, input_hash, status, screened_at)
+			SELECT $1, b, '', 'removed', now() FROM unnest($2::text[]) AS b`, id, removed); err != nil {
+			return 0, err
+		}
+	}
+	_, err = tx.Exec(ctx, "UPDATE runs SET complete = false WHERE id = $1", id)
+	return len(ids), err
 }

@@ -38,8 +38,8 @@ func (db *DB) ranked(ctx context.Context, runID int64, limit int, only string) (
 		coalesce(r.governing_train, ''), coalesce(r.governing_sense, ''), r.governing_head_m,
 		coalesce(r.governing_direction, ''), r.governing_from_m, r.governing_to_m,
 		coalesce(to_char(b.last_inspected, 'YYYY-MM-DD'), ''), r.status, r.error
-		FROM run_bridges r LEFT JOIN bridges b ON b.bridge_id = r.bridge_id
-		WHERE r.run_id = $1 AND r.status <> 'pending') AS ranked
+		FROM run_picture($1) r LEFT JOIN bridges b ON b.bridge_id = r.bridge_id
+		WHERE r.status <> 'pending') AS ranked
 		WHERE $2 = '' OR bridge_id = $2
 		ORDER BY rank`
 	args := []any{runID, only}
@@ -85,8 +85,8 @@ func (db *DB) ranked(ctx context.Context, runID int64, limit int, only string) (
 func (db *DB) FlagTotals(ctx context.Context, runID int64) (members map[string]int, bridgesFlagged int, err error) {
 	// Each bridge's summary counts its members by flag: summing those reads one row a bridge
 	// instead of one a member.
-	rows, err := db.Pool.Query(ctx, `SELECT f, sum(n::int) FROM run_bridges, jsonb_each_text(flag_counts) AS c(f, n)
-		WHERE run_id = $1 GROUP BY f`, runID)
+	rows, err := db.Pool.Query(ctx, `SELECT f, sum(n::int) FROM run_picture($1) r, jsonb_each_text(r.flag_counts) AS c(f, n)
+		GROUP BY f`, runID)
 	if err != nil {
 		return nil, 0, err
 	}
@@ -102,7 +102,7 @@ func (db *DB) FlagTotals(ctx context.Context, runID int64) (members map[string]i
 	if err := rows.Err(); err != nil {
 		return nil, 0, err
 	}
-	err = db.Pool.QueryRow(ctx, `SELECT count(*) FROM run_bridges WHERE run_id = $1 AND cardinality(flags) > 0`,
+	err = db.Pool.QueryRow(ctx, `SELECT count(*) FROM run_picture($1) WHERE cardinality(flags) > 0`,
 		runID).Scan(&bridgesFlagged)
 	return members, bridgesFlagged, err
 }
@@ -133,20 +133,20 @@ type FlaggedMember struct {
 // and, within a bridge, by proposed RF.
 func (db *DB) FlaggedMembers(ctx context.Context, runID int64) ([]FlaggedMember, error) {
 	rows, err := db.Pool.Query(ctx, `WITH ranked AS (
-			SELECT r.bridge_id, row_number() OVER (ORDER BY `+rankOrder+`) AS rank FROM run_bridges r
-			WHERE r.run_id = $1 AND r.status <> 'pending')
-		SELECT k.rank, a.bridge_id, coalesce(b.name, ''), a.member, p.kind, a.rf_existing, a.rf_proposed,
+			SELECT r.bridge_id, r.set_id, row_number() OVER (ORDER BY `+rankOrder+`) AS rank FROM run_picture($1) r
+			WHERE r.status <> 'pending')
+		SELECT k.rank, k.bridge_id, coalesce(b.name, ''), a.member, p.kind, a.rf_existing, a.rf_proposed,
 			a.sense_proposed, a.demand_increase, a.flags, p.dead_kn, p.live_max_kn, p.live_min_kn, p.impact,
 			CASE WHEN a.sense_proposed = 'compression' THEN p.min_train ELSE p.max_train END,
 			CASE WHEN a.sense_proposed = 'compression' THEN p.min_head_m ELSE p.max_head_m END,
 			CASE WHEN a.sense_proposed = 'compression' THEN p.min_direction ELSE p.max_direction END,
 			CASE WHEN a.sense_proposed = 'compression' THEN p.min_from_m ELSE p.max_from_m END,
 			CASE WHEN a.sense_proposed = 'compression' THEN p.min_to_m ELSE p.max_to_m END
-		FROM member_assessments a
-		JOIN ranked k ON k.bridge_id = a.bridge_id
-		JOIN member_results p ON p.run_id = a.run_id AND p.bridge_id = a.bridge_id AND p.member = a.member AND p.scenario = 'proposed'
-		LEFT JOIN bridges b ON b.bridge_id = a.bridge_id
-		WHERE a.run_id = $1 AND cardinality(a.flags) > 0
+		FROM ranked k
+		JOIN member_assessments a ON a.set_id = k.set_id
+		JOIN member_results p ON p.set_id = a.set_id AND p.member = a.member AND p.scenario = 'proposed'
+		LEFT JOIN bridges b ON b.bridge_id = k.bridge_id
+		WHERE cardinality(a.flags) > 0
 		ORDER BY k.rank, a.rf_proposed ASC NULLS LAST, a.member`, runID)
 	if err != nil {
 		return nil, fmt.Errorf("flagged members of run %d: %w", runID, err)
@@ -167,12 +167,12 @@ type FailedBridge struct {
 // FailedBridges lists up to limit bridges a run could not screen, and how many there are.
 func (db *DB) FailedBridges(ctx context.Context, runID int64, limit int) ([]FailedBridge, int, error) {
 	var n int
-	if err := db.Pool.QueryRow(ctx, `SELECT count(*) FROM run_bridges WHERE run_id = $1 AND status = 'failed'`, runID).Scan(&n); err != nil {
+	if err := db.Pool.QueryRow(ctx, `SELECT count(*) FROM run_picture($1) WHERE status = 'failed'`, runID).Scan(&n); err != nil {
 		return nil, 0, err
 	}
-	rows, err := db.Pool.Query(ctx, `SELECT r.bridge_id, coalesce(b.name, ''), r.error FROM run_bridges r
+	rows, err := db.Pool.Query(ctx, `SELECT r.bridge_id, coalesce(b.name, ''), r.error FROM run_picture($1) r
 		LEFT JOIN bridges b ON b.bridge_id = r.bridge_id
-		WHERE r.run_id = $1 AND r.status = 'failed' ORDER BY r.bridge_id LIMIT $2`, runID, limit)
+		WHERE r.status = 'failed' ORDER BY r.bridge_id LIMIT $2`, runID, limit)
 	if err != nil {
 		return nil, 0, err
 	}

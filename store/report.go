@@ -80,9 +80,13 @@ func (db *DB) ReportBridge(ctx context.Context, run report.Run, bridgeID string)
 	for _, m := range inv {
 		held[m.Member] = m
 	}
+	set, err := db.bridgeSet(ctx, run.ID, bridgeID)
+	if err != nil {
+		return out, err
+	}
 	members := map[string]*report.Member{}
 	rows, err := db.Pool.Query(ctx, `SELECT member, rf_existing, rf_proposed, sense_proposed, flags
-		FROM member_assessments WHERE run_id = $1 AND bridge_id = $2`, run.ID, bridgeID)
+		FROM member_assessments WHERE set_id = $1`, set)
 	if err != nil {
 		return out, err
 	}
@@ -100,7 +104,7 @@ func (db *DB) ReportBridge(ctx context.Context, run report.Run, bridgeID string)
 	rows, err = db.Pool.Query(ctx, `SELECT member, scenario, kind, dead_kn, live_max_kn, live_min_kn, impact,
 		rf_tension, rf_compression, basis, max_train, max_head_m, max_direction, max_from_m, max_to_m,
 		min_train, min_head_m, min_direction, min_from_m, min_to_m, coalesce(max_count, 0), coalesce(min_count, 0)
-		FROM member_results WHERE run_id = $1 AND bridge_id = $2`, run.ID, bridgeID)
+		FROM member_results WHERE set_id = $1`, set)
 	if err != nil {
 		return out, err
 	}

@@ -3,9 +3,11 @@ package store
 import (
 	"bytes"
 	"context"
+	"crypto/sha256"
 	"encoding/json"
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 	"time"
 
@@ -91,22 +93,23 @@ func RatingMember(m Member) rating.Member {
 	return r
 }
 
-var memberResultColumns = []string{"run_id", "bridge_id", "scenario", "member", "kind", "dead_kn", "live_max_kn",
+var memberResultColumns = []string{"set_id", "scenario", "member", "kind", "dead_kn", "live_max_kn",
 	"live_min_kn", "impact", "rf_tension", "rf_compression", "basis", "max_train", "max_head_m", "max_direction",
 	"max_from_m", "max_to_m", "min_train", "min_head_m", "min_direction", "min_from_m", "min_to_m", "max_count", "min_count"}
 
 var copyMemberResults = copyStatement("member_results", memberResultColumns)
 
-var memberAssessmentColumns = []string{"run_id", "bridge_id", "member", "rf_existing", "rf_proposed",
+var memberAssessmentColumns = []string{"set_id", "member", "rf_existing", "rf_proposed",
 	"sense_proposed", "demand_increase", "flags"}
 
 var copyMemberAssessments = copyStatement("member_assessments", memberAssessmentColumns)
 
 // writeResults writes the results of the bridges that are still pending, locking their rows
 // first: a second attempt at the same job (a rescued job whose first attempt committed) finds
-// them done and writes nothing. hashes are the bridges' input hashes as loaded; a bridge
-// without one keeps the hash its run was created with. It returns the number of bridges
-// written.
+// them done and writes nothing. A screened bridge's member rows are written only when no
+// result set with the same content is stored yet (storeSets); its run_bridges row names the
+// set. hashes are the bridges' input hashes as loaded; a bridge without one keeps the hash its
+// run was created with. It returns the number of bridges written.
 func writeResults(ctx context.Context, tx pgx.Tx, runID int64, results []screening.Result, hashes map[string]string, tm *ChunkTiming) (int, error) {
 	t0 := time.Now()
 	ids := make([]string, len(results))
@@ -126,19 +129,22 @@ func writeResults(ctx context.Context, tx pgx.Tx, runID int64, results []screeni
 	for _, id := range still {
 		pending[id] = true
 	}
-	var u bridgeUpdates
 	var written []screening.Result
 	for _, r := range results {
 		if pending[r.BridgeID] {
-			u.add(r, hashes[r.BridgeID])
 			written = append(written, r)
 		}
 	}
-	if len(u.ids) == 0 {
+	if len(written) == 0 {
 		return 0, nil
 	}
-	if err := copyResults(ctx, tx, runID, written); err != nil {
+	sets, err := storeSets(ctx, tx, written)
+	if err != nil {
 		return 0, err
+	}
+	var u bridgeUpdates
+	for i, r := range written {
+		u.add(r, hashes[r.BridgeID], sets[i])
 	}
 	t1 := time.Now()
 	// r.bridge_id = ANY($2) beside the join: the planner, with no statistics yet for a new
@@ -148,54 +154,169 @@ func writeResults(ctx context.Context, tx pgx.Tx, runID int64, results []screeni
 		headroom = u.head, flags = string_to_array(u.flags, ','), flag_counts = u.counts::jsonb,
 		governing_train = u.gtrain, governing_sense = u.gsense, governing_head_m = u.ghead,
 		governing_direction = u.gdir, governing_from_m = u.gfrom, governing_to_m = u.gto, screened_at = now(),
-		input_hash = CASE WHEN u.hash = '' THEN r.input_hash ELSE u.hash END
+		input_hash = CASE WHEN u.hash = '' THEN r.input_hash ELSE u.hash END, set_id = u.set_id
 		FROM unnest($2::text[], $3::text[], $4::text[], $5::text[], $6::float8[], $7::float8[], $8::float8[],
 			$9::float8[], $10::text[], $11::text[], $12::text[], $13::text[], $14::float8[], $15::text[], $16::float8[],
-			$17::float8[], $18::text[])
-			AS u(id, status, error, worst, rfe, rfp, inc, head, flags, counts, gtrain, gsense, ghead, gdir, gfrom, gto, hash)
+			$17::float8[], $18::text[], $19::int8[])
+			AS u(id, status, error, worst, rfe, rfp, inc, head, flags, counts, gtrain, gsense, ghead, gdir, gfrom, gto, hash, set_id)
 		WHERE r.run_id = $1 AND r.bridge_id = ANY($2) AND r.bridge_id = u.id`,
 		runID, u.ids, u.status, u.errs, u.worst, u.rfe, u.rfp, u.inc, u.head, u.flags, u.counts, u.gtrain, u.gsense,
-		u.ghead, u.gdir, u.gfrom, u.gto, u.hashes); err != nil {
+		u.ghead, u.gdir, u.gfrom, u.gto, u.hashes, u.sets); err != nil {
 		return 0, err
 	}
 	tm.Copy, tm.Update = t1.Sub(t0), time.Since(t1)
 	return len(u.ids), nil
 }
 
-// copyResults copies the results' member_results and member_assessments rows, one table after
-// the other through one encoder's buffer. After an error the encoder is dropped, not pooled:
-// when the connection breaks, pgconn can return before its sender has stopped reading it.
-func copyResults(ctx context.Context, tx pgx.Tx, runID int64, results []screening.Result) error {
+// storeSets finds or stores the result set of each screened result (nil for a bridge that
+// failed) and returns the sets' ids in the results' order. A set is known by its bridge and
+// the digest of its rows; one with the same content stored before (by any run) is reused and
+// nothing is written for it. Two transactions storing the same set at once store it once:
+// the second one's insert waits on the unique key for the first to commit, then finds its
+// row.
+func storeSets(ctx context.Context, tx pgx.Tx, results []screening.Result) ([]*int64, error) {
+	e := copyEncoders.Get().(*copyEncoder)
+	// Sorted by key, so that two transactions inserting overlapping sets lock them in the
+	// same order and cannot deadlock.
+	type key struct {
+		bridge string
+		digest [sha256.Size]byte
+		at     int
+	}
+	var keys []key
+	for i, r := range results {
+		if r.Err == nil {
+			keys = append(keys, key{r.BridgeID, setDigest(e, r), i})
+		}
+	}
+	copyEncoders.Put(e)
+	ids := make([]*int64, len(results))
+	if len(keys) == 0 {
+		return ids, nil
+	}
+	slices.SortFunc(keys, func(a, b key) int {
+		if c := strings.Compare(a.bridge, b.bridge); c != 0 {
+			return c
+		}
+		return bytes.Compare(a.digest[:], b.digest[:])
+	})
+	bridges := make([]string, len(keys))
+	digests := make([][]byte, len(keys))
+	for i, k := range keys {
+		bridges[i], digests[i] = k.bridge, k.digest[:]
+	}
+	rows, err := tx.Query(ctx, `INSERT INTO result_sets (bridge_id, digest)
+		SELECT * FROM unnest($1::text[], $2::bytea[]) ORDER BY 1, 2
+		ON CONFLICT (bridge_id, digest) DO NOTHING RETURNING id, bridge_id, digest`, bridges, digests)
+	if err != nil {
+		return nil, fmt.Errorf("result sets: %w", err)
+	}
+	type found struct {
+		id  int64
+		new bool
+	}
+	byKey := map[string]found{}
+	var id int64
+	var b string
+	var d []byte
+	_, err = pgx.ForEachRow(rows, []any{&id, &b, &d}, func() error {
+		byKey[b+"\x00"+string(d)] = found{id, true}
+		return nil
+	})
+	if err != nil {
+		return nil, fmt.Errorf("result sets: %w", err)
+	}
+	if len(byKey) < len(keys) {
+		// FOR KEY SHARE: a prune that would delete a set no run refers to yet waits for this
+		// transaction, and then sees it referred to.
+		rows, err := tx.Query(ctx, `SELECT s.id, s.bridge_id, s.digest FROM result_sets s
+			JOIN unnest($1::text[], $2::bytea[]) AS k(bridge_id, digest) ON s.bridge_id = k.bridge_id AND s.digest = k.digest
+			FOR KEY SHARE OF s`, bridges, digests)
+		if err != nil {
+			return nil, fmt.Errorf("result sets: %w", err)
+		}
+		_, err = pgx.ForEachRow(rows, []any{&id, &b, &d}, func() error {
+			if _, ok := byKey[b+"\x00"+string(d)]; !ok {
+				byKey[b+"\x00"+string(d)] = found{id, false}
+			}
+			return nil
+		})
+		if err != nil {
+			return nil, fmt.Errorf("result sets: %w", err)
+		}
+	}
+	var fresh []screening.Result
+	var freshIDs []int64
+	for _, k := range keys {
+		f, ok := byKey[k.bridge+"\x00"+string(k.digest[:])]
+		if !ok {
+			return nil, fmt.Errorf("result set of bridge %s neither stored nor found", k.bridge)
+		}
+		ids[k.at] = &f.id
+		if f.new {
+			fresh = append(fresh, results[k.at])
+			freshIDs = append(freshIDs, f.id)
+		}
+	}
+	if len(fresh) > 0 {
+		if err := copyResults(ctx, tx, fresh, freshIDs); err != nil {
+			return nil, err
+		}
+	}
+	return ids, nil
+}
+
+// setDigest is the SHA-256 of a screened bridge's member rows, both tables, as they are
+// written but with set id 0: equal digests, equal stored results.
+func setDigest(e *copyEncoder, r screening.Result) [sha256.Size]byte {
+	e.buf = e.buf[:0]
+	for _, m := range r.Members {
+		appendMemberResult(e, 0, "existing", m, m.Existing, m.Assessment.Existing)
+		appendMemberResult(e, 0, "proposed", m, m.Proposed, m.Assessment.Proposed)
+	}
+	for _, m := range r.Members {
+		appendMemberAssessment(e, 0, m)
+	}
+	return sha256.Sum256(e.buf)
+}
+
+// copyResults copies the results' member_results and member_assessments rows under their
+// sets' ids, one table after the other through one encoder's buffer. After an error the
+// encoder is dropped, not pooled: when the connection breaks, pgconn can return before its
+// sender has stopped reading it.
+func copyResults(ctx context.Context, tx pgx.Tx, results []screening.Result, setIDs []int64) error {
 	e := copyEncoders.Get().(*copyEncoder)
 	conn := tx.Conn().PgConn()
-	if _, err := conn.CopyFrom(ctx, bytes.NewReader(encodeMemberResults(e, runID, results)), copyMemberResults); err != nil {
+	if _, err := conn.CopyFrom(ctx, bytes.NewReader(encodeMemberResults(e, results, setIDs)), copyMemberResults); err != nil {
 		return fmt.Errorf("member_results: %w", err)
 	}
-	if _, err := conn.CopyFrom(ctx, bytes.NewReader(encodeMemberAssessments(e, runID, results)), copyMemberAssessments); err != nil {
+	if _, err := conn.CopyFrom(ctx, bytes.NewReader(encodeMemberAssessments(e, results, setIDs)), copyMemberAssessments); err != nil {
 		return fmt.Errorf("member_assessments: %w", err)
 	}
 	copyEncoders.Put(e)
 	return nil
 }
 
-// encodeMemberResults encodes the results' member_results rows, both scenarios of each member.
-func encodeMemberResults(e *copyEncoder, runID int64, results []screening.Result) []byte {
+// encodeMemberResults encodes the results' member_results rows, both scenarios of each member,
+// result i under set setIDs[i].
+func encodeMemberResults(e *copyEncoder, results []screening.Result, setIDs []int64) []byte {
 	e.begin()
-	for _, r := range results {
+	for i, r := range results {
 		for _, m := range r.Members {
-			appendMemberResult(e, runID, r.BridgeID, "existing", m, m.Existing, m.Assessment.Existing)
-			appendMemberResult(e, runID, r.BridgeID, "proposed", m, m.Proposed, m.Assessment.Proposed)
+			appendMemberResult(e, setIDs[i], "existing", m, m.Existing, m.Assessment.Existing)
+			appendMemberResult(e, setIDs[i], "proposed", m, m.Proposed, m.Assessment.Proposed)
 		}
 	}
 	return e.end()
 }
 
-// encodeMemberAssessments encodes the results' member_assessments rows, one a member.
-func encodeMemberAssessments(e *copyEncoder, runID int64, results []screening.Result) []byte {
+// encodeMemberAssessments encodes the results' member_assessments rows, one a member, result
+// i under set setIDs[i].
+func encodeMemberAssessments(e *copyEncoder, results []screening.Result, setIDs []int64) []byte {
 	e.begin()
-	for _, r := range results {
+	for i, r := range results {
 		for _, m := range r.Members {
-			appendMemberAssessment(e, runID, r.BridgeID, m)
+			appendMemberAssessment(e, setIDs[i], m)
 		}
 	}
 	return e.end()
@@ -203,13 +324,15 @@ func encodeMemberAssessments(e *copyEncoder, runID int64, results []screening.Re
 
 // bridgeUpdates gathers run_bridges columns for one UPDATE ... FROM unnest.
 type bridgeUpdates struct {
+	sets                                                           []*int64
 	ids, status, errs, flags, counts, gtrain, gsense, gdir, hashes []string
 	worst                                                          []*string
 	rfe, rfp, inc, head, ghead, gfrom, gto                         []*float64
 }
 
-func (u *bridgeUpdates) add(r screening.Result, hash string) {
+func (u *bridgeUpdates) add(r screening.Result, hash string, set *int64) {
 	u.ids = append(u.ids, r.BridgeID)
+	u.sets = append(u.sets, set)
 	u.hashes = append(u.hashes, hash)
 	if r.Err != nil {
 		u.status = append(u.status, "failed")
@@ -257,7 +380,7 @@ func (u *bridgeUpdates) add(r screening.Result, hash string) {
 
 // appendMemberResult encodes a member's member_results row under one scenario, in the order
 // of memberResultColumns.
-func appendMemberResult(e *copyEncoder, runID int64, bridge, scenario string, m screening.MemberResult, env screening.Envelope, rfs []rating.Factor) {
+func appendMemberResult(e *copyEncoder, setID int64, scenario string, m screening.MemberResult, env screening.Envelope, rfs []rating.Factor) {
 	// NaN: no factor in that sense (NULL, as is a factor without a finite value).
 	rt, rc := math.NaN(), math.NaN()
 	basis := ""
@@ -270,8 +393,7 @@ func appendMemberResult(e *copyEncoder, runID int64, bridge, scenario string, m 
 		basis = f.Basis
 	}
 	e.row(len(memberResultColumns))
-	e.int8(runID)
-	e.text(bridge)
+	e.int8(setID)
 	e.text(scenario)
 	e.text(m.Label)
 	e.text(string(m.Kind))
@@ -318,15 +440,14 @@ func appendCount(e *copyEncoder, x screening.Extreme) {
 
 // appendMemberAssessment encodes a member's member_assessments row, in the order of
 // memberAssessmentColumns.
-func appendMemberAssessment(e *copyEncoder, runID int64, bridge string, m screening.MemberResult) {
+func appendMemberAssessment(e *copyEncoder, setID int64, m screening.MemberResult) {
 	a := m.Assessment
 	sense := ""
 	if a.HasPr {
 		sense = a.WorstPr.Sense.String()
 	}
 	e.row(len(memberAssessmentColumns))
-	e.int8(runID)
-	e.text(bridge)
+	e.int8(setID)
 	e.text(m.Label)
 	appendRF(e, a.WorstEx, a.HasEx)
 	appendRF(e, a.WorstPr, a.HasPr)

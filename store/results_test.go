@@ -25,12 +25,13 @@ import (
 // every value through its type map. These functions are that code as it was; its num and
 // rfOrNil, which turn NaN and ±Inf into NULL, are still the package's (for run_bridges).
 
-// referenceRows builds the member_results and member_assessments rows of results, as []any.
-func referenceRows(runID int64, results []screening.Result) (mr, ma [][]any) {
-	for _, r := range results {
+// referenceRows builds the member_results and member_assessments rows of results, as []any,
+// result i under set setIDs[i].
+func referenceRows(setIDs []int64, results []screening.Result) (mr, ma [][]any) {
+	for i, r := range results {
 		for _, m := range r.Members {
-			mr = append(mr, memberResultRow(runID, r.BridgeID, "existing", m, m.Existing, m.Assessment.Existing))
-			mr = append(mr, memberResultRow(runID, r.BridgeID, "proposed", m, m.Proposed, m.Assessment.Proposed))
+			mr = append(mr, memberResultRow(setIDs[i], "existing", m, m.Existing, m.Assessment.Existing))
+			mr = append(mr, memberResultRow(setIDs[i], "proposed", m, m.Proposed, m.Assessment.Proposed))
 			a := m.Assessment
 			flags := make([]string, len(a.Flags))
 			for i, f := range a.Flags {
@@ -40,14 +41,14 @@ func referenceRows(runID int64, results []screening.Result) (mr, ma [][]any) {
 			if a.HasPr {
 				sense = a.WorstPr.Sense.String()
 			}
-			ma = append(ma, []any{runID, r.BridgeID, m.Label, store.RFOrNil(a.WorstEx, a.HasEx), store.RFOrNil(a.WorstPr, a.HasPr),
+			ma = append(ma, []any{setIDs[i], m.Label, store.RFOrNil(a.WorstEx, a.HasEx), store.RFOrNil(a.WorstPr, a.HasPr),
 				sense, store.Num(a.DemandIncrease), flags})
 		}
 	}
 	return mr, ma
 }
 
-func memberResultRow(runID int64, bridge, scenario string, m screening.MemberResult, e screening.Envelope, rfs []rating.Factor) []any {
+func memberResultRow(setID int64, scenario string, m screening.MemberResult, e screening.Envelope, rfs []rating.Factor) []any {
 	var rt, rc *float64
 	basis := ""
 	for _, f := range rfs {
@@ -59,12 +60,21 @@ func memberResultRow(runID int64, bridge, scenario string, m screening.MemberRes
 		}
 		basis = f.Basis
 	}
-	return []any{runID, bridge, scenario, m.Label, string(m.Kind), m.Dead, e.Max.Value, e.Min.Value, e.Impact, rt, rc, basis,
+	return []any{setID, scenario, m.Label, string(m.Kind), m.Dead, e.Max.Value, e.Min.Value, e.Impact, rt, rc, basis,
 		e.Max.Train, placementNum(e.Max.Loaded, e.Max.HeadM), dirText(e.Max.Loaded, e.Max.Direction.String()),
 		placementNum(e.Max.Loaded, e.Max.LoadedFromM), placementNum(e.Max.Loaded, e.Max.LoadedToM),
 		e.Min.Train, placementNum(e.Min.Loaded, e.Min.HeadM), dirText(e.Min.Loaded, e.Min.Direction.String()),
 		placementNum(e.Min.Loaded, e.Min.LoadedFromM), placementNum(e.Min.Loaded, e.Min.LoadedToM),
 		countOf(e.Max), countOf(e.Min)}
+}
+
+// setIDs gives n set ids above 32 bits, as a long-lived database reaches.
+func setIDs(n int) []int64 {
+	ids := make([]int64, n)
+	for i := range ids {
+		ids[i] = 1<<40 + 7 + int64(i)
+	}
+	return ids
 }
 
 func countOf(e screening.Extreme) *int32 {
@@ -92,11 +102,11 @@ func dirText(loaded bool, d string) string {
 // Type OIDs of the result tables' columns, from PostgreSQL's pg_type catalogue, in the
 // order of the column lists: what pgx's CopyFrom learns by describing the table.
 var (
-	memberResultOIDs = []uint32{pgtype.Int8OID, pgtype.TextOID, pgtype.TextOID, pgtype.TextOID, pgtype.TextOID,
+	memberResultOIDs = []uint32{pgtype.Int8OID, pgtype.TextOID, pgtype.TextOID, pgtype.TextOID,
 		pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID,
 		pgtype.TextOID, pgtype.TextOID, pgtype.Float8OID, pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID,
 		pgtype.TextOID, pgtype.Float8OID, pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Int4OID, pgtype.Int4OID}
-	memberAssessmentOIDs = []uint32{pgtype.Int8OID, pgtype.TextOID, pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID,
+	memberAssessmentOIDs = []uint32{pgtype.Int8OID, pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID,
 		pgtype.TextOID, pgtype.Float8OID, pgtype.TextArrayOID}
 )
 
@@ -257,9 +267,9 @@ func asPostgresSendsEmptyArrays(rows [][]any) {
 // but for the trailer, which pgx leaves out, and the form of an empty array (above). No
 // server needed.
 func TestCopyEncoderMatchesPgxBytes(t *testing.T) {
-	const runID = 1<<40 + 7 // more than 32 bits
 	results := append(edgeResults(), jobResults(t, 8)...)
-	mr, ma := referenceRows(runID, results)
+	ids := setIDs(len(results))
+	mr, ma := referenceRows(ids, results)
 	asPostgresSendsEmptyArrays(ma)
 	m := pgtype.NewMap()
 	for _, c := range []struct {
@@ -268,8 +278,8 @@ func TestCopyEncoderMatchesPgxBytes(t *testing.T) {
 		oids  []uint32
 		rows  [][]any
 	}{
-		{"member_results", store.EncodeMemberResults(nil, runID, results), memberResultOIDs, mr},
-		{"member_assessments", store.EncodeMemberAssessments(nil, runID, results), memberAssessmentOIDs, ma},
+		{"member_results", store.EncodeMemberResults(nil, ids, results), memberResultOIDs, mr},
+		{"member_assessments", store.EncodeMemberAssessments(nil, ids, results), memberAssessmentOIDs, ma},
 	} {
 		want, err := pgxCopyStream(nil, m, c.oids, c.rows)
 		if err != nil {
@@ -333,7 +343,21 @@ func TestWriteResultsMatchesPgxCopy(t *testing.T) {
 	if written != len(pending) {
 		t.Errorf("writeResults wrote %d bridges, want the %d pending", written, len(pending))
 	}
-	mr, ma := referenceRows(runID, pending)
+	// The sets writeResults stored, by bridge: the reference rows go under the same ids.
+	ids := make([]int64, len(pending))
+	for i, r := range pending {
+		var set *int64
+		if err := db.Pool.QueryRow(ctx, `SELECT set_id FROM run_bridges WHERE run_id = $1 AND bridge_id = $2`,
+			runID, r.BridgeID).Scan(&set); err != nil {
+			t.Fatal(err)
+		}
+		if set != nil {
+			ids[i] = *set
+		} else if r.Err == nil {
+			t.Errorf("bridge %s screened but has no result set", r.BridgeID)
+		}
+	}
+	mr, ma := referenceRows(ids, pending)
 	err = pgx.BeginFunc(ctx, db.Pool, func(tx pgx.Tx) error {
 		if _, err := tx.CopyFrom(ctx, pgx.Identifier{"pgx_member_results"}, store.MemberResultColumns, pgx.CopyFromRows(mr)); err != nil {
 			return err
@@ -384,14 +408,14 @@ func TestWriteResultsMatchesPgxCopy(t *testing.T) {
 // buffer: pgx-rows as writeResults did before (a []any a row, encoded by pgx's type map as
 // its CopyFrom does, without its pipe and goroutine), binary-copy as it does now.
 func BenchmarkEncodeResults(b *testing.B) {
-	const runID = 123456
 	results := jobResults(b, 50)
+	ids := setIDs(len(results))
 	var buf []byte
 	b.Run("pgx-rows", func(b *testing.B) {
 		m := pgtype.NewMap()
 		b.ReportAllocs()
 		for b.Loop() {
-			mr, ma := referenceRows(runID, results)
+			mr, ma := referenceRows(ids, results)
 			var err error
 			if buf, err = pgxCopyStream(buf, m, memberResultOIDs, mr); err != nil {
 				b.Fatal(err)
@@ -404,11 +428,11 @@ func BenchmarkEncodeResults(b *testing.B) {
 	b.Run("binary-copy", func(b *testing.B) {
 		b.ReportAllocs()
 		for b.Loop() {
-			buf = store.EncodeMemberResults(buf, runID, results)
-			buf = store.EncodeMemberAssessments(buf, runID, results)
+			buf = store.EncodeMemberResults(buf, ids, results)
+			buf = store.EncodeMemberAssessments(buf, ids, results)
 		}
 	})
-	mr, ma := referenceRows(runID, results)
+	mr, ma := referenceRows(ids, results)
 	b.Logf("one job: %d bridges, %d member_results and %d member_assessments rows, %d + %d bytes", len(results), len(mr), len(ma),
-		len(store.EncodeMemberResults(nil, runID, results)), len(store.EncodeMemberAssessments(nil, runID, results)))
+		len(store.EncodeMemberResults(nil, ids, results)), len(store.EncodeMemberAssessments(nil, ids, results)))
 }

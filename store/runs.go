@@ -113,13 +113,15 @@ type RunProgress struct {
 	Total, Pending, Done, Failed, Carried int
 }
 
-// Progress reads a run's progress.
+// Progress reads a run's progress over its picture: Done counts the bridges the run itself
+// screened, Carried those whose results it carried forward from an earlier run.
 func (db *DB) Progress(ctx context.Context, id int64) (RunProgress, error) {
 	var p RunProgress
 	err := db.Pool.QueryRow(ctx, `SELECT count(*),
-		count(*) FILTER (WHERE status = 'pending'), count(*) FILTER (WHERE status = 'done'),
-		count(*) FILTER (WHERE status = 'failed'), count(*) FILTER (WHERE status = 'carried')
-		FROM run_bridges WHERE run_id = $1`, id).Scan(&p.Total, &p.Pending, &p.Done, &p.Failed, &p.Carried)
+		count(*) FILTER (WHERE status = 'pending'), count(*) FILTER (WHERE status = 'done' AND run_id = $1),
+		count(*) FILTER (WHERE status = 'failed'),
+		count(*) FILTER (WHERE status = 'carried' OR (status = 'done' AND run_id <> $1))
+		FROM run_picture($1)`, id).Scan(&p.Total, &p.Pending, &p.Done, &p.Failed, &p.Carried)
 	return p, err
 }
 
@@ -138,4 +140,21 @@ func (db *DB) ReferenceTrains(ctx context.Context) ([]string, error) {
 		return nil, err
 	}
 	return pgx.CollectRows(rows, pgx.RowTo[string])
+}
+
+// bridgeSet is the result set of a bridge in a run's picture: its own row's, or the nearest
+// base run's (nil where the bridge has none, as a failed one).
+func (db *DB) bridgeSet(ctx context.Context, runID int64, bridgeID string) (*int64, error) {
+	var set *int64
+	err := db.Pool.QueryRow(ctx, `WITH RECURSIVE chain (id, base, complete, depth) AS (
+			SELECT id, base_run_id, complete, 0 FROM runs WHERE id = $1
+			UNION ALL
+			SELECT r.id, r.base_run_id, r.complete, c.depth + 1 FROM chain c JOIN runs r ON r.id = c.base
+			WHERE NOT c.complete)
+		SELECT b.set_id FROM chain c JOIN run_bridges b ON b.run_id = c.id AND b.bridge_id = $2
+		ORDER BY c.depth LIMIT 1`, runID, bridgeID).Scan(&set)
+	if errors.Is(err, pgx.ErrNoRows) {
+		return nil, fmt.Errorf("bridge %q in run %d: %w", bridgeID, runID, ErrNotFound)
+	}
+	return set, err
 }

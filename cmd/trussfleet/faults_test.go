@@ -88,28 +88,33 @@ func newRun(t *testing.T, db *store.DB, cfg Config) int64 {
 }
 
 // checkOnce asserts that a completed run holds exactly one result set per bridge: two
-// scenario rows per member of the geometry, no key twice.
+// scenario rows per member of the geometry, no key twice, no bridge with two sets.
 func checkOnce(t *testing.T, db *store.DB, id int64, bridges int) {
 	t.Helper()
 	ctx := context.Background()
 	var status string
-	var rows, distinct, nb, done, expected int
+	var rows, distinct, nb, done, expected, sets, twice int
 	if err := db.Pool.QueryRow(ctx, `SELECT status FROM runs WHERE id = $1`, id).Scan(&status); err != nil {
 		t.Fatal(err)
 	}
-	if err := db.Pool.QueryRow(ctx, `SELECT count(*), count(DISTINCT (bridge_id, scenario, member)), count(DISTINCT bridge_id)
-		FROM member_results WHERE run_id = $1`, id).Scan(&rows, &distinct, &nb); err != nil {
+	if err := db.Pool.QueryRow(ctx, `SELECT count(*), count(DISTINCT (r.bridge_id, m.scenario, m.member)), count(DISTINCT r.bridge_id)
+		FROM run_picture($1) r JOIN member_results m ON m.set_id = r.set_id`, id).Scan(&rows, &distinct, &nb); err != nil {
 		t.Fatal(err)
 	}
-	if err := db.Pool.QueryRow(ctx, `SELECT count(*) FROM run_bridges WHERE run_id = $1 AND status = 'done'`, id).Scan(&done); err != nil {
+	if err := db.Pool.QueryRow(ctx, `SELECT count(*) FROM run_picture($1) WHERE status = 'done'`, id).Scan(&done); err != nil {
 		t.Fatal(err)
 	}
-	if err := db.Pool.QueryRow(ctx, `SELECT count(*) FROM member_assessments WHERE run_id = $1`, id).Scan(&expected); err != nil {
+	if err := db.Pool.QueryRow(ctx, `SELECT count(*) FROM run_picture($1) r JOIN member_assessments a ON a.set_id = r.set_id`,
+		id).Scan(&expected); err != nil {
 		t.Fatal(err)
 	}
-	if status != store.RunCompleted || done != bridges || nb != bridges || rows != distinct || rows != 2*expected {
-		t.Errorf("run %d %s: %d bridges done, results for %d, %d rows (%d distinct) for %d members; want %d bridges, 2 rows per member",
-			id, status, done, nb, rows, distinct, expected, bridges)
+	if err := db.Pool.QueryRow(ctx, `SELECT count(*), count(*) - count(DISTINCT bridge_id) FROM result_sets`).Scan(&sets, &twice); err != nil {
+		t.Fatal(err)
+	}
+	if status != store.RunCompleted || done != bridges || nb != bridges || rows != distinct || rows != 2*expected ||
+		sets != bridges || twice != 0 {
+		t.Errorf("run %d %s: %d bridges done, results for %d, %d rows (%d distinct) for %d members, %d result sets (%d twice); "+
+			"want %d bridges, 2 rows per member, one set each", id, status, done, nb, rows, distinct, expected, sets, twice, bridges)
 	}
 }
 
