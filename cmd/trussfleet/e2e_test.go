@@ -35,7 +35,7 @@ func TestEndToEnd(t *testing.T) {
 		return p
 	}
 	axle := func(name string, p float64) string {
-		return fmt.Sprintf("name: %s\nunits: si\nvehicles:\n  - id: a\n    length: 1\n    axles:\n      - {at: 0.5, load: %g}\nconsist:\n  - {vehicle: a, count: 1}\n", name, p)
+		return fmt.Sprintf("name: %s\nunits: si\nvehicles:\n  - id: a\n    length: 2\n    axles:\n      - {at: 1, load: %g}\nconsist:\n  - {vehicle: a, count: 1}\n", name, p)
 	}
 	if err := os.Mkdir(filepath.Join(dir, "trains"), 0o755); err != nil {
 		t.Fatal(err)
@@ -129,12 +129,12 @@ func TestEndToEnd(t *testing.T) {
 				t.Errorf("%s %s = %q, want %.4f", w.id, col, r[col], v)
 			}
 		}
-		// The proposed axle stood over L2 (x = 12 m) for the worst member: its front 0.5 m
+		// The proposed axle stood over L2 (x = 12 m) for the worst member: its front 1 m
 		// ahead of it in the direction of travel.
 		head, _ := strconv.ParseFloat(r["governing_head_m"], 64)
-		ahead := 0.5
+		ahead := 1.0
 		if r["governing_direction"] == "right-to-left" {
-			ahead = -0.5
+			ahead = -1.0
 		}
 		if r["governing_train"] != "Test axle 400" || r["governing_sense"] != "tension" || math.Abs(head-ahead-12) > 1e-4 {
 			t.Errorf("%s governing %q %q head %v", w.id, r["governing_train"], r["governing_sense"], head)
