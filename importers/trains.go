@@ -16,9 +16,8 @@ import (
 	"github.com/trussfleet/trussfleet/store"
 )
 
-// maxTrainFile bounds a train file's size: a train is a few dozen lines; anything much
-// larger is not a train file.
-const maxTrainFile = 1 << 20
+// maxTrainFile bounds a train file's size, as the train parser does.
+const maxTrainFile = traffic.MaxFileBytes
 
 // ImportTrains checks and stores the train file at path, or every .yaml and .yml file of
 // the directory at path. Each is parsed with the traffic package and stored under its

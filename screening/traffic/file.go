@@ -2,6 +2,7 @@ package traffic
 
 import (
 	"bytes"
+	"cmp"
 	"errors"
 	"fmt"
 	"io"
@@ -98,6 +99,9 @@ type problem struct{ field, msg string }
 // once. A train beyond the limits of limits.go is refused, located at the field that
 // exceeds them.
 func ParseTrainFile(filename string, data []byte) (*Train, error) {
+	if len(data) > MaxFileBytes {
+		return nil, &FileError{File: filename, Msg: fmt.Sprintf("larger than %d bytes: not a train file", MaxFileBytes)}
+	}
 	if err := checkText(filename, data); err != nil {
 		return nil, err
 	}
@@ -133,10 +137,15 @@ func ParseTrainFile(filename string, data []byte) (*Train, error) {
 		probs = f.limits(t)
 	}
 	if len(probs) > 0 {
-		errs := make([]error, len(probs))
+		fes := make([]*FileError, len(probs))
 		for i, p := range probs {
 			line, col := locate(&root, p.field)
-			errs[i] = &FileError{File: filename, Line: line, Column: col, Field: p.field, Msg: p.msg}
+			fes[i] = &FileError{File: filename, Line: line, Column: col, Field: p.field, Msg: p.msg}
+		}
+		slices.SortStableFunc(fes, func(a, b *FileError) int { return cmp.Or(a.Line-b.Line, a.Column-b.Column) })
+		errs := make([]error, len(fes))
+		for i, fe := range fes {
+			errs[i] = fe
 		}
 		return nil, errors.Join(errs...)
 	}

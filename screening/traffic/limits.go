@@ -59,6 +59,8 @@ const (
 	MaxIDChars = 64
 	// MaxNoteChars bounds a train's note, in characters.
 	MaxNoteChars = 2000
+	// MaxFileBytes bounds a train file: a train is a few dozen lines.
+	MaxFileBytes = 1 << 20
 )
 
 // LimitError is one limit a train exceeds. It locates the value in the train: Group indexes

@@ -3,6 +3,8 @@ package traffic
 import (
 	"errors"
 	"fmt"
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
 )
@@ -131,6 +133,8 @@ func TestTrainFileLimits(t *testing.T) {
 	}
 }
 
+// TestTrainFileText: a file that is not a train file's text is refused at the place that
+// shows it (line and column; the whole file for its size).
 func TestTrainFileText(t *testing.T) {
 	cases := []struct {
 		name      string
@@ -142,12 +146,13 @@ func TestTrainFileText(t *testing.T) {
 		{"NUL byte after multi-byte characters", "name: Tø\x00\n", 1, 9, "NUL byte"},
 		{"invalid UTF-8", "name: T\n\nnote: \xff\n", 3, 7, "not valid UTF-8"},
 		{"UTF-16 text", "\xff\xfen\x00a\x00", 1, 1, "not valid UTF-8"},
+		{"larger than 1 MiB", "name: T\nnote: " + strings.Repeat("n", 1<<20) + "\n", 0, 0, "larger than 1048576 bytes"},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			_, err := ParseTrainFile("text.yaml", []byte(c.src))
 			e := fileErrors(t, err)[0]
-			if e.Line != c.line || e.Column != c.col || !strings.Contains(e.Msg, c.msg) || !strings.HasPrefix(e.Error(), "text.yaml line") {
+			if e.Line != c.line || e.Column != c.col || !strings.Contains(e.Msg, c.msg) || !strings.HasPrefix(e.Error(), "text.yaml") {
 				t.Errorf("got %q (line %d, column %d); want line %d, column %d, message with %q", e.Error(), e.Line, e.Column, c.line, c.col, c.msg)
 			}
 		})
@@ -187,6 +192,16 @@ func TestBuiltinLimits(t *testing.T) {
 			}
 		})
 	}
+	t.Run("a train file larger than 1 MiB is read no further", func(t *testing.T) {
+		big := filepath.Join(t.TempDir(), "big.yaml")
+		if err := os.WriteFile(big, []byte("name: T\nnote: "+strings.Repeat("n", 4<<20)+"\n"), 0o600); err != nil {
+			t.Fatal(err)
+		}
+		_, err := ParseSpec(big, nil)
+		if err == nil || !strings.Contains(err.Error(), "big.yaml: larger than 1048576 bytes") {
+			t.Errorf("error %.200v", err)
+		}
+	})
 	t.Run("a long spec is quoted as an excerpt", func(t *testing.T) {
 		_, err := ParseSpec("uniform:q="+strings.Repeat("9", 10000), nil)
 		if err == nil || len(err.Error()) > 400 || !strings.Contains(err.Error(), "…") {
