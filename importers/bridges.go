@@ -131,6 +131,7 @@ func parseBridge(r bridgeRecord, p *row) (store.Bridge, bool) {
 	p.positive(p.pick(colDepth), pickRaw(p, colDepth, r.DepthM, r.DepthFt), depth)
 	dead := p.quantity(colDeadLoad, r.DeadLoadKNPerM, r.DeadLoadKipPerFt)
 	p.positive(p.pick(colDeadLoad), pickRaw(p, colDeadLoad, r.DeadLoadKNPerM, r.DeadLoadKipPerFt), dead)
+	p.atMost(p.pick(colDeadLoad), pickRaw(p, colDeadLoad, r.DeadLoadKNPerM, r.DeadLoadKipPerFt), dead, maxDeadLoadKNPerM, "kN/m")
 	b.Panels = p.integer("panels", r.Panels, true, 0)
 	if r.Panels != "" && b.Panels <= 0 {
 		p.fail("panels", r.Panels, "must be a whole number greater than zero")

@@ -34,6 +34,17 @@ const (
 	// csvBuffer is the size of the read buffer before the CSV reader.
 	csvBuffer = 64 << 10
 
+	// maxDeadLoadKNPerM bounds the dead load one truss carries per metre: tens of kN/m for
+	// the spans screened (common practice), and the bound of a train's distributed load.
+	maxDeadLoadKNPerM = traffic.MaxQKNPerM
+	// maxCapacityKN bounds a member's capacity: the largest truss members carry some tens of
+	// thousands of kN (common practice).
+	maxCapacityKN = 1e6
+	// maxAreaMM2 bounds a member's gross area: 10 m², twenty times a large chord's.
+	maxAreaMM2 = 1e7
+	// maxRatingFactor bounds a stored rating factor.
+	maxRatingFactor = 100.0
+
 	// minYearBuilt is the earliest year_built: iron and steel truss bridges date from the
 	// nineteenth century (common practice).
 	minYearBuilt = 1800

@@ -176,6 +176,63 @@ func TestYearBuilt(t *testing.T) {
 	}
 }
 
+// TestPlausibleQuantities: quantities beyond what a truss or member can be are refused at
+// their column, as typing or unit errors, however finite.
+func TestPlausibleQuantities(t *testing.T) {
+	t.Run("bridges", func(t *testing.T) {
+		cases := []struct {
+			name, value string
+			ok          bool
+		}{
+			// docs/inventory.md: dead load at most 1000 kN/m per truss
+			{"dead load 1e308 kN/m", "1e308", false},
+			{"dead load 1001 kN/m", "1001", false},
+			{"dead load 1000 kN/m", "1000", true},
+		}
+		for _, c := range cases {
+			t.Run(c.name, func(t *testing.T) {
+				rows, _, err := parseB(t, bridgeHeader+rowWith(9, c.value))
+				if c.ok {
+					if err != nil || len(rows) != 1 {
+						t.Fatalf("refused: %v", err)
+					}
+					return
+				}
+				e := fieldErrors(t, err)[0]
+				if e.Line != 2 || e.Column != 10 || e.Field != "dead_load_kn_per_m" || !strings.Contains(e.Msg, "at most 1000 kN/m") {
+					t.Errorf("got %q", e.Error())
+				}
+			})
+		}
+	})
+	t.Run("members", func(t *testing.T) {
+		head := "bridge_id,member,capacity_tension_kn,capacity_compression_kip,rating_factor,reference_train,area_in2\n"
+		cases := []struct {
+			name, row string
+			column    int
+			field     string
+			msg       string
+		}{
+			// docs/inventory.md: capacities at most 1e6 kN, area 1e7 mm², rating factor 100
+			{"tension capacity 1e300 kN", "NME-1,L0-L1,1e300,,,,", 3, "capacity_tension_kn", "at most 1e+06 kN"},
+			// 1 kip = 4.4482216 kN (DOMAIN.md): 300,000 kip is 1.33e6 kN
+			{"compression capacity 300,000 kip", "NME-1,L0-L1,,300000,,,", 4, "capacity_compression_kip", "at most 1e+06 kN"},
+			{"rating factor 1e9", "NME-1,L0-L1,,,1e9,cooper,", 5, "rating_factor", "at most 100"},
+			// 1 in² = 645.16 mm² exactly: 20,000 in² is 1.29e7 mm²
+			{"area 20,000 in²", "NME-1,L0-L1,100,,,,20000", 7, "area_in2", "at most 1e+07 mm²"},
+		}
+		for _, c := range cases {
+			t.Run(c.name, func(t *testing.T) {
+				_, err := ParseMembers("members.csv", strings.NewReader(head+c.row+"\n"), geometryStub{}, func(store.Staged[store.Member]) bool { return true })
+				e := fieldErrors(t, err)[0]
+				if e.Line != 2 || e.Column != c.column || e.Field != c.field || !strings.Contains(e.Msg, c.msg) {
+					t.Errorf("got %q; want column %d (%s), message with %q", e.Error(), c.column, c.field, c.msg)
+				}
+			})
+		}
+	})
+}
+
 func TestErrorValueExcerpt(t *testing.T) {
 	_, _, err := parseB(t, bridgeHeader+rowWith(5, strings.Repeat("9", 60)+"x"))
 	e := fieldErrors(t, err)[0]

@@ -145,12 +145,16 @@ func parseMember(r memberRecord, p *row, geom Geometry) (store.Member, bool) {
 	}
 	m.CapacityTensionKN = p.quantity(colTension, r.CapacityTensionKN, r.CapacityTensionKip)
 	p.positive(p.pick(colTension), pickRaw(p, colTension, r.CapacityTensionKN, r.CapacityTensionKip), m.CapacityTensionKN)
+	p.atMost(p.pick(colTension), pickRaw(p, colTension, r.CapacityTensionKN, r.CapacityTensionKip), m.CapacityTensionKN, maxCapacityKN, "kN")
 	m.CapacityCompressionKN = p.quantity(colCompression, r.CapacityCompressionKN, r.CapacityCompressionKip)
 	p.positive(p.pick(colCompression), pickRaw(p, colCompression, r.CapacityCompressionKN, r.CapacityCompressionKip), m.CapacityCompressionKN)
+	p.atMost(p.pick(colCompression), pickRaw(p, colCompression, r.CapacityCompressionKN, r.CapacityCompressionKip), m.CapacityCompressionKN, maxCapacityKN, "kN")
 	m.AreaMM2 = p.quantity(colArea, r.AreaMM2, r.AreaIn2)
 	p.positive(p.pick(colArea), pickRaw(p, colArea, r.AreaMM2, r.AreaIn2), m.AreaMM2)
+	p.atMost(p.pick(colArea), pickRaw(p, colArea, r.AreaMM2, r.AreaIn2), m.AreaMM2, maxAreaMM2, "mm²")
 	m.RatingFactor = p.number("rating_factor", r.RatingFactor, false)
 	p.positive("rating_factor", r.RatingFactor, m.RatingFactor)
+	p.atMost("rating_factor", r.RatingFactor, m.RatingFactor, maxRatingFactor, "")
 	if r.ReferenceTrain != "" {
 		m.ReferenceTrain = &r.ReferenceTrain
 	}
