@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"fmt"
+	"strings"
 	"testing"
 
 	"github.com/trussfleet/trussfleet/screening/truss"
@@ -83,4 +84,26 @@ func importFleet(b *testing.B, db *store.DB, bridges, members []byte) (Result, R
 		b.Fatal(err)
 	}
 	return rb, rm
+}
+
+// BenchmarkHostileLines parses files of one 10 MB line, each refused at its first 64 KiB:
+// the bytes allocated per file (B/op) are what a line beyond the limit costs.
+//
+//	go test ./importers -run '^$' -bench HostileLines -benchmem
+func BenchmarkHostileLines(b *testing.B) {
+	const size = 10 << 20
+	for _, c := range []struct{ name, text string }{
+		{"header", strings.Repeat("x", size) + "\n"},
+		{"separators", bridgeHeader + strings.Repeat(",", size) + "\n"},
+		{"bridge_id", bridgeHeader + strings.Repeat("x", size) + ",n,l,1,pratt,48,8,6,through,15\n"},
+	} {
+		b.Run(c.name, func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, err := ParseBridges("bridges.csv", strings.NewReader(c.text), func(store.Staged[store.Bridge]) bool { return true }); err == nil {
+					b.Fatal("accepted")
+				}
+			}
+		})
+	}
 }

@@ -45,7 +45,8 @@ var (
 
 	// bridgeColumns are the columns of bridges.csv (docs/inventory.md).
 	bridgeColumns = []column{
-		{name: "bridge_id", required: true}, {name: "name"}, {name: "line"}, colChainage,
+		{name: "bridge_id", required: true, maxChars: maxIDChars}, {name: "name", maxChars: maxNameChars},
+		{name: "line", maxChars: maxNameChars}, colChainage,
 		{name: "truss_type", required: true}, colSpan, {name: "panels", required: true}, colDepth,
 		{name: "deck", required: true}, {name: "end_posts"}, {name: "trusses"}, {name: "truss_share"},
 		{name: "tracks"}, colDeadLoad, {name: "year_built"}, {name: "latitude"}, {name: "longitude"},
@@ -130,6 +131,7 @@ func parseBridge(r bridgeRecord, p *row) (store.Bridge, bool) {
 	p.positive(p.pick(colDepth), pickRaw(p, colDepth, r.DepthM, r.DepthFt), depth)
 	dead := p.quantity(colDeadLoad, r.DeadLoadKNPerM, r.DeadLoadKipPerFt)
 	p.positive(p.pick(colDeadLoad), pickRaw(p, colDeadLoad, r.DeadLoadKNPerM, r.DeadLoadKipPerFt), dead)
+	p.atMost(p.pick(colDeadLoad), pickRaw(p, colDeadLoad, r.DeadLoadKNPerM, r.DeadLoadKipPerFt), dead, maxDeadLoadKNPerM, "kN/m")
 	b.Panels = p.integer("panels", r.Panels, true, 0)
 	if r.Panels != "" && b.Panels <= 0 {
 		p.fail("panels", r.Panels, "must be a whole number greater than zero")
@@ -154,9 +156,11 @@ func parseBridge(r bridgeRecord, p *row) (store.Bridge, bool) {
 	}
 	if r.YearBuilt != "" {
 		y := p.integer("year_built", r.YearBuilt, false, 0)
-		if y != 0 && (y < 1700 || y > 2200) {
-			p.fail("year_built", r.YearBuilt, "must be a year between 1700 and 2200")
-		} else if y != 0 {
+		switch last := maxYearBuilt(); {
+		case p.failed["year_built"]:
+		case y < minYearBuilt || y > last:
+			p.fail("year_built", r.YearBuilt, "must be a year from %d to %d (next year); leave it empty when not known", minYearBuilt, last)
+		default:
 			b.YearBuilt = &y
 		}
 	}

@@ -13,6 +13,7 @@ import (
 	"unicode/utf8"
 
 	"github.com/gocarina/gocsv"
+	"github.com/trussfleet/trussfleet/internal/excerpt"
 )
 
 // lineColumn is a column the source adds to every record so that gocsv, which decodes in a
@@ -26,21 +27,36 @@ type column struct {
 	// alt is the imperial column that may stand in for this one; factor converts its value.
 	alt    string
 	factor float64
+	// maxChars bounds the length of a value, in characters; 0 means maxValueChars.
+	maxChars int
+}
+
+// limit is the longest value the column takes, in characters.
+func (c column) limit() int {
+	if c.maxChars > 0 {
+		return c.maxChars
+	}
+	return maxValueChars
 }
 
 // csvSource reads a CSV file for gocsv: it strips a byte-order mark, normalises the header
-// (trimmed, lower case), trims every field, skips blank rows, checks UTF-8 and field counts,
-// records every problem, and appends each record's line number. Rows with a problem of
-// that kind are skipped, after the error is recorded, so that the rest is still checked.
+// (trimmed, lower case), trims every field, skips blank rows, checks UTF-8, NUL bytes, field
+// counts and the length of every known column's values, records every problem, and appends
+// each record's line number. Rows with a problem of that kind are skipped, after the error
+// is recorded, so that the rest is still checked. A line or a row longer than the limits
+// (limits.go) ends the reading, with its error: the memory a file needs is bounded by them.
 //
 // gocsv calls Read from a goroutine of its own while rows are handled in the caller's, so
 // the source keeps its errors apart (errs, read once decode has returned) and the stop flag
 // is atomic.
 type csvSource struct {
 	r       *csv.Reader
+	in      *boundedReader
 	errs    *errorList
 	header  []string       // normalised names
 	index   map[string]int // name -> 0-based position
+	limits  []int          // longest value of each header position, in characters; 0: not checked
+	nextRow int            // the line after the last row read, where the next row begins or after
 	sent    bool           // header handed to gocsv
 	stopped atomic.Bool
 }
@@ -48,21 +64,26 @@ type csvSource struct {
 // newCSVSource reads and checks the header against the known columns, recording problems
 // in errs. It returns nil when the header is unusable.
 func newCSVSource(file string, r io.Reader, errs *errorList, known []column) *csvSource {
-	cr := csv.NewReader(bufio.NewReaderSize(r, 1<<16))
+	in := newBoundedReader(r)
+	cr := csv.NewReader(bufio.NewReaderSize(in, csvBuffer))
 	cr.FieldsPerRecord = -1 // checked here, to report and go on
 	cr.ReuseRecord = false
 	cr.TrimLeadingSpace = true // so that ` "a, b"` is a quoted field
 	cr.Comment = '#'           // a line starting with # is a note, e.g. the caution of a listing
-	s := &csvSource{r: cr, errs: errs, index: map[string]int{}}
+	s := &csvSource{r: cr, in: in, errs: errs, index: map[string]int{}, nextRow: 1}
 	// From here on the source's errors go in a list of its own (see csvSource).
 	defer func() { s.errs = &errorList{file: file} }()
-	head, err := cr.Read()
+	head, err := s.read()
 	if errors.Is(err, io.EOF) {
 		errs.add(&FieldError{Line: 1, Msg: "the file is empty: a header row naming the columns is needed"})
 		return nil
 	}
 	if err != nil {
 		s.parseError(err)
+		return nil
+	}
+	if len(head) > maxFields {
+		errs.add(&FieldError{Line: 1, Msg: fmt.Sprintf("the header has %d columns; at most %d are read", len(head), maxFields)})
 		return nil
 	}
 	if len(head) > 0 {
@@ -73,8 +94,11 @@ func newCSVSource(file string, r io.Reader, errs *errorList, known []column) *cs
 		name := strings.ToLower(strings.TrimSpace(h))
 		s.header = append(s.header, name)
 		switch {
+		case strings.IndexByte(h, 0) >= 0:
+			errs.add(&FieldError{Line: 1, Column: i + 1, Value: strings.ToValidUTF8(h, "\uFFFD"), Msg: nulMsg(h)})
+			bad = true
 		case !utf8.ValidString(h):
-			errs.add(&FieldError{Line: 1, Column: i + 1, Value: h, Msg: "header is not valid UTF-8 text (is this a CSV file?)"})
+			errs.add(&FieldError{Line: 1, Column: i + 1, Value: strings.ToValidUTF8(h, "\uFFFD"), Msg: "header is not valid UTF-8 text (is this a CSV file?)"})
 			bad = true
 		case name == "":
 			// A trailing separator gives an empty name; a column without a name is ignored.
@@ -103,14 +127,46 @@ func newCSVSource(file string, r io.Reader, errs *errorList, known []column) *cs
 			if c.alt != "" {
 				msg += " (or " + c.alt + ")"
 			}
-			errs.add(&FieldError{Line: 1, Msg: msg + "; the header has: " + strings.Join(s.named(), ", ")})
+			errs.add(&FieldError{Line: 1, Msg: msg + "; the header has: " + excerpt.List(s.named(), 30)})
 			bad = true
 		}
 	}
 	if bad {
 		return nil
 	}
+	s.limits = make([]int, len(s.header))
+	for _, c := range known {
+		for _, name := range []string{c.name, c.alt} {
+			if i, ok := s.index[name]; ok && name != "" {
+				s.limits[i] = c.limit()
+			}
+		}
+	}
 	return s
+}
+
+// read reads one record and notes where it ended: the offset, for the row limit of the
+// bounded reader, and the line, for its message.
+func (s *csvSource) read() ([]string, error) {
+	rec, err := s.r.Read()
+	s.in.rowStart = s.r.InputOffset()
+	var pe *csv.ParseError
+	switch {
+	case err == nil && len(rec) > 0:
+		// The last field may be quoted over several lines; the CSV reader makes each line
+		// end in one '\n'.
+		line, _ := s.r.FieldPos(len(rec) - 1)
+		s.nextRow = line + strings.Count(rec[len(rec)-1], "\n") + 1
+	case errors.As(err, &pe):
+		s.nextRow = pe.Line + 1
+	}
+	return rec, err
+}
+
+// nulMsg says where in a value its first NUL byte is.
+func nulMsg(v string) string {
+	at := utf8.RuneCountInString(v[:strings.IndexByte(v, 0)]) + 1
+	return fmt.Sprintf("a NUL byte (character %d of the value): a text file has none; is this a binary or UTF-16 file?", at)
 }
 
 // named lists the header's non-empty names.
@@ -127,16 +183,27 @@ func (s *csvSource) named() []string {
 	return out
 }
 
-// unknown lists the header's columns that are not in known (they are ignored).
+// unknown lists the header's columns that are not in known (they are ignored), as excerpts
+// and at most maxIgnoredListed of them, the last entry then counting the rest.
 func (s *csvSource) unknown(known []column) []string {
 	var out []string
+	n := 0
 	for _, h := range s.named() {
 		if !slices.ContainsFunc(known, func(c column) bool { return c.name == h || c.alt == h }) && h != "(nothing)" {
-			out = append(out, h)
+			if n < maxIgnoredListed {
+				out = append(out, excerpt.Cut(h))
+			}
+			n++
 		}
+	}
+	if n > maxIgnoredListed {
+		out = append(out, fmt.Sprintf("… and %d more", n-maxIgnoredListed))
 	}
 	return out
 }
+
+// maxIgnoredListed bounds the list of ignored columns a report gives.
+const maxIgnoredListed = 30
 
 // has reports whether the header names a column.
 func (s *csvSource) has(name string) bool { _, ok := s.index[name]; return ok }
@@ -156,9 +223,14 @@ func (s *csvSource) Read() ([]string, error) {
 		return append(slices.Clone(s.header), lineColumn), nil
 	}
 	for !s.stopped.Load() {
-		rec, err := s.r.Read()
+		rec, err := s.read()
 		if errors.Is(err, io.EOF) {
 			return nil, io.EOF
+		}
+		var le *limitError
+		if errors.As(err, &le) {
+			s.parseError(err)
+			return nil, io.EOF // what follows cannot be read as rows
 		}
 		if err != nil {
 			var pe *csv.ParseError
@@ -194,6 +266,10 @@ func (s *csvSource) ReadAll() ([][]string, error) {
 
 // checkRecord trims the fields in place and reports whether the row is to be decoded.
 func (s *csvSource) checkRecord(rec []string, line int) bool {
+	if len(rec) > maxFields {
+		s.errs.add(&FieldError{Line: line, Msg: fmt.Sprintf("%d fields; at most %d are read (the header has %d columns)", len(rec), maxFields, len(s.header))})
+		return false
+	}
 	blank := true
 	for i, f := range rec {
 		rec[i] = strings.TrimSpace(f)
@@ -206,10 +282,20 @@ func (s *csvSource) checkRecord(rec []string, line int) bool {
 	}
 	ok := true
 	for i, f := range rec {
-		if !utf8.ValidString(f) || strings.ContainsRune(f, 0) {
+		switch {
+		case strings.IndexByte(f, 0) >= 0:
+			s.errs.add(&FieldError{Line: line, Column: i + 1, Field: s.nameAt(i), Value: strings.ToValidUTF8(f, "\uFFFD"), Msg: nulMsg(f)})
+			ok = false
+		case !utf8.ValidString(f):
 			s.errs.add(&FieldError{Line: line, Column: i + 1, Field: s.nameAt(i), Value: strings.ToValidUTF8(f, "\uFFFD"),
 				Msg: "not valid UTF-8 text"})
 			ok = false
+		case i < len(s.limits) && s.limits[i] > 0 && len(f) > s.limits[i]:
+			if n := utf8.RuneCountInString(f); n > s.limits[i] {
+				s.errs.add(&FieldError{Line: line, Column: i + 1, Field: s.nameAt(i), Value: f,
+					Msg: fmt.Sprintf("%d characters; %s takes at most %d", n, s.nameAt(i), s.limits[i])})
+				ok = false
+			}
 		}
 	}
 	if len(rec) < len(s.header) {
@@ -234,6 +320,16 @@ func (s *csvSource) nameAt(i int) string {
 
 func (s *csvSource) parseError(err error) {
 	var pe *csv.ParseError
+	var le *limitError
+	if errors.As(err, &le) {
+		if le.row {
+			s.errs.add(&FieldError{Line: s.nextRow, Msg: fmt.Sprintf(
+				"the row that begins here (or after blank lines) runs on to line %d, more than %d MiB: is a closing quote missing?", le.line, maxRowBytes>>20)})
+			return
+		}
+		s.errs.add(&FieldError{Line: le.line, Msg: le.msg()})
+		return
+	}
 	if errors.As(err, &pe) {
 		// pe.Column counts characters, not fields: say so rather than call it a column.
 		s.errs.add(&FieldError{Line: pe.Line, Msg: fmt.Sprintf("malformed CSV at character %d: %v", pe.Column, pe.Err)})

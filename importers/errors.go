@@ -4,13 +4,16 @@ import (
 	"fmt"
 	"sort"
 	"strings"
+
+	"github.com/trussfleet/trussfleet/internal/excerpt"
 )
 
 // MaxErrors is how many errors of one file are kept; the rest are counted.
 const MaxErrors = 200
 
 // FieldError is one problem in an input file, located as precisely as the problem allows:
-// a line (1 is the header), a column (1-based) and the column's name, and the value found.
+// a line (1 is the header), a column (1-based) and the column's name, and the value found
+// (an excerpt of it, once the error is in a file's list).
 type FieldError struct {
 	File   string
 	Line   int
@@ -33,7 +36,7 @@ func (e *FieldError) Error() string {
 		fmt.Fprintf(&b, " (%s)", e.Field)
 	}
 	if e.Column > 0 || e.Field != "" {
-		fmt.Fprintf(&b, ", value %q", e.Value)
+		fmt.Fprintf(&b, ", value %q", excerpt.Cut(e.Value))
 	}
 	b.WriteString(": ")
 	b.WriteString(e.Msg)
@@ -83,6 +86,7 @@ type errorList struct {
 
 func (l *errorList) add(e *FieldError) {
 	e.File = l.file
+	e.Value = excerpt.Cut(e.Value) // the list keeps no input longer than a message quotes
 	if len(l.errs) < MaxErrors {
 		l.errs = append(l.errs, e)
 	} else {

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"strconv"
+	"strings"
 	"time"
 )
 
@@ -95,6 +96,15 @@ func (p *row) quantity(c column, metric, imperial string) *float64 {
 func (p *row) positive(name, raw string, f *float64) {
 	if f != nil && !(*f > 0) {
 		p.fail(name, raw, "must be greater than zero")
+	}
+}
+
+// atMost checks that a present value that is greater than zero is at most limit (in the
+// unit given, after conversion from an imperial column). name is the column the value came
+// from.
+func (p *row) atMost(name, raw string, f *float64, limit float64, unit string) {
+	if f != nil && *f > 0 && *f > limit {
+		p.fail(name, raw, "must be at most %s: a larger value is a typing or unit error", strings.TrimSpace(fmt.Sprintf("%g %s", limit, unit)))
 	}
 }
 

@@ -4,7 +4,9 @@ import (
 	"bytes"
 	"math"
 	"os"
+	"strings"
 	"testing"
+	"unicode/utf8"
 
 	"github.com/trussfleet/trussfleet/store"
 )
@@ -25,7 +27,10 @@ func FuzzParseBridges(f *testing.F) {
 			finite := func(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 			if r.Line < 2 || b.BridgeID == "" || !(b.SpanM > 0) || !finite(b.SpanM) || !(b.DepthM > 0) || !finite(b.DepthM) ||
 				b.Panels < 1 || !(b.DeadLoadKNPerM > 0) || !finite(b.DeadLoadKNPerM) || !(b.TrussShare > 0 && b.TrussShare <= 1) ||
-				b.Trusses < 1 || b.Tracks < 1 || (b.Deck != "through" && b.Deck != "deck") {
+				b.Trusses < 1 || b.Tracks < 1 || (b.Deck != "through" && b.Deck != "deck") ||
+				utf8.RuneCountInString(b.BridgeID) > maxIDChars || utf8.RuneCountInString(b.Name) > maxNameChars ||
+				utf8.RuneCountInString(b.Line) > maxNameChars || strings.ContainsRune(b.Name, 0) ||
+				(b.YearBuilt != nil && (*b.YearBuilt < minYearBuilt || *b.YearBuilt > maxYearBuilt())) {
 				t.Errorf("row breaking the rules passed on: %+v", r)
 			}
 			return true

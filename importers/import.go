@@ -9,6 +9,7 @@ import (
 	"os"
 	"strings"
 
+	"github.com/trussfleet/trussfleet/internal/excerpt"
 	"github.com/trussfleet/trussfleet/store"
 )
 
@@ -127,7 +128,7 @@ func duplicateErrors(ctx context.Context, im *store.Import, file string, key []s
 	for _, d := range dups {
 		for _, line := range d.Lines[1:] {
 			errs.add(&FieldError{Line: line, Column: rep.columns[last], Field: last, Value: d.Key[len(d.Key)-1],
-				Msg: fmt.Sprintf("%s %s repeated: first on line %d", strings.Join(key, ", "), strings.Join(d.Key, ", "), d.Lines[0])})
+				Msg: fmt.Sprintf("%s %s repeated: first on line %d", strings.Join(key, ", "), excerpt.List(d.Key, len(d.Key)), d.Lines[0])})
 		}
 	}
 	return errs.err()

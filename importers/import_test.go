@@ -90,6 +90,11 @@ func TestBadFileWritesNothing(t *testing.T) {
 	}{
 		{"one bad row among good ones", bridgeHeader + "NEW-1,X,Main,1,pratt,48,8,6,through,15\nNEW-2,X,Main,1,pratt,48,7,6,through,15\n", "even number", 3},
 		{"duplicate key within a file", bridgeHeader + "NEW-1,X,Main,1,pratt,48,8,6,through,15\nNEW-2,X,Main,1,pratt,48,8,6,through,15\nNEW-1,Y,Main,1,pratt,50,8,6,through,15\n", "first on line 2", 4},
+		// Refused before PostgreSQL sees it, which would fail on the index row's size.
+		{"bridge_id of 3,000 characters", bridgeHeader + "NEW-1,X,Main,1,pratt,48,8,6,through,15\n" + strings.Repeat("N", 3000) + ",X,Main,1,pratt,48,8,6,through,15\n",
+			"line 3, column 1 (bridge_id), value \"" + strings.Repeat("N", 39) + "…\": 3000 characters; bridge_id takes at most 64", 3},
+		{"a line of 10 MB", bridgeHeader + "NEW-1,X,Main,1,pratt,48,8,6,through,15\nNEW-2," + strings.Repeat("n", 10<<20) + ",Main,1,pratt,48,8,6,through,15\n",
+			"line 3: a line longer than 64 KiB", 3},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -178,6 +183,27 @@ func TestImportTrains(t *testing.T) {
 		_, err := ImportTrains(ctx, db, bad, Options{})
 		if err == nil || !strings.Contains(err.Error(), "b.yaml") {
 			t.Errorf("error %v: want one naming b.yaml", err)
+		}
+	})
+	t.Run("a train beyond the limits writes nothing", func(t *testing.T) {
+		before, _ := db.Trains(ctx)
+		dir := t.TempDir()
+		// 100,000 vehicles 10 mm long: refused at the vehicle's length and the count.
+		os.WriteFile(filepath.Join(dir, "tiny.yaml"), []byte("name: Tiny\nvehicles:\n  - id: t\n    length: 0.01\n    axles: [{at: 0, load: 10}]\nconsist:\n  - {vehicle: t, count: 100000}\n"), 0o644)
+		os.WriteFile(filepath.Join(dir, "nul.yaml"), []byte("name: N\x00\n"), 0o644)
+		_, err := ImportTrains(ctx, db, dir, Options{})
+		for _, want := range []string{
+			"tiny.yaml line 4, column 13: vehicles[0].length: 0.01 m; a vehicle is at least 2 m long",
+			"tiny.yaml line 7, column 25: consist[0].count: 100000 vehicles; a train has at most 400",
+			"nul.yaml line 1, column 8: a NUL byte",
+		} {
+			if err == nil || !strings.Contains(err.Error(), want) {
+				t.Errorf("error %v: want one saying %q", err, want)
+			}
+		}
+		after, _ := db.Trains(ctx)
+		if len(after) != len(before) {
+			t.Errorf("%d trains after a failed import, %d before", len(after), len(before))
 		}
 	})
 }

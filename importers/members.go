@@ -6,6 +6,7 @@ import (
 	"path/filepath"
 	"strings"
 
+	"github.com/trussfleet/trussfleet/internal/excerpt"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 	"github.com/trussfleet/trussfleet/screening/truss"
 	"github.com/trussfleet/trussfleet/store"
@@ -37,14 +38,11 @@ var (
 
 	// memberColumns are the columns of members.csv (docs/inventory.md).
 	memberColumns = []column{
-		{name: "bridge_id", required: true}, {name: "member", required: true}, colTension, colCompression,
-		{name: "rating_factor"}, {name: "reference_train"}, {name: "condition_factor"}, colArea,
-		{name: "fatigue_category"},
+		{name: "bridge_id", required: true, maxChars: maxIDChars}, {name: "member", required: true, maxChars: maxIDChars},
+		colTension, colCompression, {name: "rating_factor"}, {name: "reference_train", maxChars: maxNameChars},
+		{name: "condition_factor"}, colArea, {name: "fatigue_category", maxChars: maxFatigueCategory},
 	}
 )
-
-// maxFatigueCategory bounds the length of a fatigue detail category's name ("71", "E'").
-const maxFatigueCategory = 16
 
 // Geometry tells the member parser about the stored bridges.
 type Geometry interface {
@@ -147,12 +145,16 @@ func parseMember(r memberRecord, p *row, geom Geometry) (store.Member, bool) {
 	}
 	m.CapacityTensionKN = p.quantity(colTension, r.CapacityTensionKN, r.CapacityTensionKip)
 	p.positive(p.pick(colTension), pickRaw(p, colTension, r.CapacityTensionKN, r.CapacityTensionKip), m.CapacityTensionKN)
+	p.atMost(p.pick(colTension), pickRaw(p, colTension, r.CapacityTensionKN, r.CapacityTensionKip), m.CapacityTensionKN, maxCapacityKN, "kN")
 	m.CapacityCompressionKN = p.quantity(colCompression, r.CapacityCompressionKN, r.CapacityCompressionKip)
 	p.positive(p.pick(colCompression), pickRaw(p, colCompression, r.CapacityCompressionKN, r.CapacityCompressionKip), m.CapacityCompressionKN)
+	p.atMost(p.pick(colCompression), pickRaw(p, colCompression, r.CapacityCompressionKN, r.CapacityCompressionKip), m.CapacityCompressionKN, maxCapacityKN, "kN")
 	m.AreaMM2 = p.quantity(colArea, r.AreaMM2, r.AreaIn2)
 	p.positive(p.pick(colArea), pickRaw(p, colArea, r.AreaMM2, r.AreaIn2), m.AreaMM2)
+	p.atMost(p.pick(colArea), pickRaw(p, colArea, r.AreaMM2, r.AreaIn2), m.AreaMM2, maxAreaMM2, "mm²")
 	m.RatingFactor = p.number("rating_factor", r.RatingFactor, false)
 	p.positive("rating_factor", r.RatingFactor, m.RatingFactor)
+	p.atMost("rating_factor", r.RatingFactor, m.RatingFactor, maxRatingFactor, "")
 	if r.ReferenceTrain != "" {
 		m.ReferenceTrain = &r.ReferenceTrain
 	}
@@ -160,7 +162,7 @@ func parseMember(r memberRecord, p *row, geom Geometry) (store.Member, bool) {
 	case r.RatingFactor != "" && r.ReferenceTrain == "":
 		p.fail("reference_train", r.ReferenceTrain, "a rating_factor needs the reference_train it was rated for")
 	case r.RatingFactor == "" && r.ReferenceTrain != "":
-		p.fail("rating_factor", r.RatingFactor, "reference_train %q is given without a rating_factor", r.ReferenceTrain)
+		p.fail("rating_factor", r.RatingFactor, "reference_train %q is given without a rating_factor", excerpt.Cut(r.ReferenceTrain))
 	}
 	if tc, ok := geom.(TrainChecker); ok && r.ReferenceTrain != "" && !tc.KnownTrain(r.ReferenceTrain) {
 		p.fail("reference_train", r.ReferenceTrain, "not a stored train (import the train files first: trussfleet import trains DIR) nor a built-in model")
@@ -170,9 +172,6 @@ func parseMember(r memberRecord, p *row, geom Geometry) (store.Member, bool) {
 		if !(*f > 0 && *f <= 1) {
 			p.fail("condition_factor", r.ConditionFactor, "must be greater than 0 and at most 1 (1: no loss of capacity)")
 		}
-	}
-	if len(r.FatigueCategory) > maxFatigueCategory {
-		p.fail("fatigue_category", r.FatigueCategory, "longer than %d characters", maxFatigueCategory)
 	}
 	noCapacity := r.CapacityTensionKN == "" && r.CapacityTensionKip == "" &&
 		r.CapacityCompressionKN == "" && r.CapacityCompressionKip == "" && r.RatingFactor == ""

@@ -10,15 +10,14 @@ import (
 	"path/filepath"
 	"sort"
 	"strings"
-	"unicode/utf8"
 
+	"github.com/trussfleet/trussfleet/internal/excerpt"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 	"github.com/trussfleet/trussfleet/store"
 )
 
-// maxTrainFile bounds a train file's size: a train is a few dozen lines; anything much
-// larger is not a train file.
-const maxTrainFile = 1 << 20
+// maxTrainFile bounds a train file's size, as the train parser does.
+const maxTrainFile = traffic.MaxFileBytes
 
 // ImportTrains checks and stores the train file at path, or every .yaml and .yml file of
 // the directory at path. Each is parsed with the traffic package and stored under its
@@ -42,7 +41,7 @@ func ImportTrains(ctx context.Context, db *store.DB, path string, opts Options) 
 			continue
 		}
 		if first, dup := seen[t.Name]; dup {
-			errs.add(&FieldError{Msg: fmt.Sprintf("%s: train name %q is also the name of the train in %s", f, t.Name, first)})
+			errs.add(&FieldError{Msg: fmt.Sprintf("%s: train name %q is also the name of the train in %s", f, excerpt.Cut(t.Name), first)})
 			continue
 		}
 		seen[t.Name] = f
@@ -127,12 +126,10 @@ func readTrain(path string) (store.Train, error) {
 	if len(data) > maxTrainFile {
 		return store.Train{}, fmt.Errorf("%s: larger than %d bytes: not a train file", path, maxTrainFile)
 	}
-	if !utf8.Valid(data) {
-		return store.Train{}, fmt.Errorf("%s: not UTF-8 text: not a train file", path)
-	}
 	t, err := traffic.ParseTrainFile(path, data)
 	if err != nil {
-		// The traffic package's message names the file, the line and the field.
+		// The traffic package's message names the file, the line and the field (a NUL byte
+		// or invalid UTF-8 included), and the limits of a train exceeded.
 		return store.Train{}, err
 	}
 	sum := sha256.Sum256(data)

@@ -117,12 +117,12 @@ func TestEndToEnd(t *testing.T) {
 				t.Errorf("%s %s = %q, want %.4f", w.id, col, r[col], v)
 			}
 		}
-		// The proposed axle stood over L2 (x = 12 m) for the worst member: its front 0.5 m
+		// The proposed axle stood over L2 (x = 12 m) for the worst member: its front 1 m
 		// ahead of it in the direction of travel.
 		head, _ := strconv.ParseFloat(r["governing_head_m"], 64)
-		ahead := 0.5
+		ahead := 1.0
 		if r["governing_direction"] == "right-to-left" {
-			ahead = -0.5
+			ahead = -1.0
 		}
 		if r["governing_train"] != "Test axle 400" || r["governing_sense"] != "tension" || math.Abs(head-ahead-12) > 1e-4 {
 			t.Errorf("%s governing %q %q head %v", w.id, r["governing_train"], r["governing_sense"], head)

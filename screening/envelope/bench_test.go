@@ -1,6 +1,7 @@
 package envelope
 
 import (
+	"fmt"
 	"math"
 	"slices"
 	"testing"
@@ -217,4 +218,74 @@ func stepEnvelope(l *Lines, x []float64, ord [][]float64, tr *traffic.Train, ld 
 		}
 	}
 	return mx, mn
+}
+
+// largestTrains are trains at the limits of screening/traffic (limits.go), read through the
+// train file parser so that they are known to be admissible. Their vehicle is 2.5 m long
+// with five 100 kN axles 0.5 m apart, and 0.5 m across each coupling:
+//   - axles: 400 such vehicles, 2,000 axles in all;
+//   - axles-variable: 1 to 400 of them (no distributed parts: swept at as many counts as
+//     the span holds vehicles);
+//   - parts-variable: 391 to 400 of them (the most counts a train with parts may vary over)
+//     with the most parts, three applied where unfavourable and one cut at the
+//     unfavourable length, which need the refined grid: the costliest train found.
+func largestTrains(b *testing.B) map[string]*traffic.Train {
+	const file = `name: %s
+vehicles:
+  - id: dense
+    length: 2.5
+    axles: [{at: 0, load: 100}, {at: 0.5, load: 100}, {at: 1, load: 100}, {at: 1.5, load: 100}, {at: 2, load: 100}]
+consist:
+  - {vehicle: dense, %s}
+%s`
+	const parts = `distributed:
+  - {from: 1000, to: 1005, q: 80, mode: unfavourable}
+  - {from: 1010, to: 1015, q: 80, mode: unfavourable}
+  - {from: 1020, to: 1025, q: 80, mode: unfavourable}
+  - {from: 1200, to: .inf, q: 80, mode: cut}
+`
+	out := map[string]*traffic.Train{}
+	for _, c := range []struct{ name, count, parts string }{
+		{"axles", "count: 400", ""},
+		{"axles-variable", "min: 1, max: 400", ""},
+		{"parts-variable", "min: 391, max: 400", parts},
+	} {
+		tr, err := traffic.ParseTrainFile(c.name+".yaml", []byte(fmt.Sprintf(file, c.name, c.count, c.parts)))
+		if err != nil {
+			b.Fatal(err)
+		}
+		out[c.name] = tr
+	}
+	return out
+}
+
+// BenchmarkEnvelopeLargestTrain sweeps the largest admissible trains over a 120 m Pratt
+// truss of 16 panels and over the longest the geometry admits, 400 m of 80 panels (20 m
+// deep): the cost of screening one bridge under the worst a train file may say.
+//
+//	go test ./screening/envelope -run XXX -bench LargestTrain -benchtime 3x
+func BenchmarkEnvelopeLargestTrain(b *testing.B) {
+	trains := largestTrains(b)
+	for _, s := range []struct {
+		name string
+		p    truss.Params
+	}{
+		{"120m", truss.Params{Type: "pratt", SpanM: 120, Panels: 16, DepthM: 12}},
+		{"400m", truss.Params{Type: "pratt", SpanM: 400, Panels: 80, DepthM: 20}},
+	} {
+		l := builtLines(b, s.p)
+		for _, name := range []string{"axles", "axles-variable", "parts-variable"} {
+			ld, err := Prepare(trains[name])
+			if err != nil {
+				b.Fatal(err)
+			}
+			b.Run(s.name+"/"+name, func(b *testing.B) {
+				var c Calculator
+				var out []Extremes
+				for b.Loop() {
+					out = c.Envelope(l, ld, Options{}, out)
+				}
+			})
+		}
+	}
 }

@@ -6,6 +6,8 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+
+	"github.com/trussfleet/trussfleet/internal/excerpt"
 )
 
 // builtin is a standard load model selectable by name on the command line.
@@ -16,10 +18,38 @@ type builtin struct {
 	build  func(p map[string]float64) (*Train, error)
 }
 
+// param is a built-in model's parameter: its default and its admissible range, lo to hi,
+// lo itself excluded when loOpen, and +Inf admitted when infOK (an unlimited length).
 type param struct {
-	name string
-	def  float64
-	help string
+	name   string
+	def    float64
+	help   string
+	lo, hi float64
+	loOpen bool
+	infOK  bool
+	unit   string
+}
+
+// check says what is wrong with a value of the parameter, or nothing.
+func (p param) check(v float64) error {
+	if math.IsInf(v, 1) && p.infOK {
+		return nil
+	}
+	if (v > p.lo || (v == p.lo && !p.loOpen)) && v <= p.hi {
+		return nil
+	}
+	unit := ""
+	if p.unit != "" {
+		unit = " " + p.unit
+	}
+	msg := fmt.Sprintf("parameter %s must lie between %g and %g%s", p.name, p.lo, p.hi, unit)
+	if p.loOpen {
+		msg = fmt.Sprintf("parameter %s must be greater than %g and at most %g%s", p.name, p.lo, p.hi, unit)
+	}
+	if p.infOK {
+		msg += ", or inf (unlimited)"
+	}
+	return fmt.Errorf("%s, got %g", msg, v)
 }
 
 // builtins lists the standard models. All values are from memory (EN 1991-2 section 6.3, the
@@ -29,13 +59,13 @@ var builtins = []builtin{
 		name:   "lm71",
 		params: []param{alphaParam},
 		help:   "EN 1991-2 Load Model 71: 4 x 250 kN at 1.6 m, 80 kN/m beyond 0.8 m from the outer axles where unfavourable",
-		build:  withAlpha("lm71", LM71),
+		build:  withAlpha(LM71),
 	},
 	{
 		name:   "sw0",
 		params: []param{alphaParam},
 		help:   "EN 1991-2 SW/0: two 133 kN/m parts 15.0 m long, 5.3 m apart",
-		build:  withAlpha("sw0", SW0),
+		build:  withAlpha(SW0),
 	},
 	{
 		name: "sw2",
@@ -53,55 +83,50 @@ var builtins = []builtin{
 	},
 	{
 		name:   "cooper",
-		params: []param{{"e", 80, "E number: loads scale by e/80"}},
+		params: []param{eParam},
 		help:   "AREMA Cooper E-n: two locomotives then 8 kip/ft (E80) cut at the unfavourable length",
 		build: func(p map[string]float64) (*Train, error) {
-			if !(p["e"] > 0) {
-				return nil, fmt.Errorf("cooper e: must be positive, got %v", p["e"])
-			}
 			return Cooper(p["e"]), nil
 		},
 	},
 	{
 		name:   "cooper-alt",
-		params: []param{{"e", 80, "E number: loads scale by e/80"}},
+		params: []param{eParam},
 		help:   "AREMA alternate live load: four 100 kip axles (E80) at 5, 6, 5 ft",
 		build: func(p map[string]float64) (*Train, error) {
-			if !(p["e"] > 0) {
-				return nil, fmt.Errorf("cooper-alt e: must be positive, got %v", p["e"])
-			}
 			return CooperAlternate(p["e"]), nil
 		},
 	},
 	{
 		name: "uniform",
 		params: []param{
-			{"q", math.NaN(), "load, kN/m (required)"},
-			{"min", 0, "shortest loaded length unless touching a bearing, m"},
-			{"max", math.Inf(1), "longest loaded length, m"},
+			{name: "q", def: math.NaN(), help: "load, kN/m (required)", lo: 0, loOpen: true, hi: MaxQKNPerM, unit: "kN/m"},
+			{name: "min", def: 0, help: "shortest loaded length unless touching a bearing, m", lo: 0, hi: MaxTrainLengthM, infOK: true, unit: "m"},
+			{name: "max", def: math.Inf(1), help: "longest loaded length, m", lo: 0, loOpen: true, hi: MaxTrainLengthM, infOK: true, unit: "m"},
 		},
 		help: "uniform load of variable length",
 		build: func(p map[string]float64) (*Train, error) {
 			if math.IsNaN(p["q"]) {
 				return nil, fmt.Errorf("uniform: q is required, e.g. uniform:q=20,min=12,max=48")
 			}
-			t := NewUniform(p["q"], p["min"], p["max"])
-			return t, t.Validate()
+			return NewUniform(p["q"], p["min"], p["max"]), nil
 		},
 	},
 }
 
-var alphaParam = param{"alpha", 1, "classification factor, 0.75 to 1.46"}
+// alphaParam is EN 1991-2's classification factor, which it bounds to 0.75..1.46 (from
+// memory).
+var alphaParam = param{name: "alpha", def: 1, help: "classification factor, 0.75 to 1.46", lo: 0.75, hi: 1.46}
 
-// withAlpha builds an EN 1991-2 model whose loads scale by the classification factor alpha,
-// which EN 1991-2 bounds to 0.75..1.46 (from memory).
-func withAlpha(name string, model func(alpha float64) *Train) func(map[string]float64) (*Train, error) {
+// eParam is the E number of AREMA's Cooper loading. E80 is the usual design loading (from
+// memory); E200 puts 250 kip, 1112 kN, on an axle of the alternate load, whose four axles in
+// 16 ft then carry 912 kN per metre, within MaxAxleLoadKN and MaxQKNPerM.
+var eParam = param{name: "e", def: 80, help: "E number, up to 200: loads scale by e/80", lo: 0, loOpen: true, hi: 200}
+
+// withAlpha builds an EN 1991-2 model whose loads scale by the classification factor alpha.
+func withAlpha(model func(alpha float64) *Train) func(map[string]float64) (*Train, error) {
 	return func(p map[string]float64) (*Train, error) {
-		a := p["alpha"]
-		if a < 0.75 || a > 1.46 {
-			return nil, fmt.Errorf("%s alpha: must lie between 0.75 and 1.46, got %v", name, a)
-		}
-		return model(a), nil
+		return model(p["alpha"]), nil
 	}
 }
 
@@ -132,7 +157,8 @@ func (b builtin) usage() string {
 
 // Builtin builds a standard model from its command-line form "name" or
 // "name:key=value,key=value" (for example "lm71:alpha=1.33", "cooper:e=80",
-// "uniform:q=20,min=12,max=48"). ok is false when name is no built-in model.
+// "uniform:q=20,min=12,max=48"). ok is false when name is no built-in model. Each parameter
+// must lie in its range, which keeps the model within the limits of a train (limits.go).
 func Builtin(spec string) (t *Train, ok bool, err error) {
 	name, args, _ := strings.Cut(spec, ":")
 	i := slices.IndexFunc(builtins, func(b builtin) bool { return b.name == strings.ToLower(name) })
@@ -145,34 +171,41 @@ func Builtin(spec string) (t *Train, ok bool, err error) {
 		vals[p.name] = p.def
 	}
 	given := map[string]bool{}
+	quoted := excerpt.Cut(spec)
 	if args != "" {
 		for kv := range strings.SplitSeq(args, ",") {
 			k, v, found := strings.Cut(kv, "=")
 			k = strings.ToLower(strings.TrimSpace(k))
-			if _, known := vals[k]; !known {
-				return nil, true, fmt.Errorf("train %q: unknown parameter %q; %s takes %s", spec, kv, b.name, b.paramList())
+			i := slices.IndexFunc(b.params, func(p param) bool { return p.name == k })
+			if i < 0 {
+				return nil, true, fmt.Errorf("train %q: unknown parameter %q; %s takes %s", quoted, excerpt.Cut(kv), b.name, b.paramList())
 			}
 			if !found || strings.TrimSpace(v) == "" {
-				return nil, true, fmt.Errorf("train %q: parameter %s needs a value, e.g. %s=1; %s takes %s", spec, k, k, b.name, b.paramList())
+				return nil, true, fmt.Errorf("train %q: parameter %s needs a value, e.g. %s=1; %s takes %s", quoted, k, k, b.name, b.paramList())
 			}
 			if given[k] {
-				return nil, true, fmt.Errorf("train %q: parameter %s given twice", spec, k)
+				return nil, true, fmt.Errorf("train %q: parameter %s given twice", quoted, k)
 			}
 			given[k] = true
 			f, err := strconv.ParseFloat(strings.TrimSpace(v), 64)
 			if err != nil || math.IsNaN(f) {
-				return nil, true, fmt.Errorf("train %q: parameter %s: not a number: %q", spec, k, v)
+				return nil, true, fmt.Errorf("train %q: parameter %s: not a number: %q", quoted, k, excerpt.Cut(v))
 			}
-			// Only a length may be unlimited (uniform:max=inf); a load or factor must be finite.
-			if math.IsInf(f, 0) && (f < 0 || (k != "max" && k != "min")) {
-				return nil, true, fmt.Errorf("train %q: parameter %s must be a finite number, got %q", spec, k, v)
+			if err := b.params[i].check(f); err != nil {
+				return nil, true, fmt.Errorf("train %q: %w", quoted, err)
 			}
 			vals[k] = f
 		}
 	}
 	t, err = b.build(vals)
+	if err == nil {
+		err = t.Validate()
+	}
+	if err == nil {
+		err = t.CheckLimits()
+	}
 	if err != nil {
-		return nil, true, fmt.Errorf("train %q: %w", spec, err)
+		return nil, true, fmt.Errorf("train %q: %w", quoted, err)
 	}
 	return t, true, nil
 }

@@ -5,6 +5,8 @@ import (
 	"math"
 	"strconv"
 	"strings"
+
+	"github.com/trussfleet/trussfleet/internal/excerpt"
 )
 
 // DynamicKind selects a dynamic allowance formula.
@@ -109,6 +111,14 @@ func (d Dynamic) String() string {
 // typing error, not an allowance.
 const maxFixedFraction = 2.0
 
+// Bounds of the lengths an allowance takes, m: the determinant length l of a truss member
+// is at most a few spans (a span is at most 400 m), and trusses stand a track's width or
+// more apart, so that AREMA's rocking effect, 100/S percent with S in ft, stays below a
+// third of the live load.
+const minTrussSpacingM = 1.0
+
+var dynamicLengthMax = map[string]float64{"l": 2000, "s": 50}
+
 const dynamicSyntax = "none, fixed:FRACTION (e.g. fixed:0.2), phi2[:l=M], phi3[:l=M], arema[:l=M,s=M] (l: determinant length, default the span; s: distance between trusses for the rocking effect)"
 
 // ParseDynamic reads an allowance: "none", "fixed:0.2", "phi2", "phi3", "arema", optionally
@@ -120,13 +130,13 @@ func ParseDynamic(s string) (Dynamic, error) {
 	switch name {
 	case "", "none":
 		if hasArgs {
-			return d, fmt.Errorf("dynamic allowance %q: none takes no parameters", s)
+			return d, fmt.Errorf("dynamic allowance %q: none takes no parameters", excerpt.Cut(s))
 		}
 		return d, nil
 	case "fixed":
 		f, err := strconv.ParseFloat(args, 64)
 		if err != nil || !(f >= 0 && f <= maxFixedFraction) {
-			return d, fmt.Errorf("dynamic allowance %q: fixed needs a fraction from 0 to %g, e.g. fixed:0.2", s, maxFixedFraction)
+			return d, fmt.Errorf("dynamic allowance %q: fixed needs a fraction from 0 to %g, e.g. fixed:0.2", excerpt.Cut(s), maxFixedFraction)
 		}
 		return Dynamic{Kind: FixedDynamic, Fraction: f}, nil
 	case "phi2":
@@ -137,7 +147,7 @@ func ParseDynamic(s string) (Dynamic, error) {
 		d.Kind = AREMASteel
 		allowed["s"] = true
 	default:
-		return d, fmt.Errorf("dynamic allowance %q: unknown; allowed: %s", s, dynamicSyntax)
+		return d, fmt.Errorf("dynamic allowance %q: unknown; allowed: %s", excerpt.Cut(s), dynamicSyntax)
 	}
 	if !hasArgs {
 		return d, nil
@@ -146,10 +156,13 @@ func ParseDynamic(s string) (Dynamic, error) {
 		k, v, _ := strings.Cut(kv, "=")
 		f, err := strconv.ParseFloat(v, 64)
 		if !allowed[k] {
-			return d, fmt.Errorf("dynamic allowance %q: unknown parameter %q; allowed: %s", s, kv, dynamicSyntax)
+			return d, fmt.Errorf("dynamic allowance %q: unknown parameter %q; allowed: %s", excerpt.Cut(s), excerpt.Cut(kv), dynamicSyntax)
 		}
-		if err != nil || !(f > 0) || math.IsInf(f, 0) {
-			return d, fmt.Errorf("dynamic allowance %q: %s must be a positive length in m, got %q", s, k, v)
+		if err != nil || !(f > 0) || !(f <= dynamicLengthMax[k]) {
+			return d, fmt.Errorf("dynamic allowance %q: %s must be a positive length in m, at most %g, got %q", excerpt.Cut(s), k, dynamicLengthMax[k], excerpt.Cut(v))
+		}
+		if k == "s" && f < minTrussSpacingM {
+			return d, fmt.Errorf("dynamic allowance %q: s, the distance between trusses, must be at least %g m, got %q", excerpt.Cut(s), minTrussSpacingM, excerpt.Cut(v))
 		}
 		if k == "l" {
 			d.LengthM = f

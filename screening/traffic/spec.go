@@ -3,6 +3,7 @@ package traffic
 import (
 	"errors"
 	"fmt"
+	"io"
 	"io/fs"
 	"os"
 	"path"
@@ -20,7 +21,7 @@ func ParseSpec(spec string, trains fs.FS) (*Train, error) {
 	if t, ok, err := Builtin(spec); ok {
 		return t, err
 	}
-	data, err := os.ReadFile(spec)
+	data, err := readFile(spec)
 	if err == nil {
 		return ParseTrainFile(spec, data)
 	}
@@ -51,6 +52,16 @@ func ParseSpec(spec string, trains fs.FS) (*Train, error) {
 		msg += "; named trains: " + strings.Join(files, ", ")
 	}
 	return nil, errors.New(msg)
+}
+
+// readFile reads a train file, no more of it than ParseTrainFile takes.
+func readFile(name string) ([]byte, error) {
+	f, err := os.Open(name)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	return io.ReadAll(io.LimitReader(f, MaxFileBytes+1))
 }
 
 func trainFiles(trains fs.FS) []string {

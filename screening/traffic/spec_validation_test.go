@@ -10,7 +10,7 @@ func TestBadSpecs(t *testing.T) {
 	trains := map[string]string{
 		"lm71:alpha=NaN":           "not a number",
 		"lm71:alpha=3":             "between 0.75 and 1.46",
-		"cooper-alt:e=Inf":         "finite",
+		"cooper-alt:e=Inf":         "at most 200",
 		"uniform:q=NaN":            "not a number",
 		"cooper:e":                 "needs a value",
 		"lm71:alpha=1.33,alpha=.8": "given twice",
