@@ -7,6 +7,8 @@ import (
 	"math"
 	"slices"
 	"sync"
+
+	"github.com/trussfleet/trussfleet/screening/analysis"
 )
 
 // Lines are the influence lines of one truss's members, prepared for moving loads in both
@@ -57,7 +59,7 @@ func (l *Lines) refinedGrid(d int) *grid {
 		for i, o := range dr.ord {
 			rord[i] = make([]float64, len(rx))
 			for j, xv := range rx {
-				rord[i][j] = interpolate(dr.x, o, xv)
+				rord[i][j] = analysis.Interpolate(dr.x, o, xv)
 			}
 		}
 		dr.refined = newGrid(rx, rord, true)
@@ -240,18 +242,6 @@ func refine(x []float64, ord [][]float64) []float64 {
 	}
 	slices.Sort(out)
 	return slices.CompactFunc(out, func(a, b float64) bool { return math.Abs(b-a) <= tiny })
-}
-
-func interpolate(xs, ys []float64, x float64) float64 {
-	n := len(xs)
-	if x < xs[0] || x > xs[n-1] {
-		return 0
-	}
-	k, found := slices.BinarySearch(xs, x)
-	if found {
-		return ys[k]
-	}
-	return ys[k-1] + (ys[k]-ys[k-1])*(x-xs[k-1])/(xs[k]-xs[k-1])
 }
 
 func newGrid(x []float64, ord [][]float64, refined bool) *grid {
