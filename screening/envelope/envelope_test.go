@@ -4,6 +4,7 @@ import (
 	"math"
 	"testing"
 
+	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 )
 
@@ -239,7 +240,7 @@ func TestPrattDiagonalVariableUniform(t *testing.T) {
 		t.Errorf("compression %v should exceed the 12 m loading's %v", d.Min.Value, best12)
 	}
 	// chord: full-length loading, q times the whole area (span 40 <= 48)
-	pos, neg := Areas(x, chord)
+	pos, neg := analysis.Areas(x, chord)
 	if c := res[1]; !near(c.Max.Value, q*(pos+neg), 1e-9) || c.Max.LoadedFromM != 0 || c.Max.LoadedToM != L {
 		t.Errorf("chord %v over [%v, %v], want %v over the whole span", c.Max.Value, c.Max.LoadedFromM, c.Max.LoadedToM, q*(pos+neg))
 	}
@@ -253,14 +254,14 @@ func TestPrattDiagonalVariableUniform(t *testing.T) {
 func TestDeadLoadAndAreas(t *testing.T) {
 	x, mid := simpleSpanMoment(30, 10, 6)
 	// triangle: area a(L-a)/2 = 10 x 20/2 = 100 (statics); dead load q times it
-	if pos, neg := Areas(x, mid); !near(pos, 100, 1e-12) || neg != 0 {
+	if pos, neg := analysis.Areas(x, mid); !near(pos, 100, 1e-12) || neg != 0 {
 		t.Errorf("areas %v, %v; want 100, 0", pos, neg)
 	}
 	if got := DeadLoad(x, mid, 35); !near(got, 3500, 1e-12) {
 		t.Errorf("dead load %v, want 3500", got)
 	}
 	// a line crossing zero: -1 at 0, +1 at 2 -> areas +0.5 and -0.5 (geometry)
-	pos, neg := Areas([]float64{0, 2}, []float64{-1, 1})
+	pos, neg := analysis.Areas([]float64{0, 2}, []float64{-1, 1})
 	if !near(pos, 0.5, 1e-12) || !near(neg, -0.5, 1e-12) {
 		t.Errorf("areas %v, %v; want 0.5, -0.5", pos, neg)
 	}

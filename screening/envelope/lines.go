@@ -281,7 +281,7 @@ func newGrid(x []float64, ord [][]float64, refined bool) *grid {
 	g.areaPos = make([]float64, m)
 	g.areaNeg = make([]float64, m)
 	for i, o := range ord {
-		g.areaPos[i], g.areaNeg[i] = Areas(x, o)
+		g.areaPos[i], g.areaNeg[i] = analysis.Areas(x, o)
 		g.areaNet[i] = g.areaPos[i] + g.areaNeg[i]
 	}
 	if !refined {
@@ -336,32 +336,9 @@ func changes(x []float64, ord [][]float64, f func(float64) float64) (jump, slope
 	return jump, slope
 }
 
-// Areas gives the positive and negative areas (m per unit load; neg <= 0) of a
-// piecewise-linear influence line with ordinates eta at the ascending points x.
-func Areas(x, eta []float64) (pos, neg float64) {
-	for k := 1; k < len(x); k++ {
-		a, b, dx := eta[k-1], eta[k], x[k]-x[k-1]
-		if a*b >= 0 {
-			if a+b > 0 {
-				pos += (a + b) / 2 * dx
-			} else {
-				neg += (a + b) / 2 * dx
-			}
-			continue
-		}
-		z := dx * a / (a - b) // distance to the zero crossing
-		if a > 0 {
-			pos, neg = pos+a*z/2, neg+b*(dx-z)/2
-		} else {
-			neg, pos = neg+a*z/2, pos+b*(dx-z)/2
-		}
-	}
-	return pos, neg
-}
-
 // DeadLoad is the member force (kN) from a uniform dead load of qKNPerM over the whole span:
 // q times the net area of the influence line.
 func DeadLoad(x, eta []float64, qKNPerM float64) float64 {
-	pos, neg := Areas(x, eta)
+	pos, neg := analysis.Areas(x, eta)
 	return qKNPerM * (pos + neg)
 }
