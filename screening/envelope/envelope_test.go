@@ -251,22 +251,6 @@ func TestPrattDiagonalVariableUniform(t *testing.T) {
 	}
 }
 
-func TestDeadLoadAndAreas(t *testing.T) {
-	x, mid := simpleSpanMoment(30, 10, 6)
-	// triangle: area a(L-a)/2 = 10 x 20/2 = 100 (statics); dead load q times it
-	if pos, neg := analysis.Areas(x, mid); !near(pos, 100, 1e-12) || neg != 0 {
-		t.Errorf("areas %v, %v; want 100, 0", pos, neg)
-	}
-	if got := DeadLoad(x, mid, 35); !near(got, 3500, 1e-12) {
-		t.Errorf("dead load %v, want 3500", got)
-	}
-	// a line crossing zero: -1 at 0, +1 at 2 -> areas +0.5 and -0.5 (geometry)
-	pos, neg := analysis.Areas([]float64{0, 2}, []float64{-1, 1})
-	if !near(pos, 0.5, 1e-12) || !near(neg, -0.5, 1e-12) {
-		t.Errorf("areas %v, %v; want 0.5, -0.5", pos, neg)
-	}
-}
-
 func TestOptionsFactor(t *testing.T) {
 	x, mid := simpleSpanMoment(20, 10, 4)
 	dyn, _ := traffic.ParseDynamic("phi2")

@@ -335,10 +335,3 @@ func changes(x []float64, ord [][]float64, f func(float64) float64) (jump, slope
 	}
 	return jump, slope
 }
-
-// DeadLoad is the member force (kN) from a uniform dead load of qKNPerM over the whole span:
-// q times the net area of the influence line.
-func DeadLoad(x, eta []float64, qKNPerM float64) float64 {
-	pos, neg := analysis.Areas(x, eta)
-	return qKNPerM * (pos + neg)
-}

@@ -106,7 +106,7 @@ func Explain(w io.Writer, run Run, b Bridge, member string) error {
 		}
 		p("; changes sign at x = %s m", strings.Join(s, ", "))
 	}
-	p("\n  dead load D = w x net area = %s kN/m x %s m = %s kN\n", num(b.DeadLoadKNPerM, 2), signed(clean(pos+neg), 3), signed(b.DeadLoadKNPerM*(pos+neg), 1))
+	p("\n  dead load D = w x net area = %s kN/m x %s m = %s kN\n", num(b.DeadLoadKNPerM, 2), signed(clean(pos+neg), 3), signed(analysis.DeadLoad(lines.X, eta, b.DeadLoadKNPerM), 1))
 
 	for _, sc := range []struct {
 		name string

@@ -514,7 +514,7 @@ func memberSection(run Run, b Bridge, t *truss.Truss, lines *analysis.Lines, i i
 	s.Chart = &c
 	pos, neg := analysis.Areas(lines.X, eta)
 	s.Captions = append(s.Captions, fmt.Sprintf("Influence line of %s: member force per unit load at each deck panel point; areas %s and %s m. Dead load D = %s kN/m × net area %s m = %s kN.",
-		m.Label, signed(clean(pos), 3), signed(clean(neg), 3), num(b.DeadLoadKNPerM, 2), signed(clean(pos+neg), 3), signed(b.DeadLoadKNPerM*(pos+neg), 1)))
+		m.Label, signed(clean(pos), 3), signed(clean(neg), 3), num(b.DeadLoadKNPerM, 2), signed(clean(pos+neg), 3), signed(analysis.DeadLoad(lines.X, eta, b.DeadLoadKNPerM), 1)))
 	s.Captions = append(s.Captions, placementText(ex, tr, ob, lines.X, eta, sense, shareOf(b)))
 	return s
 }
