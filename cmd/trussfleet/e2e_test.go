@@ -2,7 +2,6 @@ package main
 
 import (
 	"context"
-	"encoding/csv"
 	"fmt"
 	"math"
 	"os"
@@ -12,6 +11,7 @@ import (
 	"testing"
 
 	"github.com/trussfleet/trussfleet/importers"
+	"github.com/trussfleet/trussfleet/internal/csvtest"
 	"github.com/trussfleet/trussfleet/screening/truss"
 	"github.com/trussfleet/trussfleet/store/pgtest"
 )
@@ -185,17 +185,5 @@ func readExport(t *testing.T, path string) []map[string]string {
 	if !strings.HasPrefix(first, "# CAUTION") {
 		t.Errorf("%s starts %q, want the caution", path, first)
 	}
-	recs, err := csv.NewReader(strings.NewReader(rest)).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	var out []map[string]string
-	for _, r := range recs[1:] {
-		m := map[string]string{}
-		for i, h := range recs[0] {
-			m[h] = r[i]
-		}
-		out = append(out, m)
-	}
-	return out
+	return csvtest.Rows(t, strings.NewReader(rest))
 }
