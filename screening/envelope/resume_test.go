@@ -14,14 +14,7 @@ func TestResumedSweepsEqualFullSweeps(t *testing.T) {
 	rapid.Check(t, func(t *rapid.T) {
 		x, ord := genLines(t)
 		tr := genTrain(t)
-		l, err := NewLines(x, ord)
-		if err != nil {
-			t.Fatal(err)
-		}
-		ld, err := Prepare(tr)
-		if err != nil {
-			t.Fatal(err)
-		}
+		l, ld := prepared(t, x, ord, tr)
 		var resumed Calculator
 		full := Calculator{fullSweeps: true}
 		got := resumed.Envelope(l, ld, Options{}, nil)
