@@ -28,10 +28,9 @@ func TestMirroredSweepsEqualBothSweeps(t *testing.T) {
 		if l.mirror == nil {
 			t.Fatalf("symmetric lines %v on %v: no mirror found", ord, x)
 		}
-		var mirrored Calculator
-		both := Calculator{bothSweeps: true}
+		var mirrored, both Calculator
 		got := mirrored.Envelope(l, ld, Options{}, nil)
-		want := both.Envelope(l, ld, Options{}, nil)
+		want := both.envelope(l, ld, Options{}, nil, plainSweeps{bothSweeps: true})
 		for i, eta := range ord {
 			scale := forceScale(x, eta, tr)
 			for _, c := range []struct {

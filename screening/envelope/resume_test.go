@@ -15,10 +15,9 @@ func TestResumedSweepsEqualFullSweeps(t *testing.T) {
 		x, ord := genLines(t)
 		tr := genTrain(t)
 		l, ld := prepared(t, x, ord, tr)
-		var resumed Calculator
-		full := Calculator{fullSweeps: true}
+		var resumed, full Calculator
 		got := resumed.Envelope(l, ld, Options{}, nil)
-		want := full.Envelope(l, ld, Options{}, nil)
+		want := full.envelope(l, ld, Options{}, nil, plainSweeps{fullSweeps: true})
 		for i := range want {
 			if got[i] != want[i] {
 				t.Fatalf("member %d: resumed sweeps give %+v, full sweeps %+v", i, got[i], want[i])
