@@ -220,8 +220,7 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 	res.Members = make([]MemberResult, len(lines.Members))
 	assess := make([]rating.Assessment, len(lines.Members))
 	for i, l := range lines.Members {
-		pos, neg := analysis.Areas(lines.X, l.Ordinates)
-		dead := b.DeadLoadKNPerM * (pos + neg)
+		dead := analysis.DeadLoad(lines.X, l.Ordinates, b.DeadLoadKNPerM)
 		inv := b.Members[l.Label]
 		exL := rating.Loading{Demand: demand(dead, ex[i])}
 		prL := rating.Loading{Demand: demand(dead, pr[i])}

@@ -2,7 +2,6 @@ package main
 
 import (
 	"context"
-	"encoding/csv"
 	"fmt"
 	"math"
 	"os"
@@ -12,6 +11,7 @@ import (
 	"testing"
 
 	"github.com/trussfleet/trussfleet/importers"
+	"github.com/trussfleet/trussfleet/internal/csvtest"
 	"github.com/trussfleet/trussfleet/screening/truss"
 	"github.com/trussfleet/trussfleet/store/pgtest"
 )
@@ -177,7 +177,7 @@ func writeTestFile(t *testing.T, dir, name, text string) string {
 
 // axleTrain is the text of a train file of one axle of p kN.
 func axleTrain(name string, p float64) string {
-	return fmt.Sprintf("name: %q\nunits: si\nvehicles:\n  - id: a\n    length: 1\n    axles:\n      - {at: 0.5, load: %g}\nconsist:\n  - {vehicle: a, count: 1}\n", name, p)
+	return fmt.Sprintf("name: %q\nunits: si\nvehicles:\n  - id: a\n    length: 2\n    axles:\n      - {at: 1, load: %g}\nconsist:\n  - {vehicle: a, count: 1}\n", name, p)
 }
 
 // readExport reads an export CSV (after its caution line) into maps by column.
@@ -197,17 +197,5 @@ func parseExport(t *testing.T, what, data string) []map[string]string {
 	if !strings.HasPrefix(first, "# CAUTION") {
 		t.Errorf("%s starts %q, want the caution", what, first)
 	}
-	recs, err := csv.NewReader(strings.NewReader(rest)).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	var out []map[string]string
-	for _, r := range recs[1:] {
-		m := map[string]string{}
-		for i, h := range recs[0] {
-			m[h] = r[i]
-		}
-		out = append(out, m)
-	}
-	return out
+	return csvtest.Rows(t, strings.NewReader(rest))
 }

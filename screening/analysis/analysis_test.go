@@ -393,6 +393,29 @@ func TestInterpolateAndAreas(t *testing.T) {
 	}
 }
 
+// TestDeadLoadAndAreas: the moment line at a = 10 m of a simple span L = 30 m, sampled every
+// 5 m, is a triangle with peak a(L-a)/L (beamMoment, statics).
+func TestDeadLoadAndAreas(t *testing.T) {
+	near := func(a, b, rel float64) bool { return math.Abs(a-b) <= rel*math.Max(1, math.Abs(b)) }
+	var x, mid []float64
+	for k := 0; k <= 6; k++ {
+		xk := 30 * float64(k) / 6
+		x, mid = append(x, xk), append(mid, beamMoment(30, xk, 10))
+	}
+	// triangle: area a(L-a)/2 = 10 x 20/2 = 100 (statics); dead load q times it
+	if pos, neg := analysis.Areas(x, mid); !near(pos, 100, 1e-12) || neg != 0 {
+		t.Errorf("areas %v, %v; want 100, 0", pos, neg)
+	}
+	if got := analysis.DeadLoad(x, mid, 35); !near(got, 3500, 1e-12) {
+		t.Errorf("dead load %v, want 3500", got)
+	}
+	// a line crossing zero: -1 at 0, +1 at 2 -> areas +0.5 and -0.5 (geometry)
+	pos, neg := analysis.Areas([]float64{0, 2}, []float64{-1, 1})
+	if !near(pos, 0.5, 1e-12) || !near(neg, -0.5, 1e-12) {
+		t.Errorf("areas %v, %v; want 0.5, -0.5", pos, neg)
+	}
+}
+
 func BenchmarkInfluenceLines16(b *testing.B) {
 	p := truss.Params{Type: "pratt", SpanM: 96, Panels: 16, DepthM: 10}
 	b.ReportAllocs()

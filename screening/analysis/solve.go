@@ -302,6 +302,14 @@ func Areas(xs, ys []float64) (pos, neg float64) {
 	return pos, neg
 }
 
+// DeadLoad is the member force (kN) from a uniform dead load of qKNPerM over the whole span:
+// q times the net area of the influence line given by ordinates ys at the ascending
+// abscissae xs.
+func DeadLoad(xs, ys []float64, qKNPerM float64) float64 {
+	pos, neg := Areas(xs, ys)
+	return qKNPerM * (pos + neg)
+}
+
 // SignChanges gives the abscissae where a piecewise-linear influence line crosses zero between
 // two non-zero ordinates of opposite sign (touching zero at a panel point does not count).
 func SignChanges(xs, ys []float64) []float64 {

@@ -66,11 +66,12 @@ func benchEnvelopes(b *testing.B, l *Lines, prefix string) {
 			b.Fatal(err)
 		}
 		b.Run(prefix+name, func(b *testing.B) {
-			c := Calculator{bothSweeps: prefix == "both-"}
+			var c Calculator
+			plain := plainSweeps{bothSweeps: prefix == "both-"}
 			var out []Extremes
 			b.ReportAllocs()
 			for b.Loop() {
-				out = c.Envelope(l, ld, Options{}, out)
+				out = c.envelope(l, ld, Options{}, out, plain)
 			}
 		})
 	}

@@ -6,7 +6,7 @@
 // member, the force (kN per kN, tension positive) caused by a unit load at each panel point.
 // Stringers spanning simply between floor beams deliver a load between two panel points by
 // the lever rule, which is exactly linear interpolation of the line; the line is zero beyond
-// x[0] and x[last].
+// x[0] and x[last] (the line of analysis.Interpolate, whose areas analysis.Areas gives).
 //
 // The extremes are exact, not stepped. A rigid train's effect is linear in its position
 // between the positions where some axle stands over some vertex of the line (a panel point or

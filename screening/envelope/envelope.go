@@ -85,6 +85,25 @@ func (o Options) Factor(spanM float64) float64 {
 // Calculator sweeps trains over influence lines, keeping its scratch space between calls so
 // that a screening run allocates little. A Calculator is not safe for concurrent use; give
 // each goroutine its own. The zero value is ready to use.
+//
+// Nothing but storage carries from one call of Envelope to the next: reset starts each call.
+// Within a call, each field is valid in these phases:
+//   - m, maxV, minV, maxAt, minAt and runs, from reset to the end of the call: maxV[i] and
+//     minV[i] are member i's largest and smallest force found so far (0, the empty bridge,
+//     before any), maxAt[i] and minAt[i] where (run -1 for none), and runs the sweeps made, in
+//     order, that a found's run indexes.
+//   - streams, curved, items and state, for a train (not a uniform load), from the start of
+//     train to the end of the call: the streams the train needs, whether it has distributed
+//     parts (curved streams), its items at the largest count swept, and per stream the
+//     members' value, slope and curvature at the last event a sweep applied (t, in
+//     sweepLinear only, where each member was last brought up to date).
+//   - events, from buildEvents through the sweeps of the direction whose grid it was built
+//     for: every position where an item reaches a vertex, in order. order and eventsTmp are
+//     buildEvents' own scratch.
+//   - ck, only while ck.ok: the state a sweep saved for the next, larger count of the same
+//     direction; it is cleared when a direction starts and when the next sweep starts.
+//   - snapV and snapAt, inside mirrorSweeps only: the left-to-right extremes it reads while
+//     merging in the mirrored ones.
 type Calculator struct {
 	m       int
 	streams []stream
@@ -101,15 +120,20 @@ type Calculator struct {
 	curved    bool
 	runs      []runInfo
 	ck        checkpoint
-	// fullSweeps sweeps every count from the beginning (the reference the tests compare
-	// the resumed sweeps with).
-	fullSweeps bool
-	// bothSweeps sweeps both directions even over a truss that is its own mirror image (the
-	// reference the tests compare the mirrored extremes with).
-	bothSweeps bool
 	// the extremes of the left-to-right sweeps, read while the mirrored ones are merged in
 	snapV  []float64
 	snapAt []found
+}
+
+// plainSweeps turns off the sweeps' shortcuts, for the tests that compare each shortcut with
+// the plain sweeps it stands for. Envelope takes every shortcut (the zero value).
+type plainSweeps struct {
+	// fullSweeps sweeps every count of a variable consist from the beginning instead of
+	// resuming where the previous count left off.
+	fullSweeps bool
+	// bothSweeps sweeps right to left also over a truss that is its own mirror image instead
+	// of taking those extremes from the mirror members' left-to-right sweeps.
+	bothSweeps bool
 }
 
 type runInfo struct {
@@ -128,11 +152,16 @@ type runInfo struct {
 // A variable consist is swept at every count that shows the bridge a different loading (see
 // Load); a uniform load of variable length is placed over the best feasible interval.
 func (c *Calculator) Envelope(l *Lines, ld *Load, opt Options, out []Extremes) []Extremes {
+	return c.envelope(l, ld, opt, out, plainSweeps{})
+}
+
+// envelope is Envelope without the shortcuts that plain turns off.
+func (c *Calculator) envelope(l *Lines, ld *Load, opt Options, out []Extremes, plain plainSweeps) []Extremes {
 	c.reset(l.m)
 	if ld.uniform != nil {
 		out = c.uniform(l, ld, out)
 	} else {
-		out = c.train(l, ld, out)
+		out = c.train(l, ld, out, plain)
 	}
 	f := opt.Factor(l.SpanM())
 	for i := range out {
@@ -163,7 +192,7 @@ func resize(s []float64, n int) []float64 {
 	return s
 }
 
-func (c *Calculator) train(l *Lines, ld *Load, out []Extremes) []Extremes {
+func (c *Calculator) train(l *Lines, ld *Load, out []Extremes, plain plainSweeps) []Extremes {
 	counts := ld.counts(l.SpanM())
 	nItems := 0
 	for _, k := range counts {
@@ -183,7 +212,7 @@ func (c *Calculator) train(l *Lines, ld *Load, out []Extremes) []Extremes {
 	refined := ld.hasUnfav || ld.hasCut
 	var prev *grid
 	for d := range 2 {
-		if d == 1 && l.mirror != nil && !c.bothSweeps {
+		if d == 1 && l.mirror != nil && !plain.bothSweeps {
 			c.mirrorSweeps(l.mirror)
 			break
 		}
@@ -197,6 +226,9 @@ func (c *Calculator) train(l *Lines, ld *Load, out []Extremes) []Extremes {
 		prev = gr
 		c.ck.ok = false // a new direction starts from the beginning
 		for _, k := range counts {
+			if plain.fullSweeps {
+				c.ck.ok = false // no resuming: every count from the beginning
+			}
 			c.runs = append(c.runs, runInfo{dir: d, cnt: k})
 			c.sweep(gr, ld, k.sweep, int16(len(c.runs)-1))
 		}

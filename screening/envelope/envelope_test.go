@@ -4,132 +4,9 @@ import (
 	"math"
 	"testing"
 
+	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 )
-
-func near(a, b, rel float64) bool { return math.Abs(a-b) <= rel*math.Max(1, math.Abs(b)) }
-
-// simpleSpanMoment is the influence line of the bending moment at a of a simple span L,
-// sampled at n+1 equally spaced points (which must include a): a triangle with peak
-// a(L-a)/L (common practice, statics).
-func simpleSpanMoment(L, a float64, n int) (x, eta []float64) {
-	for k := 0; k <= n; k++ {
-		xi := L * float64(k) / float64(n)
-		x = append(x, xi)
-		if xi <= a {
-			eta = append(eta, xi*(L-a)/L)
-		} else {
-			eta = append(eta, a*(L-xi)/L)
-		}
-	}
-	return x, eta
-}
-
-// prattLines builds influence lines of a Pratt through truss by the method of sections
-// (common practice): n panels of a span L, depth h, loads at the bottom chord panel points.
-// A bottom chord in panel i carries M(x_{i-1})/h (moment about the top joint above its left
-// end, left half; right half mirrored), a top chord -M(x_i)/h, a diagonal in panel i the panel
-// shear V/sin(theta), which is -x/L left of the panel and (L-x)/L right of it, straight across
-// the panel; a vertical the shear of the neighbouring panel nearer midspan, in compression.
-func prattLines(L, h float64, n int) (x []float64, labels []string, ord [][]float64) {
-	p := L / float64(n)
-	for k := 0; k <= n; k++ {
-		x = append(x, p*float64(k))
-	}
-	moment := func(a float64) []float64 {
-		o := make([]float64, n+1)
-		for k, xi := range x {
-			if xi <= a {
-				o[k] = xi * (L - a) / L
-			} else {
-				o[k] = a * (L - xi) / L
-			}
-		}
-		return o
-	}
-	shear := func(i int) []float64 { // panel i spans x[i-1]..x[i]
-		o := make([]float64, n+1)
-		for k, xi := range x {
-			if k <= i-1 {
-				o[k] = -xi / L
-			} else {
-				o[k] = (L - xi) / L
-			}
-		}
-		return o
-	}
-	scale := func(o []float64, f float64) []float64 {
-		for k := range o {
-			o[k] *= f
-		}
-		return o
-	}
-	sin := h / math.Hypot(h, p)
-	add := func(label string, o []float64) {
-		labels = append(labels, label)
-		ord = append(ord, o)
-	}
-	for i := 1; i <= n; i++ {
-		// about the top joint at the panel's end nearer midspan's far side: left half x_{i-1},
-		// right half x_i; the end panels' chord follows the end post.
-		a := x[i-1]
-		if float64(i) > float64(n)/2 {
-			a = x[i]
-		}
-		if i == 1 || i == n {
-			a = x[1]
-			if i == n {
-				a = x[n-1]
-			}
-		}
-		add("bottom", scale(moment(a), 1/h))
-	}
-	for i := 2; i <= n-1; i++ {
-		a := x[i]
-		if float64(i) > float64(n)/2 {
-			a = x[i-1]
-		}
-		add("top", scale(moment(a), -1/h))
-	}
-	add("endpost", scale(shear(1), -1/sin))
-	add("endpost", scale(shear(n), 1/sin))
-	for i := 2; i <= n-1; i++ {
-		f := 1 / sin
-		if float64(i) > float64(n)/2 {
-			f = -f
-		}
-		add("diagonal", scale(shear(i), f))
-	}
-	for i := 1; i <= n-1; i++ {
-		// vertical at x_i: the shear of the panel on its midspan side, compression
-		o := shear(i + 1)
-		if float64(i) >= float64(n)/2 {
-			o = scale(shear(i), -1)
-		}
-		if i == 1 || i == n-1 {
-			// hangers at the first and last interior joints carry the joint load only
-			o = make([]float64, n+1)
-			o[i] = 1
-		} else {
-			o = scale(o, -1)
-		}
-		add("vertical", o)
-	}
-	return x, labels, ord
-}
-
-func axleTrain(name string, spacings []float64, loads []float64) *traffic.Train {
-	v := traffic.Vehicle{Name: name}
-	at := 0.0
-	for k, p := range loads {
-		if k > 0 {
-			at += spacings[k-1]
-		}
-		v.Axles = append(v.Axles, traffic.Axle{AtM: at, LoadKN: p})
-	}
-	v.LengthM = at + 1
-	return &traffic.Train{Name: name, Consist: []traffic.Group{{Vehicle: v, Min: 1, Max: 1}}}
-}
 
 func TestClosedForms(t *testing.T) {
 	const L = 24.0
@@ -239,7 +116,7 @@ func TestPrattDiagonalVariableUniform(t *testing.T) {
 		t.Errorf("compression %v should exceed the 12 m loading's %v", d.Min.Value, best12)
 	}
 	// chord: full-length loading, q times the whole area (span 40 <= 48)
-	pos, neg := Areas(x, chord)
+	pos, neg := analysis.Areas(x, chord)
 	if c := res[1]; !near(c.Max.Value, q*(pos+neg), 1e-9) || c.Max.LoadedFromM != 0 || c.Max.LoadedToM != L {
 		t.Errorf("chord %v over [%v, %v], want %v over the whole span", c.Max.Value, c.Max.LoadedFromM, c.Max.LoadedToM, q*(pos+neg))
 	}
@@ -247,22 +124,6 @@ func TestPrattDiagonalVariableUniform(t *testing.T) {
 	res, _ = Compute(x, [][]float64{chord}, traffic.NewUniform(q, 0, 30), Options{})
 	if got := res[0].Max; !(got.Value < q*(pos+neg)) || got.LoadedToM-got.LoadedFromM > 30+1e-9 {
 		t.Errorf("chord, max 30 m: %v over [%v, %v]", got.Value, got.LoadedFromM, got.LoadedToM)
-	}
-}
-
-func TestDeadLoadAndAreas(t *testing.T) {
-	x, mid := simpleSpanMoment(30, 10, 6)
-	// triangle: area a(L-a)/2 = 10 x 20/2 = 100 (statics); dead load q times it
-	if pos, neg := Areas(x, mid); !near(pos, 100, 1e-12) || neg != 0 {
-		t.Errorf("areas %v, %v; want 100, 0", pos, neg)
-	}
-	if got := DeadLoad(x, mid, 35); !near(got, 3500, 1e-12) {
-		t.Errorf("dead load %v, want 3500", got)
-	}
-	// a line crossing zero: -1 at 0, +1 at 2 -> areas +0.5 and -0.5 (geometry)
-	pos, neg := Areas([]float64{0, 2}, []float64{-1, 1})
-	if !near(pos, 0.5, 1e-12) || !near(neg, -0.5, 1e-12) {
-		t.Errorf("areas %v, %v; want 0.5, -0.5", pos, neg)
 	}
 }
 

@@ -7,6 +7,8 @@ import (
 	"math"
 	"slices"
 	"sync"
+
+	"github.com/trussfleet/trussfleet/screening/analysis"
 )
 
 // Lines are the influence lines of one truss's members, prepared for moving loads in both
@@ -57,7 +59,7 @@ func (l *Lines) refinedGrid(d int) *grid {
 		for i, o := range dr.ord {
 			rord[i] = make([]float64, len(rx))
 			for j, xv := range rx {
-				rord[i][j] = interpolate(dr.x, o, xv)
+				rord[i][j] = analysis.Interpolate(dr.x, o, xv)
 			}
 		}
 		dr.refined = newGrid(rx, rord, true)
@@ -242,18 +244,6 @@ func refine(x []float64, ord [][]float64) []float64 {
 	return slices.CompactFunc(out, func(a, b float64) bool { return math.Abs(b-a) <= tiny })
 }
 
-func interpolate(xs, ys []float64, x float64) float64 {
-	n := len(xs)
-	if x < xs[0] || x > xs[n-1] {
-		return 0
-	}
-	k, found := slices.BinarySearch(xs, x)
-	if found {
-		return ys[k]
-	}
-	return ys[k-1] + (ys[k]-ys[k-1])*(x-xs[k-1])/(xs[k]-xs[k-1])
-}
-
 func newGrid(x []float64, ord [][]float64, refined bool) *grid {
 	n, m := len(x), len(ord)
 	g := &grid{x: x, eta: make([]float64, n*m)}
@@ -291,7 +281,7 @@ func newGrid(x []float64, ord [][]float64, refined bool) *grid {
 	g.areaPos = make([]float64, m)
 	g.areaNeg = make([]float64, m)
 	for i, o := range ord {
-		g.areaPos[i], g.areaNeg[i] = Areas(x, o)
+		g.areaPos[i], g.areaNeg[i] = analysis.Areas(x, o)
 		g.areaNet[i] = g.areaPos[i] + g.areaNeg[i]
 	}
 	if !refined {
@@ -344,34 +334,4 @@ func changes(x []float64, ord [][]float64, f func(float64) float64) (jump, slope
 		jump[(n-1)*m+i] = -f(o[n-1])
 	}
 	return jump, slope
-}
-
-// Areas gives the positive and negative areas (m per unit load; neg <= 0) of a
-// piecewise-linear influence line with ordinates eta at the ascending points x.
-func Areas(x, eta []float64) (pos, neg float64) {
-	for k := 1; k < len(x); k++ {
-		a, b, dx := eta[k-1], eta[k], x[k]-x[k-1]
-		if a*b >= 0 {
-			if a+b > 0 {
-				pos += (a + b) / 2 * dx
-			} else {
-				neg += (a + b) / 2 * dx
-			}
-			continue
-		}
-		z := dx * a / (a - b) // distance to the zero crossing
-		if a > 0 {
-			pos, neg = pos+a*z/2, neg+b*(dx-z)/2
-		} else {
-			neg, pos = neg+a*z/2, pos+b*(dx-z)/2
-		}
-	}
-	return pos, neg
-}
-
-// DeadLoad is the member force (kN) from a uniform dead load of qKNPerM over the whole span:
-// q times the net area of the influence line.
-func DeadLoad(x, eta []float64, qKNPerM float64) float64 {
-	pos, neg := Areas(x, eta)
-	return qKNPerM * (pos + neg)
 }

@@ -4,60 +4,9 @@ import (
 	"math"
 	"testing"
 
-	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/truss"
 	"pgregory.net/rapid"
 )
-
-// genSymmetric draws the influence lines of a truss that is its own mirror image: panel
-// points symmetric about mid-span, and with each drawn line also its mirror image (as a
-// symmetric truss's mirror members have), perturbed by rounding-sized noise as computed lines
-// are; some lines are symmetric themselves (a member at mid-span).
-func genSymmetric(t *rapid.T) (x []float64, ord [][]float64) {
-	half := rapid.IntRange(1, 4).Draw(t, "half panels")
-	odd := rapid.Bool().Draw(t, "odd panels")
-	var dx []float64
-	for range half {
-		dx = append(dx, rapid.Float64Range(0.5, 8).Draw(t, "dx"))
-	}
-	steps := append([]float64{}, dx...)
-	if odd {
-		steps = append(steps, rapid.Float64Range(0.5, 8).Draw(t, "middle dx"))
-	}
-	for k := len(dx) - 1; k >= 0; k-- {
-		steps = append(steps, dx[k])
-	}
-	x = []float64{rapid.Float64Range(-5, 5).Draw(t, "x0")}
-	for _, d := range steps {
-		x = append(x, x[len(x)-1]+d)
-	}
-	n := len(x)
-	jumps := rapid.Bool().Draw(t, "jumps")
-	noise := func() float64 { return rapid.Float64Range(-1e-14, 1e-14).Draw(t, "noise") }
-	for range rapid.IntRange(1, 3).Draw(t, "pairs") {
-		o := make([]float64, n)
-		for k := range o {
-			if (k == 0 || k == n-1) && !jumps {
-				continue
-			}
-			o[k] = rapid.Float64Range(-2, 2).Draw(t, "eta")
-		}
-		mo := make([]float64, n)
-		for k := range o {
-			mo[k] = o[n-1-k] * (1 + noise())
-		}
-		if rapid.Bool().Draw(t, "self-symmetric") {
-			so := make([]float64, n)
-			for k := range o {
-				so[k] = (o[k] + o[n-1-k]) / 2
-			}
-			ord = append(ord, so)
-			continue
-		}
-		ord = append(ord, o, mo)
-	}
-	return x, ord
-}
 
 // TestMirroredSweepsEqualBothSweeps: over a truss that is its own mirror image, the
 // right-to-left extremes taken from the mirror members' left-to-right sweeps equal sweeping
@@ -75,27 +24,15 @@ func TestMirroredSweepsEqualBothSweeps(t *testing.T) {
 		if err := tr.Validate(); err != nil {
 			t.Skip(err)
 		}
-		l, err := NewLines(x, ord)
-		if err != nil {
-			t.Fatal(err)
-		}
+		l, ld := prepared(t, x, ord, tr)
 		if l.mirror == nil {
 			t.Fatalf("symmetric lines %v on %v: no mirror found", ord, x)
 		}
-		ld, err := Prepare(tr)
-		if err != nil {
-			t.Fatal(err)
-		}
-		var mirrored Calculator
-		both := Calculator{bothSweeps: true}
+		var mirrored, both Calculator
 		got := mirrored.Envelope(l, ld, Options{}, nil)
-		want := both.Envelope(l, ld, Options{}, nil)
+		want := both.envelope(l, ld, Options{}, nil, plainSweeps{bothSweeps: true})
 		for i, eta := range ord {
-			scale := 1.0
-			for _, e := range eta {
-				scale = max(scale, math.Abs(e))
-			}
-			scale *= loadScale(tr, x[len(x)-1]-x[0])
+			scale := forceScale(x, eta, tr)
 			for _, c := range []struct {
 				sense     float64
 				got, want Extreme
@@ -110,7 +47,7 @@ func TestMirroredSweepsEqualBothSweeps(t *testing.T) {
 				if !p.Loaded {
 					continue
 				}
-				r := responseRef(x, eta, tr, placedRef{p.Direction, p.HeadM, p.Count, p.TrailingM}, c.sense)
+				r := responseRef(x, eta, tr, placedAt(p), c.sense)
 				if math.Abs(r-c.got.Value) > 1e-7*scale {
 					t.Fatalf("member %d sense %v: placement %+v gives %v, reported %v", i, c.sense, p, r, c.got.Value)
 				}
@@ -176,25 +113,4 @@ func TestParametricTrussesAreMirrored(t *testing.T) {
 			t.Errorf("%+v: no mirror found", p)
 		}
 	}
-}
-
-// builtLines are the computed influence lines of a parametric truss.
-func builtLines(t testing.TB, p truss.Params) *Lines {
-	tr, err := truss.Build(p)
-	if err != nil {
-		t.Fatal(err)
-	}
-	ls, err := analysis.InfluenceLines(tr, analysis.Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	var ord [][]float64
-	for _, m := range ls.Members {
-		ord = append(ord, m.Ordinates)
-	}
-	l, err := NewLines(ls.X, ord)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return l
 }

@@ -9,7 +9,9 @@ import (
 
 // This file is the brute-force reference the exact sweep is tested against: it evaluates a
 // train at one placement directly from the definition (sum of P eta(x) over the axles on the
-// bridge, integrals of q eta over the parts), with no events, tables or sweeps.
+// bridge, integrals of q eta over the parts), with no events, tables or sweeps, and searches
+// placements for the extremes by stepping finely and trying every critical position
+// (bruteTrain, bruteUniform).
 
 // etaRef is the influence line at p: linear between the points, zero outside, and taking the
 // end ordinates at the bearings themselves.
@@ -38,9 +40,8 @@ func integralRef(x, eta []float64, a, b float64, f func(float64) float64) float6
 		if x[k] > a && x[k] < b {
 			pts = append(pts, x[k])
 		}
-		if k+1 < len(x) && eta[k]*eta[k+1] < 0 {
-			xc := x[k] + (x[k+1]-x[k])*eta[k]/(eta[k]-eta[k+1])
-			if xc > a && xc < b {
+		if k+1 < len(x) {
+			if xc, ok := crossing(x, eta, k); ok && xc > a && xc < b {
 				pts = append(pts, xc)
 			}
 		}
@@ -56,6 +57,26 @@ func integralRef(x, eta []float64, a, b float64, f func(float64) float64) float6
 	return s
 }
 
+// crossing is where the line crosses zero inside segment k (between x[k] and x[k+1]), if it
+// does.
+func crossing(x, eta []float64, k int) (float64, bool) {
+	if !(eta[k]*eta[k+1] < 0) {
+		return 0, false
+	}
+	return x[k] + (x[k+1]-x[k])*eta[k]/(eta[k]-eta[k+1]), true
+}
+
+// zeroCrossings are the line's zero crossings inside its segments, from left to right.
+func zeroCrossings(x, eta []float64) []float64 {
+	var out []float64
+	for k := 0; k+1 < len(x); k++ {
+		if xc, ok := crossing(x, eta, k); ok {
+			out = append(out, xc)
+		}
+	}
+	return out
+}
+
 func etaInside(x, eta []float64, p float64) float64 {
 	return etaRef(x, eta, min(max(p, x[0]), x[len(x)-1]))
 }
@@ -69,6 +90,11 @@ type placedRef struct {
 	head     float64
 	count    int
 	trailing float64
+}
+
+// placedAt is a reported placement as the reference takes it.
+func placedAt(p Placement) placedRef {
+	return placedRef{p.Direction, p.HeadM, p.Count, p.TrailingM}
 }
 
 // responseRef is the member force at a placement for the given sense (+1 tension, -1
@@ -114,4 +140,111 @@ func responseRef(x, eta []float64, t *traffic.Train, p placedRef, sense float64)
 		v += part.QKNPerM * integralRef(x, eta, a, b, f)
 	}
 	return v
+}
+
+// bruteTrain is the reference extreme: every direction and count, the front stepped finely
+// over the whole crossing and also put (and put just beside) wherever an item stands over a
+// vertex, with a cut part tried at every length that ends on a vertex or zero crossing and at
+// stepped lengths.
+func bruteTrain(x, eta []float64, tr *traffic.Train, sense float64) float64 {
+	x0, xl := x[0], x[len(x)-1]
+	best := 0.0
+	lo, hi := 1, 1
+	if n := len(tr.Consist); n > 0 {
+		lo, hi = tr.Consist[n-1].Min, tr.Consist[n-1].Max
+	}
+	verts := append(slices.Clone(x), zeroCrossings(x, eta)...)
+	for count := lo; count <= hi; count++ {
+		var ds []float64
+		reach := 0.0
+		if len(tr.Consist) > 0 {
+			for _, a := range tr.Axles(count) {
+				ds = append(ds, a.AtM)
+			}
+			reach = tr.LengthM(count)
+		}
+		var cut *traffic.Part
+		for i, p := range tr.Parts {
+			for _, d := range []float64{p.FromM, p.ToM} {
+				if !math.IsInf(d, 0) {
+					ds = append(ds, d)
+					reach = max(reach, d)
+				}
+			}
+			if p.Mode == traffic.CutUnfavourable {
+				cut = &tr.Parts[i]
+			}
+		}
+		for _, dir := range []Direction{LeftToRight, RightToLeft} {
+			var heads []float64
+			for _, d := range ds {
+				for _, v := range x {
+					h := v + d
+					if dir == RightToLeft {
+						h = v - d
+					}
+					heads = append(heads, h, h-1e-7, h+1e-7)
+				}
+			}
+			start, end := x0-2, xl+reach+2
+			if dir == RightToLeft {
+				start, end = x0-reach-2, xl+2
+			}
+			for k := 0; k <= 300; k++ {
+				heads = append(heads, start+(end-start)*float64(k)/300)
+			}
+			for _, h := range heads {
+				trails := []float64{0}
+				if cut != nil {
+					z := h - cut.FromM
+					if dir == RightToLeft {
+						z = h + cut.FromM
+					}
+					for _, y := range verts {
+						trails = append(trails, math.Abs(z-y))
+					}
+					for k := 1; k <= 20; k++ {
+						trails = append(trails, (xl-x0+math.Abs(z))*float64(k)/20)
+					}
+				}
+				for _, tl := range trails {
+					v := sense * responseRef(x, eta, tr, placedRef{dir, h, count, tl}, sense)
+					best = max(best, v)
+				}
+			}
+		}
+	}
+	return sense * best
+}
+
+// bruteUniform is the reference for a uniform load of variable length: every feasible
+// interval with ends on a fine grid, on the vertices or on the zero crossings.
+func bruteUniform(x, eta []float64, u traffic.Uniform, sense float64) float64 {
+	x0, xl := x[0], x[len(x)-1]
+	pts := slices.Clone(x)
+	for k := 0; k <= 120; k++ {
+		pts = append(pts, x0+(xl-x0)*float64(k)/120)
+	}
+	pts = append(pts, zeroCrossings(x, eta)...)
+	// intervals of exactly the bounding lengths from every point
+	n := len(pts)
+	for _, L := range []float64{u.MinM, u.MaxM} {
+		for _, p := range pts[:n] {
+			if !math.IsInf(L, 0) {
+				pts = append(pts, p+L, p-L)
+			}
+		}
+	}
+	best := 0.0
+	for _, a := range pts {
+		for _, b := range pts {
+			a, b := max(a, x0), min(b, xl)
+			l := b - a
+			if l <= 0 || l > u.MaxM+1e-9 || (l < u.MinM-1e-9 && a > x0 && b < xl) {
+				continue
+			}
+			best = max(best, sense*u.QKNPerM*integralRef(x, eta, a, b, identity))
+		}
+	}
+	return sense * best
 }

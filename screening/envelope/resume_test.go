@@ -14,18 +14,10 @@ func TestResumedSweepsEqualFullSweeps(t *testing.T) {
 	rapid.Check(t, func(t *rapid.T) {
 		x, ord := genLines(t)
 		tr := genTrain(t)
-		l, err := NewLines(x, ord)
-		if err != nil {
-			t.Fatal(err)
-		}
-		ld, err := Prepare(tr)
-		if err != nil {
-			t.Fatal(err)
-		}
-		var resumed Calculator
-		full := Calculator{fullSweeps: true}
+		l, ld := prepared(t, x, ord, tr)
+		var resumed, full Calculator
 		got := resumed.Envelope(l, ld, Options{}, nil)
-		want := full.Envelope(l, ld, Options{}, nil)
+		want := full.envelope(l, ld, Options{}, nil, plainSweeps{fullSweeps: true})
 		for i := range want {
 			if got[i] != want[i] {
 				t.Fatalf("member %d: resumed sweeps give %+v, full sweeps %+v", i, got[i], want[i])

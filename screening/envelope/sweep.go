@@ -131,7 +131,7 @@ func (c *Calculator) sweep(gr *grid, ld *Load, n int, run int16) {
 	ev := c.events
 	start := 0
 	var sPrev float64
-	if c.ck.ok && c.ck.n < n && !c.fullSweeps {
+	if c.ck.ok && c.ck.n < n {
 		start, sPrev = c.ck.restore(c.state[:len(streams)])
 	} else {
 		for si := range streams {
@@ -169,6 +169,9 @@ func (c *Calculator) sweep(gr *grid, ld *Load, n int, run int16) {
 		return
 	}
 	endJump := gr.endJumps
+	// At the top of each iteration, every stream's state is the members' value, slope and
+	// curvature with the front at sPrev, the last event group applied (all its changes in), and
+	// the extremes hold every value up to sPrev; g0 is the next group.
 	for g0 := start; g0 < len(ev); {
 		if g0 == save {
 			c.ck.save(n, g0, sPrev, c.state[:len(streams)])

@@ -78,7 +78,7 @@ func Explain(w io.Writer, run Run, b Bridge, member string) error {
 		p(", %s end posts", tp.EndPosts)
 	}
 	p("\n  truss share %s x %d track(s) = %s of each train's load; dead load %s kN/m on this truss\n",
-		num(b.TrussShare, 3), max(b.Tracks, 1), num(shareOf(b), 3), num(b.DeadLoadKNPerM, 2))
+		num(b.TrussShare, 3), max(b.Tracks, 1), num(b.liveShare(), 3), num(b.DeadLoadKNPerM, 2))
 	p("Screening run %d (%s): %s\n\n", run.ID, orDash(run.Status), equation(run))
 
 	mb := t.Members[k]
@@ -107,7 +107,7 @@ func Explain(w io.Writer, run Run, b Bridge, member string) error {
 		}
 		p("; changes sign at x = %s m", strings.Join(s, ", "))
 	}
-	p("\n  dead load D = w x net area = %s kN/m x %s m = %s kN\n", num(b.DeadLoadKNPerM, 2), signed(clean(pos+neg), 3), signed(b.DeadLoadKNPerM*(pos+neg), 1))
+	p("\n  dead load D = w x net area = %s kN/m x %s m = %s kN\n", num(b.DeadLoadKNPerM, 2), signed(clean(pos+neg), 3), signed(analysis.DeadLoad(lines.X, eta, b.DeadLoadKNPerM), 1))
 
 	for _, sc := range []struct {
 		name string
@@ -130,8 +130,8 @@ func Explain(w io.Writer, run Run, b Bridge, member string) error {
 			}
 			p("  governing %s: %s kN, %s, %s\n", g.sense, signed(g.e.Value, 1), safetext.Terminal(orDash(g.e.Train)), placementWords(g.e, g.tr))
 			if g.tr != nil && sc.name == "proposed" && g.sign == governing(m) {
-				if e, ok := placementOf(g.tr, g.e, lines.X, eta, shareOf(b), g.sign); ok {
-					explainLoads(ew, g.tr, e, t.SpanM(), lines.X, eta, g.sign, shareOf(b))
+				if e, ok := placementOf(g.tr, g.e, lines.X, eta, b.liveShare(), g.sign); ok {
+					explainLoads(ew, g.tr, e, t.SpanM(), lines.X, eta, g.sign, b.liveShare())
 				} else {
 					p("    (train %s as now defined does not give this force: it has changed since the run)\n", safetext.Terminal(g.e.Train))
 				}
@@ -191,7 +191,7 @@ func explainTrains(w io.Writer, run Run, b Bridge, xs, eta []float64, scenario s
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "  train\tmax kN\twhere\tmin kN\twhere\t")
 	for _, tr := range trains {
-		ex, err := envelope.Compute(xs, [][]float64{eta}, tr, envelope.Options{Share: shareOf(b)})
+		ex, err := envelope.Compute(xs, [][]float64{eta}, tr, envelope.Options{Share: b.liveShare()})
 		if err != nil {
 			fmt.Fprintf(tw, "  %s\t%s\t\t\t\t\n", safetext.Cell(tr.Name), err)
 			continue

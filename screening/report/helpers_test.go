@@ -2,7 +2,6 @@ package report
 
 import (
 	"bytes"
-	"encoding/csv"
 	"fmt"
 	"math"
 	"strconv"
@@ -10,6 +9,7 @@ import (
 	"time"
 
 	"github.com/trussfleet/trussfleet/configs"
+	"github.com/trussfleet/trussfleet/internal/csvtest"
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/fleetgen"
@@ -276,8 +276,8 @@ func demoFleet(t testing.TB, n int) *fixture {
 	if err := fleetgen.Generate(opt, &bb, &mb); err != nil {
 		t.Fatal(err)
 	}
-	bridges := readCSV(t, &bb)
-	members := readCSV(t, &mb)
+	bridges := csvtest.Rows(t, &bb)
+	members := csvtest.Rows(t, &mb)
 	var fleet []invented
 	byID := map[string]int{}
 	fl := func(s string) float64 {
@@ -306,21 +306,4 @@ func demoFleet(t testing.TB, n int) *fixture {
 		}
 	}
 	return screenFleet(t, fleet, ref)
-}
-
-func readCSV(t testing.TB, b *bytes.Buffer) []map[string]string {
-	t.Helper()
-	recs, err := csv.NewReader(b).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	var out []map[string]string
-	for _, r := range recs[1:] {
-		m := map[string]string{}
-		for i, h := range recs[0] {
-			m[h] = r[i]
-		}
-		out = append(out, m)
-	}
-	return out
 }

@@ -18,6 +18,7 @@ import (
 	"strings"
 
 	"github.com/trussfleet/trussfleet/internal/safetext"
+	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/traffic"
@@ -510,7 +511,7 @@ func memberSection(run Run, b Bridge, t *truss.Truss, lines *analysis.Lines, i i
 	if sign < 0 {
 		ex, tr, sense = m.Proposed.Min, m.Proposed.MinTrain, "compression"
 	}
-	ex, same := placementOf(tr, ex, lines.X, eta, shareOf(b), sign)
+	ex, same := placementOf(tr, ex, lines.X, eta, b.liveShare(), sign)
 	var ob onBridge
 	if same {
 		ob = placeTrain(tr, ex.Placement, t.SpanM(), lines.X, eta, sign)
@@ -522,14 +523,14 @@ func memberSection(run Run, b Bridge, t *truss.Truss, lines *analysis.Lines, i i
 	s.Chart = &c
 	pos, neg := analysis.Areas(lines.X, eta)
 	s.Captions = append(s.Captions, fmt.Sprintf("Influence line of %s: member force per unit load at each deck panel point; areas %s and %s m. Dead load D = %s kN/m × net area %s m = %s kN.",
-		m.Label, signed(clean(pos), 3), signed(clean(neg), 3), num(b.DeadLoadKNPerM, 2), signed(clean(pos+neg), 3), signed(b.DeadLoadKNPerM*(pos+neg), 1)))
-	s.Captions = append(s.Captions, placementText(ex, tr, ob, lines.X, eta, sense, shareOf(b)))
+		m.Label, signed(clean(pos), 3), signed(clean(neg), 3), num(b.DeadLoadKNPerM, 2), signed(clean(pos+neg), 3), signed(analysis.DeadLoad(lines.X, eta, b.DeadLoadKNPerM), 1)))
+	s.Captions = append(s.Captions, placementText(ex, tr, ob, lines.X, eta, sense, b.liveShare()))
 	return s
 }
 
-// shareOf is the factor on a train's load for the analysed truss.
-func shareOf(b Bridge) float64 {
-	return b.TrussShare * float64(max(b.Tracks, 1))
+// liveShare is the factor on a train's load for the analysed truss, by screening's rule.
+func (b Bridge) liveShare() float64 {
+	return screening.Bridge{TrussShare: b.TrussShare, Tracks: b.Tracks}.LiveShare()
 }
 
 // placementText says where the governing train stood and checks its effect against L.

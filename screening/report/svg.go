@@ -229,9 +229,9 @@ func drawIL(id, label string, spanM float64, xs, eta []float64, ob onBridge, lef
 		c.Arrows = append(c.Arrows, arrow{
 			Shaft: line{x, top, x, deckY - 7},
 			Head:  fmt.Sprintf("%.2f,%.2f %.2f,%.2f %.2f,%.2f", x-3.5, deckY-8, x+3.5, deckY-8, x, deckY-1),
-			Title: fmt.Sprintf("axle %s kN at x = %s m, η = %s", num(a.LoadKN, 1), num(a.XM, 2), num(clean(interp(xs, eta, a.XM)), 3)),
+			Title: fmt.Sprintf("axle %s kN at x = %s m, η = %s", num(a.LoadKN, 1), num(a.XM, 2), num(clean(analysis.Interpolate(xs, eta, a.XM)), 3)),
 		})
-		c.Drops = append(c.Drops, line{x, deckY, x, py(clean(interp(xs, eta, a.XM)))})
+		c.Drops = append(c.Drops, line{x, deckY, x, py(clean(analysis.Interpolate(xs, eta, a.XM)))})
 	}
 	qmax := 0.0
 	for _, st := range ob.Stretches {
@@ -266,11 +266,4 @@ func drawIL(id, label string, spanM float64, xs, eta []float64, ob onBridge, lef
 		}
 	}
 	return c
-}
-
-func interp(xs, eta []float64, x float64) float64 {
-	if len(xs) == 0 {
-		return 0
-	}
-	return analysis.Interpolate(xs, eta, x)
 }
