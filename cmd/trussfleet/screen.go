@@ -28,7 +28,6 @@ const (
 func newScreenCmd(a *app) *cobra.Command {
 	var changed bool
 	var resume int64
-	prof := &profiling{}
 	cmd := &cobra.Command{
 		Use:   "screen",
 		Short: "Screen every bridge against the existing and the proposed traffic",
@@ -43,20 +42,14 @@ failed; 130 interrupted.`,
 		RunE: func(cmd *cobra.Command, _ []string) error {
 			ctx, stop := signal.NotifyContext(cmd.Context(), os.Interrupt, syscall.SIGTERM)
 			defer stop()
-			stopProfile, err := prof.start()
+			db, err := a.openDatabase(ctx)
 			if err != nil {
 				return err
 			}
-			db, err := a.openDatabase(ctx)
-			if err != nil {
-				return errors.Join(err, stopProfile())
-			}
 			defer db.Close()
-			err = a.screenWith(ctx, db, cmd.OutOrStdout(), cmd.ErrOrStderr(), changed, resume, prof.onTiming)
-			return errors.Join(err, stopProfile())
+			return a.screen(ctx, db, cmd.OutOrStdout(), cmd.ErrOrStderr(), changed, resume)
 		},
 	}
-	prof.flags(cmd)
 	cmd.Flags().BoolVar(&changed, "changed", false, "screen only bridges whose inputs changed since the last completed run; carry the others forward")
 	cmd.Flags().Int64Var(&resume, "resume", 0, "finish an interrupted run instead of starting a new one")
 	cmd.Flags().Int("workers", 0, "goroutines screening bridges in this process (default: CPUs)")
@@ -74,18 +67,13 @@ func screeningGC() {
 
 // screen runs (or resumes) a run to its end in this process and prints its summary.
 func (a *app) screen(ctx context.Context, db *store.DB, out, errw io.Writer, changed bool, resume int64) error {
-	return a.screenWith(ctx, db, out, errw, changed, resume, nil)
-}
-
-// screenWith is screen, telling onTiming (when not nil) where each job's time went.
-func (a *app) screenWith(ctx context.Context, db *store.DB, out, errw io.Writer, changed bool, resume int64, onTiming func(store.ChunkTiming)) error {
 	screeningGC()
 	s := a.cfg.Screen
 	// Each committed job wakes the wait below, which then looks at once whether the run
 	// has ended instead of at its next poll.
 	wake := make(chan struct{}, 1)
 	wc, err := db.NewWorkerClient(store.WorkerOptions{
-		Jobs: s.Jobs, Threads: a.cfg.Workers, JobTimeout: s.JobTimeout, RescueAfter: s.RescueAfter, OnTiming: onTiming,
+		Jobs: s.Jobs, Threads: a.cfg.Workers, JobTimeout: s.JobTimeout, RescueAfter: s.RescueAfter,
 		OnChunk: func(int64, int) {
 			select {
 			case wake <- struct{}{}:

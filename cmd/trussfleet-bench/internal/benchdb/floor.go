@@ -1,4 +1,4 @@
-package store
+package benchdb
 
 import (
 	"context"
@@ -9,6 +9,7 @@ import (
 	"time"
 
 	"github.com/jackc/pgx/v5"
+	"github.com/jackc/pgx/v5/pgxpool"
 	"golang.org/x/sync/errgroup"
 )
 
@@ -42,15 +43,16 @@ type FloorOptions struct {
 	ServerCPU func() float64
 }
 
-// floorTables are the tables a run writes rows into, in the order they are copied.
-var floorTables = []string{"member_results", "member_assessments"}
+// resultTables are the tables a run writes its result rows into, in the order they are
+// copied (sql/migrations/002_screening.sql).
+var resultTables = []string{"member_results", "member_assessments"}
 
 // MeasureCopyFloor copies the result rows of run runID into empty copies of their tables
 // (same columns, defaults, checks and indexes; no foreign keys) and times the copy. The
 // rows are first read back into files under dir, untimed, so that memory stays flat
 // however big the run; the bridges are split between opt.Streams connections copying at
 // once. The copies are dropped afterwards.
-func (db *DB) MeasureCopyFloor(ctx context.Context, runID int64, dir string, opt FloorOptions) (CopyFloor, error) {
+func MeasureCopyFloor(ctx context.Context, pool *pgxpool.Pool, runID int64, dir string, opt FloorOptions) (CopyFloor, error) {
 	streams := max(opt.Streams, 1)
 	f := CopyFloor{Streams: streams}
 	tmp, err := os.MkdirTemp(dir, "copy-floor-")
@@ -58,13 +60,13 @@ func (db *DB) MeasureCopyFloor(ctx context.Context, runID int64, dir string, opt
 		return f, err
 	}
 	defer os.RemoveAll(tmp)
-	defer db.dropFloorTables(context.WithoutCancel(ctx))
+	defer dropFloorTables(context.WithoutCancel(ctx), pool)
 	// Dump each stream's share of each table: bridges split by a hash of their id.
 	paths := make([][]string, streams)
 	for s := range streams {
-		for _, t := range floorTables {
+		for _, t := range resultTables {
 			p := filepath.Join(tmp, fmt.Sprintf("%s-%d.bin", t, s))
-			n, err := db.dumpRows(ctx, p, fmt.Sprintf(`COPY (SELECT * FROM %s WHERE run_id = %d
+			n, err := dumpRows(ctx, pool, p, fmt.Sprintf(`COPY (SELECT * FROM %s WHERE run_id = %d
 				AND abs(hashtext(bridge_id)) %% %d = %d) TO STDOUT (FORMAT binary)`, t, runID, streams, s))
 			if err != nil {
 				return f, fmt.Errorf("copy floor: reading %s back: %w", t, err)
@@ -74,7 +76,7 @@ func (db *DB) MeasureCopyFloor(ctx context.Context, runID int64, dir string, opt
 		}
 	}
 	for r := range max(opt.Repeats, 1) {
-		elapsed, rows, cpu, err := db.copyOnce(ctx, paths, opt.ServerCPU)
+		elapsed, rows, cpu, err := copyOnce(ctx, pool, paths, opt.ServerCPU)
 		if err != nil {
 			return f, err
 		}
@@ -89,12 +91,12 @@ func (db *DB) MeasureCopyFloor(ctx context.Context, runID int64, dir string, opt
 // copyOnce copies the dumped rows (paths[stream][table]) into fresh, empty floor tables,
 // one connection per stream, and returns the time it took, the rows copied and the server
 // CPU seconds serverCPU (when set) saw go by.
-func (db *DB) copyOnce(ctx context.Context, paths [][]string, serverCPU func() float64) (time.Duration, int64, float64, error) {
-	if err := db.dropFloorTables(ctx); err != nil {
+func copyOnce(ctx context.Context, pool *pgxpool.Pool, paths [][]string, serverCPU func() float64) (time.Duration, int64, float64, error) {
+	if err := dropFloorTables(ctx, pool); err != nil {
 		return 0, 0, 0, err
 	}
-	for _, t := range floorTables {
-		if _, err := db.Pool.Exec(ctx, fmt.Sprintf("CREATE TABLE %s (LIKE %s INCLUDING ALL)", floorTable(t), t)); err != nil {
+	for _, t := range resultTables {
+		if _, err := pool.Exec(ctx, fmt.Sprintf("CREATE TABLE %s (LIKE %s INCLUDING ALL)", floorTable(t), t)); err != nil {
 			return 0, 0, 0, fmt.Errorf("copy floor: %w", err)
 		}
 	}
@@ -107,8 +109,8 @@ func (db *DB) copyOnce(ctx context.Context, paths [][]string, serverCPU func() f
 	g, gctx := errgroup.WithContext(ctx)
 	for s := range paths {
 		g.Go(func() error {
-			return pgx.BeginFunc(gctx, db.Pool, func(tx pgx.Tx) error {
-				for i, t := range floorTables {
+			return pgx.BeginFunc(gctx, pool, func(tx pgx.Tx) error {
+				for i, t := range resultTables {
 					n, err := copyFile(gctx, tx, paths[s][i], floorTable(t))
 					if err != nil {
 						return fmt.Errorf("copy floor: copying into %s: %w", floorTable(t), err)
@@ -134,9 +136,9 @@ func (db *DB) copyOnce(ctx context.Context, paths [][]string, serverCPU func() f
 
 func floorTable(t string) string { return "copy_floor_" + t }
 
-func (db *DB) dropFloorTables(ctx context.Context) error {
-	for _, t := range floorTables {
-		if _, err := db.Pool.Exec(ctx, "DROP TABLE IF EXISTS "+floorTable(t)); err != nil {
+func dropFloorTables(ctx context.Context, pool *pgxpool.Pool) error {
+	for _, t := range resultTables {
+		if _, err := pool.Exec(ctx, "DROP TABLE IF EXISTS "+floorTable(t)); err != nil {
 			return err
 		}
 	}
@@ -144,12 +146,12 @@ func (db *DB) dropFloorTables(ctx context.Context) error {
 }
 
 // dumpRows writes the output of a COPY ... TO STDOUT to a file and returns its size.
-func (db *DB) dumpRows(ctx context.Context, path, copySQL string) (int64, error) {
+func dumpRows(ctx context.Context, pool *pgxpool.Pool, path, copySQL string) (int64, error) {
 	out, err := os.Create(path)
 	if err != nil {
 		return 0, err
 	}
-	conn, err := db.Pool.Acquire(ctx)
+	conn, err := pool.Acquire(ctx)
 	if err != nil {
 		out.Close()
 		return 0, err
@@ -181,37 +183,4 @@ func copyFile(ctx context.Context, tx pgx.Tx, path, table string) (int64, error)
 		return 0, err
 	}
 	return tag.RowsAffected(), nil
-}
-
-// Settle vacuums and analyses the inventory and result tables and writes a checkpoint, so
-// that a benchmark that follows is not slowed by the autovacuum of an earlier import or
-// deletion, nor by its checkpoint (which a role without the right to CHECKPOINT skips). It
-// may take a while after a large deletion.
-func (db *DB) Settle(ctx context.Context) error {
-	if _, err := db.Pool.Exec(ctx, "VACUUM (ANALYZE) bridges, members, trains, runs, run_bridges, member_results, member_assessments"); err != nil {
-		return fmt.Errorf("settling the database: %w", err)
-	}
-	_, _ = db.Pool.Exec(ctx, "CHECKPOINT")
-	return nil
-}
-
-// DeleteRun removes a run with its bridges and results (benchmark runs, which would
-// otherwise fill the disk). It refuses a run that is still running. The result tables have
-// no foreign key to cascade from (sql/migrations/003): their rows are deleted here.
-func (db *DB) DeleteRun(ctx context.Context, id int64) error {
-	return pgx.BeginFunc(ctx, db.Pool, func(tx pgx.Tx) error {
-		tag, err := tx.Exec(ctx, "DELETE FROM runs WHERE id = $1 AND status <> 'running'", id)
-		if err != nil {
-			return err
-		}
-		if tag.RowsAffected() == 0 {
-			return fmt.Errorf("run %d: %w (or still running)", id, ErrNotFound)
-		}
-		for _, t := range floorTables {
-			if _, err := tx.Exec(ctx, "DELETE FROM "+t+" WHERE run_id = $1", id); err != nil {
-				return err
-			}
-		}
-		return nil
-	})
 }
