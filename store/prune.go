@@ -190,6 +190,16 @@ func (db *DB) deleteRun(ctx context.Context, id int64, counts map[string]int64) 
 	return removed, err
 }
 
+// DeleteRun removes one run that is not running, as a prune does (the runs that depend on it
+// take its picture; the result sets only it named go).
+func (db *DB) DeleteRun(ctx context.Context, id int64) error {
+	removed, err := db.deleteRun(ctx, id, map[string]int64{})
+	if err == nil && !removed {
+		err = fmt.Errorf("run %d: %w (or still running)", id, ErrNotFound)
+	}
+	return err
+}
+
 // dropUnusedSets deletes, of the given result sets, those no run_bridges row refers to, with
 // their member rows.
 func dropUnusedSets(ctx context.Context, tx pgx.Tx, sets []int64, n map[string]int64) error {

@@ -182,7 +182,7 @@ func benchRun(ctx context.Context, out io.Writer, cfgFile string, dbc database, 
 		return err
 	}
 	if !o.keep {
-		if err := benchdb.DeleteRun(ctx, db.Pool, run.ID); err != nil {
+		if err := db.DeleteRun(ctx, run.ID); err != nil {
 			return err
 		}
 	}

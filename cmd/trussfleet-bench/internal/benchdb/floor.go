@@ -66,8 +66,9 @@ func MeasureCopyFloor(ctx context.Context, pool *pgxpool.Pool, runID int64, dir 
 	for s := range streams {
 		for _, t := range resultTables {
 			p := filepath.Join(tmp, fmt.Sprintf("%s-%d.bin", t, s))
-			n, err := dumpRows(ctx, pool, p, fmt.Sprintf(`COPY (SELECT * FROM %s WHERE run_id = %d
-				AND abs(hashtext(bridge_id)) %% %d = %d) TO STDOUT (FORMAT binary)`, t, runID, streams, s))
+			// The rows of the result sets the run's picture names.
+			n, err := dumpRows(ctx, pool, p, fmt.Sprintf(`COPY (SELECT m.* FROM %s m JOIN run_picture(%d) r ON r.set_id = m.set_id
+				AND abs(hashtext(r.bridge_id)) %% %d = %d) TO STDOUT (FORMAT binary)`, t, runID, streams, s))
 			if err != nil {
 				return f, fmt.Errorf("copy floor: reading %s back: %w", t, err)
 			}

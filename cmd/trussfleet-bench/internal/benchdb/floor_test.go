@@ -36,7 +36,11 @@ func TestCopyFloorAndDeleteRun(t *testing.T) {
 	runToEnd(t, db, id, 2)
 	count := func(table string) int64 {
 		var n int64
-		if err := db.Pool.QueryRow(ctx, "SELECT count(*) FROM "+table+" WHERE run_id = $1", id).Scan(&n); err != nil {
+		q := "SELECT count(*) FROM " + table + " WHERE run_id = $1"
+		if table != "run_bridges" {
+			q = "SELECT count(*) FROM " + table + " m JOIN run_bridges r ON r.set_id = m.set_id AND r.run_id = $1"
+		}
+		if err := db.Pool.QueryRow(ctx, q, id).Scan(&n); err != nil {
 			t.Fatal(err)
 		}
 		return n
@@ -55,15 +59,19 @@ func TestCopyFloorAndDeleteRun(t *testing.T) {
 	if len(f.Times) != 2 || f.Elapsed != min(f.Times[0], f.Times[1]) {
 		t.Fatalf("copy floor %v of times %v: want the fastest of 2", f.Elapsed, f.Times)
 	}
-	if err := benchdb.DeleteRun(ctx, db.Pool, id); err != nil {
+	if err := db.DeleteRun(ctx, id); err != nil {
 		t.Fatal(err)
 	}
-	for _, table := range []string{"member_results", "member_assessments", "run_bridges"} {
-		if n := count(table); n != 0 {
-			t.Errorf("%s: %d rows of the deleted run left", table, n)
+	for _, table := range []string{"member_results", "member_assessments", "result_sets"} {
+		var n int64
+		if err := db.Pool.QueryRow(ctx, "SELECT count(*) FROM "+table).Scan(&n); err != nil || n != 0 {
+			t.Errorf("%s: %d rows left after the only run was deleted (%v)", table, n, err)
 		}
 	}
-	if err := benchdb.DeleteRun(ctx, db.Pool, id); err == nil {
+	if n := count("run_bridges"); n != 0 {
+		t.Errorf("run_bridges: %d rows of the deleted run left", n)
+	}
+	if err := db.DeleteRun(ctx, id); err == nil {
 		t.Error("deleting the run again: no error")
 	}
 }
