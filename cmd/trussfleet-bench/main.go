@@ -37,7 +37,7 @@ func newRootCmd() *cobra.Command {
 	pf.StringVar(&b.cfgFile, "config", "", "trussfleet configuration file (YAML); default: ./trussfleet.yaml if present")
 	pf.String("database-url", "", "PostgreSQL connection string; empty starts the embedded server")
 	pf.String("data-dir", "", "data directory of the embedded server (default: DIR/n-N/pg, beside the fleet)")
-	root.AddCommand(newRunCmd(b))
+	root.AddCommand(newRunCmd(b), newNightlyCmd(b))
 	return root
 }
 
