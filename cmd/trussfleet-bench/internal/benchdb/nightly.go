@@ -48,7 +48,7 @@ func (f RunFootprint) ResultRows() int64 {
 func ChangeBridges(ctx context.Context, pool *pgxpool.Pool, share float64, night int, factor float64) (int64, error) {
 	_, err := pool.Exec(ctx, `WITH chosen AS (
 			SELECT bridge_id FROM bridges ORDER BY md5(bridge_id || ':' || $1::text)
-			LIMIT greatest(1, round($2 * (SELECT count(*) FROM bridges)))::bigint)
+			LIMIT greatest(1, round($2::float8 * (SELECT count(*) FROM bridges)))::bigint)
 		UPDATE members m SET capacity_tension_kn = m.capacity_tension_kn * $3,
 			capacity_compression_kn = m.capacity_compression_kn * $3, rating_factor = m.rating_factor * $3
 		FROM chosen c WHERE m.bridge_id = c.bridge_id`, strconv.Itoa(night), share, factor)
@@ -57,7 +57,7 @@ func ChangeBridges(ctx context.Context, pool *pgxpool.Pool, share float64, night
 	}
 	var n int64
 	err = pool.QueryRow(ctx, `SELECT count(*) FROM (SELECT bridge_id FROM bridges
-		ORDER BY md5(bridge_id || ':' || $1::text) LIMIT greatest(1, round($2 * (SELECT count(*) FROM bridges)))::bigint) c`,
+		ORDER BY md5(bridge_id || ':' || $1::text) LIMIT greatest(1, round($2::float8 * (SELECT count(*) FROM bridges)))::bigint) c`,
 		strconv.Itoa(night), share).Scan(&n)
 	return n, err
 }
