@@ -109,14 +109,14 @@ func (db *DB) PruneRuns(ctx context.Context, r Retention) (Pruned, error) {
 //  2. The run's rows go, and its jobs that are not being worked (a job still queued for an
 //     interrupted run would find nothing to do; a running one finds its bridges gone).
 //  3. Of the result sets its rows named, those no run refers to any more go with their
-//     member rows. A job about to reuse such a set holds it FOR KEY SHARE (storeSets): the
+//     member rows. A job about to reuse such a set holds it FOR KEY SHARE (ShareResultSets): the
 //     lock below waits for that job, and the check after it then sees its reference.
 func (db *DB) deleteRun(ctx context.Context, id int64, counts map[string]int64) (bool, error) {
 	removed := false
 	n := map[string]int64{}
 	err := pgx.BeginFunc(ctx, db.Pool, func(tx pgx.Tx) error {
 		clear(n)
-		if err := durable(ctx, tx); err != nil {
+		if err := Durable(ctx, tx); err != nil {
 			return err
 		}
 		// Lock the run's row first: a resume that sets it running waits for this
@@ -167,12 +167,9 @@ func (db *DB) deleteRun(ctx context.Context, id int64, counts map[string]int64) 
 			return err
 		}
 		n["run_bridges"] = nb
-		tag, err := tx.Exec(ctx, `DELETE FROM river_job WHERE kind = $1 AND (args->>'run_id')::bigint = $2
-			AND state <> 'running'`, ChunkArgs{}.Kind(), id)
-		if err != nil {
+		if n["river_job"], err = deleteIdleJobs(ctx, tx, id); err != nil {
 			return err
 		}
-		n["river_job"] = tag.RowsAffected()
 		if _, err := tx.Exec(ctx, "DELETE FROM runs WHERE id = $1", id); err != nil {
 			return err
 		}
@@ -198,36 +195,6 @@ func (db *DB) DeleteRun(ctx context.Context, id int64) error {
 		err = fmt.Errorf("run %d: %w (or still running)", id, ErrNotFound)
 	}
 	return err
-}
-
-// dropUnusedSets deletes, of the given result sets, those no run_bridges row refers to, with
-// their member rows.
-func dropUnusedSets(ctx context.Context, tx pgx.Tx, sets []int64, n map[string]int64) error {
-	if len(sets) == 0 {
-		return nil
-	}
-	if _, err := tx.Exec(ctx, "SELECT 1 FROM result_sets WHERE id = ANY($1) ORDER BY id FOR UPDATE", sets); err != nil {
-		return err
-	}
-	// A statement of its own, after the lock: it sees what the jobs that held the sets committed.
-	rows, err := tx.Query(ctx, `DELETE FROM result_sets s WHERE s.id = ANY($1)
-		AND NOT EXISTS (SELECT 1 FROM run_bridges r WHERE r.set_id = s.id) RETURNING s.id`, sets)
-	if err != nil {
-		return err
-	}
-	gone, err := pgx.CollectRows(rows, pgx.RowTo[int64])
-	if err != nil {
-		return err
-	}
-	n["result_sets"] = int64(len(gone))
-	for _, t := range []string{"member_results", "member_assessments"} {
-		tag, err := tx.Exec(ctx, "DELETE FROM "+t+" WHERE set_id = ANY($1)", gone)
-		if err != nil {
-			return err
-		}
-		n[t] = tag.RowsAffected()
-	}
-	return nil
 }
 
 // DatabaseSize is the size of the current database on disk, in bytes.

@@ -13,6 +13,7 @@ import (
 	"time"
 
 	"github.com/spf13/cobra"
+	"github.com/trussfleet/trussfleet/fleetrun"
 	"github.com/trussfleet/trussfleet/store"
 )
 
@@ -72,7 +73,7 @@ func (a *app) screen(ctx context.Context, db *store.DB, out, errw io.Writer, cha
 	// Each committed job wakes the wait below, which then looks at once whether the run
 	// has ended instead of at its next poll.
 	wake := make(chan struct{}, 1)
-	wc, err := db.NewWorkerClient(store.WorkerOptions{
+	wc, err := fleetrun.NewWorkerClient(db, fleetrun.WorkerOptions{
 		Jobs: s.Jobs, Threads: a.cfg.Workers, JobTimeout: s.JobTimeout, RescueAfter: s.RescueAfter,
 		OnChunk: func(int64, int) {
 			select {
@@ -90,7 +91,7 @@ func (a *app) screen(ctx context.Context, db *store.DB, out, errw io.Writer, cha
 		if err != nil {
 			return err
 		}
-		id, err = wc.CreateRun(ctx, store.NewRun{ProgramVersion: version, Config: a.cfg.Redacted(), Plan: plan,
+		id, err = wc.CreateRun(ctx, fleetrun.NewRun{ProgramVersion: version, Config: a.cfg.Redacted(), Plan: plan,
 			PlanHash: plan.Hash(), ChunkSize: s.ChunkSize, Changed: changed})
 		if err != nil {
 			return err
@@ -111,7 +112,7 @@ func (a *app) screen(ctx context.Context, db *store.DB, out, errw io.Writer, cha
 		// are queued again or recorded as failed, so that the run can finish.
 		if rec, err := wc.RecoverRuns(ctx, resume, s.ChunkSize); err != nil {
 			return err
-		} else if rec != (store.Recovered{}) {
+		} else if rec != (fleetrun.Recovered{}) {
 			fmt.Fprintf(errw, "run %d: %d bridges without a job queued again, %d recorded as failed\n", resume, rec.Requeued, rec.Failed)
 		}
 	}
@@ -125,7 +126,7 @@ func (a *app) screen(ctx context.Context, db *store.DB, out, errw io.Writer, cha
 	if err := wc.Start(context.WithoutCancel(ctx)); err != nil {
 		return err
 	}
-	sweep := func(ctx context.Context) (store.Recovered, error) { return wc.RecoverRuns(ctx, id, s.ChunkSize) }
+	sweep := func(ctx context.Context) (fleetrun.Recovered, error) { return wc.RecoverRuns(ctx, id, s.ChunkSize) }
 	status, err := waitForRun(ctx, db, id, errw, p0.Total-p0.Pending, start, wake, sweep)
 	stopCtx, cancel := context.WithTimeout(context.Background(), 30*time.Second)
 	defer cancel()
@@ -169,7 +170,7 @@ func (a *app) screen(ctx context.Context, db *store.DB, out, errw io.Writer, cha
 // committed) makes it look at the run's status at once. Every few seconds, when bridges are
 // pending but no job is left to work them, sweep ends or requeues them.
 func waitForRun(ctx context.Context, db *store.DB, id int64, errw io.Writer, first int, start time.Time, wake <-chan struct{},
-	sweep func(context.Context) (store.Recovered, error)) (string, error) {
+	sweep func(context.Context) (fleetrun.Recovered, error)) (string, error) {
 	tty := isTerminal(errw)
 	var lastLog, lastJobCheck time.Time
 	var lostSince time.Time

@@ -10,7 +10,7 @@ import (
 	"time"
 
 	"github.com/spf13/cobra"
-	"github.com/trussfleet/trussfleet/store"
+	"github.com/trussfleet/trussfleet/fleetrun"
 )
 
 func init() { commands = append(commands, newWorkerCmd) }
@@ -35,7 +35,7 @@ SIGINT or SIGTERM stops it: running jobs finish first (up to job_timeout), then 
 			defer db.Close()
 			screeningGC()
 			s := a.cfg.Screen
-			wc, err := db.NewWorkerClient(store.WorkerOptions{
+			wc, err := fleetrun.NewWorkerClient(db, fleetrun.WorkerOptions{
 				Jobs: s.Jobs, Threads: a.cfg.Workers, JobTimeout: s.JobTimeout, RescueAfter: s.RescueAfter,
 				OnChunk: func(run int64, n int) { slog.Info("chunk committed", "run", run, "bridges", n) },
 			})
@@ -57,7 +57,7 @@ SIGINT or SIGTERM stops it: running jobs finish first (up to job_timeout), then 
 				}
 				if rec, err := wc.RecoverRuns(ctx, 0, s.ChunkSize); err != nil && ctx.Err() == nil {
 					slog.Warn("recovering bridges without a job", "err", err)
-				} else if rec != (store.Recovered{}) {
+				} else if rec != (fleetrun.Recovered{}) {
 					slog.Warn("bridges pending with no job left", "requeued", rec.Requeued, "failed", rec.Failed)
 				}
 				select {
