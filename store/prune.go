@@ -4,11 +4,14 @@ import (
 	"context"
 	"errors"
 	"fmt"
-	"strings"
 	"time"
 
 	"github.com/jackc/pgx/v5"
 )
+
+// Pruning: a run's rows of runs and run_bridges, the result sets only it named with their
+// member rows (dropUnusedSets, result_sets.go) and its jobs in River's table (deleteIdleJobs,
+// river_job.go), deleted together, one run per transaction.
 
 // Retention says which runs to keep. A run is pruned only when every rule given says so;
 // running runs and the latest completed run are always kept.
@@ -31,21 +34,6 @@ type Pruned struct {
 	Runs []int64
 	Rows map[string]int64
 }
-
-// carriedColumns are the run_bridges columns a pruned run's picture passes on, unchanged, to
-// a run that depends on it (run_id, status and source_run_id are set apart).
-var carriedColumns = []string{"bridge_id", "input_hash", "error", "worst_member", "rf_existing", "rf_proposed",
-	"demand_increase", "headroom", "flags", "flag_counts", "governing_train", "governing_sense", "governing_head_m",
-	"governing_direction", "governing_from_m", "governing_to_m", "screened_at", "requeues", "set_id"}
-
-// squashStatement copies the picture of run $1 into run $2 as carried rows, for every bridge
-// that run $2 holds no row of.
-var squashStatement = func() string {
-	cols := strings.Join(carriedColumns, ", ")
-	return "INSERT INTO run_bridges (run_id, status, source_run_id, " + cols + ")\n" +
-		"SELECT $2, 'carried', coalesce(p.source_run_id, p.run_id), p." + strings.Join(carriedColumns, ", p.") + "\n" +
-		"FROM run_picture($1) p WHERE NOT EXISTS (SELECT 1 FROM run_bridges y WHERE y.run_id = $2 AND y.bridge_id = p.bridge_id)"
-}()
 
 // PruneRuns removes the runs the retention rules let go, each with its bridges, results and
 // jobs, in one transaction per run: a prune killed at any moment leaves every run whole or
@@ -138,11 +126,11 @@ func (db *DB) deleteRun(ctx context.Context, id int64, counts map[string]int64) 
 			return err
 		}
 		for _, d := range dependents {
-			tag, err := tx.Exec(ctx, squashStatement, id, d)
+			carried, err := carryPicture(ctx, tx, id, d)
 			if err != nil {
 				return fmt.Errorf("passing run %d's results on to run %d: %w", id, d, err)
 			}
-			n["carried into later runs"] += tag.RowsAffected()
+			n["carried into later runs"] += carried
 			if _, err := tx.Exec(ctx, "DELETE FROM run_bridges WHERE run_id = $1 AND status = 'removed'", d); err != nil {
 				return err
 			}

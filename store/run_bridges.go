@@ -262,3 +262,25 @@ func SetOutcomes(ctx context.Context, tx pgx.Tx, runID int64, outcomes []BridgeO
 	_, err := tx.Exec(ctx, setOutcomes, args...)
 	return err
 }
+
+// carriedColumns are the run_bridges columns a pruned run's picture passes on, unchanged, to
+// a run that depends on it (run_id, status and source_run_id are set apart).
+var carriedColumns = []string{"bridge_id", "input_hash", "error", "worst_member", "rf_existing", "rf_proposed",
+	"demand_increase", "headroom", "flags", "flag_counts", "governing_train", "governing_sense", "governing_head_m",
+	"governing_direction", "governing_from_m", "governing_to_m", "screened_at", "requeues", "set_id"}
+
+// squashStatement copies the picture of run $1 into run $2 as carried rows, for every bridge
+// that run $2 holds no row of.
+var squashStatement = func() string {
+	cols := strings.Join(carriedColumns, ", ")
+	return "INSERT INTO run_bridges (run_id, status, source_run_id, " + cols + ")\n" +
+		"SELECT $2, 'carried', coalesce(p.source_run_id, p.run_id), p." + strings.Join(carriedColumns, ", p.") + "\n" +
+		"FROM run_picture($1) p WHERE NOT EXISTS (SELECT 1 FROM run_bridges y WHERE y.run_id = $2 AND y.bridge_id = p.bridge_id)"
+}()
+
+// carryPicture copies the picture of run from into run into as carried rows, for every
+// bridge that into holds no row of, and returns how many it copied.
+func carryPicture(ctx context.Context, tx pgx.Tx, from, into int64) (int64, error) {
+	tag, err := tx.Exec(ctx, squashStatement, from, into)
+	return tag.RowsAffected(), err
+}
