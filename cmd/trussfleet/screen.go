@@ -65,13 +65,18 @@ func screeningGC() {
 	}
 }
 
+// workerOptions are this process's share of the work, as configured.
+func (a *app) workerOptions() fleetrun.WorkerOptions {
+	s := a.cfg.Screen
+	return fleetrun.WorkerOptions{Jobs: s.Jobs, Threads: a.cfg.Workers, JobTimeout: s.JobTimeout, RescueAfter: s.RescueAfter}
+}
+
 // screen runs (or resumes) a run to its end in this process and prints its summary.
 func (a *app) screen(ctx context.Context, db *store.DB, out, errw io.Writer, changed bool, resume int64) error {
 	screeningGC()
 	s := a.cfg.Screen
 	opt := fleetrun.Options{
-		Worker:    fleetrun.WorkerOptions{Jobs: s.Jobs, Threads: a.cfg.Workers, JobTimeout: s.JobTimeout, RescueAfter: s.RescueAfter},
-		ChunkSize: s.ChunkSize, Logger: slog.Default(), Progress: progressPrinter(errw),
+		Worker: a.workerOptions(), ChunkSize: s.ChunkSize, Logger: slog.Default(), Progress: progressPrinter(errw),
 		Recovered: func(id int64, rec fleetrun.Recovered) {
 			fmt.Fprintf(errw, "run %d: %d bridges without a job queued again, %d recorded as failed\n", id, rec.Requeued, rec.Failed)
 		},

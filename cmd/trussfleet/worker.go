@@ -33,10 +33,9 @@ SIGINT or SIGTERM stops it: running jobs finish first (up to job_timeout), then 
 			defer db.Close()
 			screeningGC()
 			s := a.cfg.Screen
-			return fleetrun.Work(ctx, db, fleetrun.Options{
-				Worker: fleetrun.WorkerOptions{Jobs: s.Jobs, Threads: a.cfg.Workers, JobTimeout: s.JobTimeout, RescueAfter: s.RescueAfter,
-					OnChunk: func(run int64, n int) { slog.Info("chunk committed", "run", run, "bridges", n) }},
-				ChunkSize: s.ChunkSize, Logger: slog.Default(),
+			wo := a.workerOptions()
+			wo.OnChunk = func(run int64, n int) { slog.Info("chunk committed", "run", run, "bridges", n) }
+			return fleetrun.Work(ctx, db, fleetrun.Options{Worker: wo, ChunkSize: s.ChunkSize, Logger: slog.Default(),
 				Started: func() {
 					fmt.Fprintf(cmd.ErrOrStderr(), "worker started (pid %d): %d jobs at once, %d threads each\n", os.Getpid(), s.Jobs, a.cfg.Workers)
 				},
