@@ -9,6 +9,8 @@ import (
 	"github.com/jackc/pgx/v5"
 )
 
+// Table bridges: sql/migrations/001_inventory.sql.
+
 // Bridge is one span of the inventory, a row of the bridges table. Pointer fields are
 // optional (NULL when nil).
 type Bridge struct {
@@ -105,4 +107,77 @@ func (db *DB) BridgeSummaries(ctx context.Context) ([]BridgeSummary, error) {
 		var s BridgeSummary
 		return s, r.Scan(append(s.pointers(), &s.UpdatedAt, &s.Members)...)
 	})
+}
+
+// PendingBridgesOf reads those of the bridges ids that are still pending in the run, in id
+// order, with the members of all of ids.
+func (db *DB) PendingBridgesOf(ctx context.Context, runID int64, ids []string) ([]Bridge, []Member, error) {
+	// r.bridge_id = ANY($2) as well as the join: a run just created may have no statistics,
+	// and then the planner may read all the run's bridges to join 50 of them.
+	rows, err := db.Pool.Query(ctx, "SELECT "+bridgeColumns+` FROM bridges b
+		JOIN run_bridges r ON r.bridge_id = b.bridge_id AND r.run_id = $1 AND r.status = 'pending'
+			AND r.bridge_id = ANY($2)
+		WHERE b.bridge_id = ANY($2) ORDER BY b.bridge_id`, runID, ids)
+	if err != nil {
+		return nil, nil, err
+	}
+	bridges, err := pgx.CollectRows(rows, func(r pgx.CollectableRow) (Bridge, error) {
+		var b Bridge
+		return b, r.Scan(b.pointers()...)
+	})
+	if err != nil {
+		return nil, nil, err
+	}
+	rows, err = db.Pool.Query(ctx, "SELECT "+memberColumns+" FROM members WHERE bridge_id = ANY($1)", ids)
+	if err != nil {
+		return nil, nil, err
+	}
+	members, err := collectMembers(rows)
+	if err != nil {
+		return nil, nil, err
+	}
+	return bridges, members, nil
+}
+
+// EachBridge calls fn with every bridge of the inventory and its members, in bridge and
+// member order, reading them in one ordered pass with one bridge's members in memory at a
+// time: members is valid only during the call.
+func EachBridge(ctx context.Context, tx pgx.Tx, fn func(b Bridge, members []Member)) error {
+	rows, err := tx.Query(ctx, "SELECT "+bridgeColumns+`, m.member IS NOT NULL, coalesce(m.member, ''),
+		m.capacity_tension_kn, m.capacity_compression_kn, m.rating_factor, m.reference_train,
+		coalesce(m.condition_factor, 1)
+		FROM bridges b LEFT JOIN members m ON m.bridge_id = b.bridge_id ORDER BY b.bridge_id, m.member`)
+	if err != nil {
+		return err
+	}
+	defer rows.Close()
+	var cur Bridge
+	var members []Member
+	for rows.Next() {
+		var b Bridge
+		var m Member
+		var hasMember bool
+		dest := append(b.pointers(), &hasMember, &m.Member, &m.CapacityTensionKN, &m.CapacityCompressionKN,
+			&m.RatingFactor, &m.ReferenceTrain, &m.ConditionFactor)
+		if err := rows.Scan(dest...); err != nil {
+			return err
+		}
+		if b.BridgeID != cur.BridgeID {
+			if cur.BridgeID != "" {
+				fn(cur, members)
+			}
+			cur, members = b, members[:0]
+		}
+		if hasMember {
+			m.BridgeID = b.BridgeID
+			members = append(members, m)
+		}
+	}
+	if err := rows.Err(); err != nil {
+		return err
+	}
+	if cur.BridgeID != "" {
+		fn(cur, members)
+	}
+	return nil
 }

@@ -7,6 +7,9 @@ import (
 	"github.com/jackc/pgx/v5"
 )
 
+// The comparison of two runs' pictures: run_bridges through run_picture
+// (sql/migrations/009_result_sets.sql), joined with bridges for the names.
+
 // BridgeChange is one bridge's difference between two runs.
 type BridgeChange struct {
 	BridgeID         string
@@ -22,9 +25,9 @@ type BridgeChange struct {
 // counts as the same as the one it was carried from).
 func (db *DB) DiffRuns(ctx context.Context, a, b int64) ([]BridgeChange, error) {
 	rows, err := db.Pool.Query(ctx, `WITH ra AS (
-			SELECT r.*, row_number() OVER (ORDER BY `+rankOrder+`) AS rank FROM run_picture($1) r WHERE r.status <> 'pending'),
+			SELECT r.bridge_id, r.rf_proposed, r.flags, r.status, row_number() OVER (ORDER BY `+rankOrder+`) AS rank FROM run_picture($1) r WHERE r.status <> 'pending'),
 		rb AS (
-			SELECT r.*, row_number() OVER (ORDER BY `+rankOrder+`) AS rank FROM run_picture($2) r WHERE r.status <> 'pending')
+			SELECT r.bridge_id, r.rf_proposed, r.flags, r.status, row_number() OVER (ORDER BY `+rankOrder+`) AS rank FROM run_picture($2) r WHERE r.status <> 'pending')
 		SELECT coalesce(rb.bridge_id, ra.bridge_id), coalesce(b.name, ''), ra.rank::int, rb.rank::int,
 			ra.rf_proposed, rb.rf_proposed, coalesce(ra.flags, '{}'), coalesce(rb.flags, '{}'),
 			coalesce(ra.status, ''), coalesce(rb.status, '')

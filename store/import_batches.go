@@ -9,6 +9,8 @@ import (
 	"github.com/jackc/pgx/v5"
 )
 
+// Table import_batches: sql/migrations/001_inventory.sql.
+
 // Kind is what an import loads.
 type Kind string
 
@@ -57,7 +59,7 @@ func (db *DB) BeginImport(ctx context.Context, kind Kind, fileName string) (*Imp
 	}
 	im := &Import{tx: tx, kind: kind}
 	// An import reported as committed must survive a crash of the server.
-	if err := durable(ctx, tx); err != nil {
+	if err := Durable(ctx, tx); err != nil {
 		tx.Rollback(ctx)
 		return nil, fmt.Errorf("beginning import of %s: %w", fileName, err)
 	}

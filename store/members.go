@@ -7,6 +7,8 @@ import (
 	"github.com/jackc/pgx/v5"
 )
 
+// Table members: sql/migrations/001_inventory.sql.
+
 // Member is one member's stored capacity, a row of the members table. A member has a
 // tension capacity, a compression capacity, or both; or instead a rating factor for a named
 // reference loading (the stored capacity ratio). Capacities are magnitudes in kN before
@@ -75,4 +77,14 @@ func collectMembers(rows pgx.Rows) ([]Member, error) {
 		var m Member
 		return m, r.Scan(m.pointers()...)
 	})
+}
+
+// ReferenceTrains lists the distinct reference trains that stored rating factors name.
+func (db *DB) ReferenceTrains(ctx context.Context) ([]string, error) {
+	rows, err := db.Pool.Query(ctx, `SELECT DISTINCT reference_train FROM members
+		WHERE reference_train IS NOT NULL ORDER BY 1`)
+	if err != nil {
+		return nil, err
+	}
+	return pgx.CollectRows(rows, pgx.RowTo[string])
 }

@@ -4,11 +4,14 @@ import (
 	"context"
 	"errors"
 	"fmt"
-	"strings"
 	"time"
 
 	"github.com/jackc/pgx/v5"
 )
+
+// Pruning: a run's rows of runs and run_bridges, the result sets only it named with their
+// member rows (dropUnusedSets, result_sets.go) and its jobs in River's table (deleteIdleJobs,
+// river_job.go), deleted together, one run per transaction.
 
 // Retention says which runs to keep. A run is pruned only when every rule given says so;
 // running runs and the latest completed run are always kept.
@@ -31,21 +34,6 @@ type Pruned struct {
 	Runs []int64
 	Rows map[string]int64
 }
-
-// carriedColumns are the run_bridges columns a pruned run's picture passes on, unchanged, to
-// a run that depends on it (run_id, status and source_run_id are set apart).
-var carriedColumns = []string{"bridge_id", "input_hash", "error", "worst_member", "rf_existing", "rf_proposed",
-	"demand_increase", "headroom", "flags", "flag_counts", "governing_train", "governing_sense", "governing_head_m",
-	"governing_direction", "governing_from_m", "governing_to_m", "screened_at", "requeues", "set_id"}
-
-// squashStatement copies the picture of run $1 into run $2 as carried rows, for every bridge
-// that run $2 holds no row of.
-var squashStatement = func() string {
-	cols := strings.Join(carriedColumns, ", ")
-	return "INSERT INTO run_bridges (run_id, status, source_run_id, " + cols + ")\n" +
-		"SELECT $2, 'carried', coalesce(p.source_run_id, p.run_id), p." + strings.Join(carriedColumns, ", p.") + "\n" +
-		"FROM run_picture($1) p WHERE NOT EXISTS (SELECT 1 FROM run_bridges y WHERE y.run_id = $2 AND y.bridge_id = p.bridge_id)"
-}()
 
 // PruneRuns removes the runs the retention rules let go, each with its bridges, results and
 // jobs, in one transaction per run: a prune killed at any moment leaves every run whole or
@@ -109,14 +97,14 @@ func (db *DB) PruneRuns(ctx context.Context, r Retention) (Pruned, error) {
 //  2. The run's rows go, and its jobs that are not being worked (a job still queued for an
 //     interrupted run would find nothing to do; a running one finds its bridges gone).
 //  3. Of the result sets its rows named, those no run refers to any more go with their
-//     member rows. A job about to reuse such a set holds it FOR KEY SHARE (storeSets): the
+//     member rows. A job about to reuse such a set holds it FOR KEY SHARE (ShareResultSets): the
 //     lock below waits for that job, and the check after it then sees its reference.
 func (db *DB) deleteRun(ctx context.Context, id int64, counts map[string]int64) (bool, error) {
 	removed := false
 	n := map[string]int64{}
 	err := pgx.BeginFunc(ctx, db.Pool, func(tx pgx.Tx) error {
 		clear(n)
-		if err := durable(ctx, tx); err != nil {
+		if err := Durable(ctx, tx); err != nil {
 			return err
 		}
 		// Lock the run's row first: a resume that sets it running waits for this
@@ -138,11 +126,11 @@ func (db *DB) deleteRun(ctx context.Context, id int64, counts map[string]int64) 
 			return err
 		}
 		for _, d := range dependents {
-			tag, err := tx.Exec(ctx, squashStatement, id, d)
+			carried, err := carryPicture(ctx, tx, id, d)
 			if err != nil {
 				return fmt.Errorf("passing run %d's results on to run %d: %w", id, d, err)
 			}
-			n["carried into later runs"] += tag.RowsAffected()
+			n["carried into later runs"] += carried
 			if _, err := tx.Exec(ctx, "DELETE FROM run_bridges WHERE run_id = $1 AND status = 'removed'", d); err != nil {
 				return err
 			}
@@ -167,12 +155,9 @@ func (db *DB) deleteRun(ctx context.Context, id int64, counts map[string]int64) 
 			return err
 		}
 		n["run_bridges"] = nb
-		tag, err := tx.Exec(ctx, `DELETE FROM river_job WHERE kind = $1 AND (args->>'run_id')::bigint = $2
-			AND state <> 'running'`, ChunkArgs{}.Kind(), id)
-		if err != nil {
+		if n["river_job"], err = deleteIdleJobs(ctx, tx, id); err != nil {
 			return err
 		}
-		n["river_job"] = tag.RowsAffected()
 		if _, err := tx.Exec(ctx, "DELETE FROM runs WHERE id = $1", id); err != nil {
 			return err
 		}
@@ -198,36 +183,6 @@ func (db *DB) DeleteRun(ctx context.Context, id int64) error {
 		err = fmt.Errorf("run %d: %w (or still running)", id, ErrNotFound)
 	}
 	return err
-}
-
-// dropUnusedSets deletes, of the given result sets, those no run_bridges row refers to, with
-// their member rows.
-func dropUnusedSets(ctx context.Context, tx pgx.Tx, sets []int64, n map[string]int64) error {
-	if len(sets) == 0 {
-		return nil
-	}
-	if _, err := tx.Exec(ctx, "SELECT 1 FROM result_sets WHERE id = ANY($1) ORDER BY id FOR UPDATE", sets); err != nil {
-		return err
-	}
-	// A statement of its own, after the lock: it sees what the jobs that held the sets committed.
-	rows, err := tx.Query(ctx, `DELETE FROM result_sets s WHERE s.id = ANY($1)
-		AND NOT EXISTS (SELECT 1 FROM run_bridges r WHERE r.set_id = s.id) RETURNING s.id`, sets)
-	if err != nil {
-		return err
-	}
-	gone, err := pgx.CollectRows(rows, pgx.RowTo[int64])
-	if err != nil {
-		return err
-	}
-	n["result_sets"] = int64(len(gone))
-	for _, t := range []string{"member_results", "member_assessments"} {
-		tag, err := tx.Exec(ctx, "DELETE FROM "+t+" WHERE set_id = ANY($1)", gone)
-		if err != nil {
-			return err
-		}
-		n[t] = tag.RowsAffected()
-	}
-	return nil
 }
 
 // DatabaseSize is the size of the current database on disk, in bytes.

@@ -6,8 +6,12 @@ import (
 	"fmt"
 
 	"github.com/jackc/pgx/v5"
-	"github.com/trussfleet/trussfleet/screening/report"
+	"github.com/trussfleet/trussfleet/internal/ranking"
 )
+
+// The priority list: a run's picture (run_bridges, run_picture of
+// sql/migrations/009_result_sets.sql) joined with the inventory (bridges), and its flagged
+// members (member_assessments, member_results).
 
 // rankOrder is the priority order: lowest proposed RF first, then the largest demand
 // increase; bridges with no rated member after those, failed bridges last.
@@ -15,29 +19,33 @@ const rankOrder = `(r.status = 'failed'), r.rf_proposed ASC NULLS LAST, r.demand
 
 // Ranked returns a run's priority list (limit 0: all of it), joined with the inventory's
 // current names and dates.
-func (db *DB) Ranked(ctx context.Context, runID int64, limit int) ([]report.BridgeRow, error) {
+func (db *DB) Ranked(ctx context.Context, runID int64, limit int) ([]ranking.Row, error) {
 	return db.ranked(ctx, runID, limit, "")
 }
 
 // RankedBridge is one bridge's row of a run's priority list.
-func (db *DB) RankedBridge(ctx context.Context, runID int64, bridgeID string) (report.BridgeRow, error) {
+func (db *DB) RankedBridge(ctx context.Context, runID int64, bridgeID string) (ranking.Row, error) {
 	rows, err := db.ranked(ctx, runID, 0, bridgeID)
 	if err != nil {
-		return report.BridgeRow{}, err
+		return ranking.Row{}, err
 	}
 	if len(rows) == 0 {
-		return report.BridgeRow{}, fmt.Errorf("bridge %q in run %d: %w", bridgeID, runID, ErrNotFound)
+		return ranking.Row{}, fmt.Errorf("bridge %q in run %d: %w", bridgeID, runID, ErrNotFound)
 	}
 	return rows[0], nil
 }
 
-func (db *DB) ranked(ctx context.Context, runID int64, limit int, only string) ([]report.BridgeRow, error) {
-	q := `SELECT * FROM (SELECT row_number() OVER (ORDER BY ` + rankOrder + `) AS rank, r.bridge_id, coalesce(b.name, ''), coalesce(b.line, ''),
-		b.chainage_km, coalesce(b.truss_type, ''), coalesce(b.span_m, 0), coalesce(b.panels, 0), coalesce(r.worst_member, ''),
+func (db *DB) ranked(ctx context.Context, runID int64, limit int, only string) ([]ranking.Row, error) {
+	q := `SELECT rank, bridge_id, name, line, chainage_km, truss_type, span_m, panels, worst_member, rf_existing, rf_proposed,
+		demand_increase, headroom, flags, flag_counts, governing_train, governing_sense, governing_head_m,
+		governing_direction, governing_from_m, governing_to_m, last_inspected, status, error
+		FROM (SELECT row_number() OVER (ORDER BY ` + rankOrder + `) AS rank, r.bridge_id, coalesce(b.name, '') AS name,
+		coalesce(b.line, '') AS line, b.chainage_km, coalesce(b.truss_type, '') AS truss_type, coalesce(b.span_m, 0) AS span_m,
+		coalesce(b.panels, 0) AS panels, coalesce(r.worst_member, '') AS worst_member,
 		r.rf_existing, r.rf_proposed, r.demand_increase, r.headroom, r.flags, r.flag_counts,
-		coalesce(r.governing_train, ''), coalesce(r.governing_sense, ''), r.governing_head_m,
-		coalesce(r.governing_direction, ''), r.governing_from_m, r.governing_to_m,
-		coalesce(to_char(b.last_inspected, 'YYYY-MM-DD'), ''), r.status, r.error
+		coalesce(r.governing_train, '') AS governing_train, coalesce(r.governing_sense, '') AS governing_sense, r.governing_head_m,
+		coalesce(r.governing_direction, '') AS governing_direction, r.governing_from_m, r.governing_to_m,
+		coalesce(to_char(b.last_inspected, 'YYYY-MM-DD'), '') AS last_inspected, r.status, r.error
 		FROM run_picture($1) r LEFT JOIN bridges b ON b.bridge_id = r.bridge_id
 		WHERE r.status <> 'pending') AS ranked
 		WHERE $2 = '' OR bridge_id = $2
@@ -51,8 +59,8 @@ func (db *DB) ranked(ctx context.Context, runID int64, limit int, only string) (
 	if err != nil {
 		return nil, fmt.Errorf("ranking run %d: %w", runID, err)
 	}
-	return pgx.CollectRows(rows, func(row pgx.CollectableRow) (report.BridgeRow, error) {
-		var b report.BridgeRow
+	return pgx.CollectRows(rows, func(row pgx.CollectableRow) (ranking.Row, error) {
+		var b ranking.Row
 		var inc *float64
 		var counts []byte
 		err := row.Scan(&b.Rank, &b.BridgeID, &b.Name, &b.Line, &b.ChainageKm, &b.TrussType, &b.SpanM, &b.Panels,

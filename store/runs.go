@@ -10,6 +10,9 @@ import (
 	"github.com/jackc/pgx/v5"
 )
 
+// Table runs: sql/migrations/002_screening.sql, 005 (plan_hash), 008 (a pruned base run),
+// 009 (complete).
+
 // Run is a row of the runs table.
 type Run struct {
 	ID             int64
@@ -21,7 +24,7 @@ type Run struct {
 	ProgramVersion string
 	Config         json.RawMessage // the resolved configuration
 	ConfigHash     string
-	Plan           json.RawMessage // screening.Plan: the trains and settings as used
+	Plan           json.RawMessage // the run's plan: the trains and settings as used
 	BridgesTotal   int
 	Note           string
 	PlanHash       string // the plan's share of its bridges' input hashes ("" before migration 005)
@@ -34,18 +37,6 @@ const (
 	RunInterrupted = "interrupted"
 	RunFailed      = "failed"
 )
-
-// NewRun describes a run to create.
-type NewRun struct {
-	ProgramVersion string
-	Config         any    // marshalled to JSON
-	Plan           any    // marshalled to JSON
-	PlanHash       string // part of every bridge's input hash
-	ChunkSize      int
-	// Changed screens only the bridges whose inputs differ from the latest completed run's
-	// and carries the others' results forward from it.
-	Changed bool
-}
 
 const runColumns = `id, status, mode, base_run_id, started_at, finished_at, program_version, config, config_hash,
 	trains, bridges_total, note, plan_hash`
@@ -108,53 +99,68 @@ func (db *DB) SetRunStatus(ctx context.Context, id int64, status string) error {
 	return err
 }
 
-// RunProgress counts a run's bridges by status.
-type RunProgress struct {
-	Total, Pending, Done, Failed, Carried int
+// FinishRuns marks completed the given run, or with id 0 every run, that is running or
+// interrupted with no bridge pending. It is idempotent and safe to call at any time.
+func (db *DB) FinishRuns(ctx context.Context, runID int64) error {
+	_, err := db.Pool.Exec(ctx, `UPDATE runs r SET status = 'completed', finished_at = now()
+		WHERE ($1 = 0 OR r.id = $1) AND r.status IN ('running', 'interrupted')
+		AND NOT EXISTS (SELECT 1 FROM run_bridges b WHERE b.run_id = r.id AND b.status = 'pending')`, runID)
+	return err
 }
 
-// Progress reads a run's progress over its picture: Done counts the bridges the run itself
-// screened, Carried those whose results it carried forward from an earlier run.
-func (db *DB) Progress(ctx context.Context, id int64) (RunProgress, error) {
-	var p RunProgress
-	err := db.Pool.QueryRow(ctx, `SELECT count(*),
-		count(*) FILTER (WHERE status = 'pending'), count(*) FILTER (WHERE status = 'done' AND run_id = $1),
-		count(*) FILTER (WHERE status = 'failed'),
-		count(*) FILTER (WHERE status = 'carried' OR (status = 'done' AND run_id <> $1))
-		FROM run_picture($1)`, id).Scan(&p.Total, &p.Pending, &p.Done, &p.Failed, &p.Carried)
-	return p, err
-}
-
-// PendingBridges counts a run's bridges still to be screened (an index-only count).
-func (db *DB) PendingBridges(ctx context.Context, id int64) (int, error) {
-	var n int
-	err := db.Pool.QueryRow(ctx, `SELECT count(*) FROM run_bridges WHERE run_id = $1 AND status = 'pending'`, id).Scan(&n)
-	return n, err
-}
-
-// ReferenceTrains lists the distinct reference trains that stored rating factors name.
-func (db *DB) ReferenceTrains(ctx context.Context) ([]string, error) {
-	rows, err := db.Pool.Query(ctx, `SELECT DISTINCT reference_train FROM members
-		WHERE reference_train IS NOT NULL ORDER BY 1`)
+// RunsWithPendingBridges lists the running runs that have a bridge pending.
+func (db *DB) RunsWithPendingBridges(ctx context.Context) ([]int64, error) {
+	rows, err := db.Pool.Query(ctx, `SELECT r.id FROM runs r WHERE r.status = 'running'
+		AND EXISTS (SELECT 1 FROM run_bridges b WHERE b.run_id = r.id AND b.status = 'pending')`)
 	if err != nil {
 		return nil, err
 	}
-	return pgx.CollectRows(rows, pgx.RowTo[string])
+	return pgx.CollectRows(rows, pgx.RowTo[int64])
 }
 
-// bridgeSet is the result set of a bridge in a run's picture: its own row's, or the nearest
-// base run's (nil where the bridge has none, as a failed one).
-func (db *DB) bridgeSet(ctx context.Context, runID int64, bridgeID string) (*int64, error) {
-	var set *int64
-	err := db.Pool.QueryRow(ctx, `WITH RECURSIVE chain (id, base, complete, depth) AS (
-			SELECT id, base_run_id, complete, 0 FROM runs WHERE id = $1
-			UNION ALL
-			SELECT r.id, r.base_run_id, r.complete, c.depth + 1 FROM chain c JOIN runs r ON r.id = c.base
-			WHERE NOT c.complete)
-		SELECT b.set_id FROM chain c JOIN run_bridges b ON b.run_id = c.id AND b.bridge_id = $2
-		ORDER BY c.depth LIMIT 1`, runID, bridgeID).Scan(&set)
+// NewRunRow is what a new row of runs holds; the database gives its id, its start and its
+// status (running).
+type NewRunRow struct {
+	ProgramVersion string
+	Config         []byte // JSON: the resolved configuration
+	ConfigHash     string
+	Plan           []byte // JSON: the run's plan
+	Mode           string // full or changed
+	BaseRunID      *int64
+	PlanHash       string
+}
+
+// InsertRun records a new run and returns its id.
+func InsertRun(ctx context.Context, tx pgx.Tx, r NewRunRow) (int64, error) {
+	var id int64
+	err := tx.QueryRow(ctx, `INSERT INTO runs (program_version, config, config_hash, trains, mode, base_run_id, plan_hash)
+		VALUES ($1, $2, $3, $4, $5, $6, $7) RETURNING id`,
+		r.ProgramVersion, r.Config, r.ConfigHash, r.Plan, r.Mode, r.BaseRunID, r.PlanHash).Scan(&id)
+	return id, err
+}
+
+// LatestCompletedRun is the id of the newest completed run, nil when there is none.
+func LatestCompletedRun(ctx context.Context, tx pgx.Tx) (*int64, error) {
+	var id *int64
+	err := tx.QueryRow(ctx, "SELECT id FROM runs WHERE status = 'completed' ORDER BY id DESC LIMIT 1").Scan(&id)
 	if errors.Is(err, pgx.ErrNoRows) {
-		return nil, fmt.Errorf("bridge %q in run %d: %w", bridgeID, runID, ErrNotFound)
+		return nil, nil
 	}
-	return set, err
+	return id, err
+}
+
+// SetRunTotal records the number of bridges in a new run's inventory and, when nothing is
+// left to screen, completes it.
+func SetRunTotal(ctx context.Context, tx pgx.Tx, id int64, total int, completed bool) error {
+	_, err := tx.Exec(ctx, `UPDATE runs SET bridges_total = $3,
+		status = CASE WHEN $2 THEN 'completed' ELSE status END,
+		finished_at = CASE WHEN $2 THEN now() END WHERE id = $1`, id, completed, total)
+	return err
+}
+
+// MarkIncomplete records that a run's own rows are not its whole picture: it continues in its
+// base run's.
+func MarkIncomplete(ctx context.Context, tx pgx.Tx, id int64) error {
+	_, err := tx.Exec(ctx, "UPDATE runs SET complete = false WHERE id = $1", id)
+	return err
 }

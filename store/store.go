@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"net"
 
+	"github.com/jackc/pgx/v5"
 	"github.com/jackc/pgx/v5/pgxpool"
 	"github.com/trussfleet/trussfleet/store/pgserver"
 )
@@ -107,4 +108,15 @@ func Open(ctx context.Context, opts Options) (*DB, error) {
 // with its Stop method (trussfleet db stop).
 func (db *DB) Close() {
 	db.Pool.Close()
+}
+
+// Durable makes the transaction's commit wait until its WAL is on disk, whatever the
+// server's synchronous_commit. A job's results and its completion are one transaction; were
+// that commit acknowledged and then lost in a crash of the server, River would complete the
+// job again on the recovered server (its completer retries) and the bridges would stay
+// pending with no job. Every transaction that ends a bridge, queues work, imports a file or
+// deletes a run is durable.
+func Durable(ctx context.Context, tx pgx.Tx) error {
+	_, err := tx.Exec(ctx, "SET LOCAL synchronous_commit = on")
+	return err
 }

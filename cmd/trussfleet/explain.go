@@ -2,6 +2,7 @@ package main
 
 import (
 	"github.com/spf13/cobra"
+	"github.com/trussfleet/trussfleet/runreport"
 	"github.com/trussfleet/trussfleet/screening/report"
 	"github.com/trussfleet/trussfleet/store"
 )
@@ -18,11 +19,11 @@ func newExplainCmd(a *app) *cobra.Command {
 		RunE: func(cmd *cobra.Command, args []string) error {
 			ctx := cmd.Context()
 			return a.withRun(ctx, runID, func(db *store.DB, r store.Run) error {
-				run, err := db.ReportRun(ctx, r.ID)
+				run, err := runreport.Run(ctx, db, r.ID)
 				if err != nil {
 					return err
 				}
-				b, err := db.ReportBridge(ctx, run, args[0])
+				b, err := runreport.Bridge(ctx, db, run, args[0])
 				if err != nil {
 					return err
 				}

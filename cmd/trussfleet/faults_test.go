@@ -15,6 +15,7 @@ import (
 
 	"github.com/spf13/pflag"
 	"github.com/trussfleet/trussfleet/configs"
+	"github.com/trussfleet/trussfleet/fleetrun"
 	"github.com/trussfleet/trussfleet/importers"
 	"github.com/trussfleet/trussfleet/screening/fleetgen"
 	"github.com/trussfleet/trussfleet/screening/traffic"
@@ -76,11 +77,11 @@ func newRun(t *testing.T, db *store.DB, cfg Config) int64 {
 	if err != nil {
 		t.Fatal(err)
 	}
-	ic, err := db.NewInsertClient()
+	ic, err := fleetrun.NewInsertClient(db)
 	if err != nil {
 		t.Fatal(err)
 	}
-	id, err := ic.CreateRun(ctx, store.NewRun{ProgramVersion: "test", Config: cfg, Plan: plan, PlanHash: plan.Hash(), ChunkSize: cfg.Screen.ChunkSize})
+	id, err := ic.CreateRun(ctx, fleetrun.NewRun{ProgramVersion: "test", Config: cfg, Plan: plan, PlanHash: plan.Hash(), ChunkSize: cfg.Screen.ChunkSize})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -244,7 +245,7 @@ func TestDatabaseRestart(t *testing.T) {
 	const n = 600
 	seedDemoFleet(t, db, n)
 	id := newRun(t, db, cfg)
-	wc, err := db.NewWorkerClient(store.WorkerOptions{Jobs: 2, Threads: 1, JobTimeout: 2 * time.Second, RescueAfter: 3 * time.Second})
+	wc, err := fleetrun.NewWorkerClient(db, fleetrun.WorkerOptions{Jobs: 2, Threads: 1, JobTimeout: 2 * time.Second, RescueAfter: 3 * time.Second})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 
+	"github.com/trussfleet/trussfleet/fleetrun"
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 	"github.com/trussfleet/trussfleet/store"
@@ -24,7 +25,7 @@ func buildPlan(ctx context.Context, db *store.DB, c Config) (screening.Plan, err
 	resolve := func(key string, names []string) ([]screening.TrainRef, error) {
 		var out []screening.TrainRef
 		for _, n := range names {
-			r, err := db.ResolveTrain(ctx, n)
+			r, err := fleetrun.ResolveTrain(ctx, db, n)
 			if err != nil {
 				return nil, fmt.Errorf("configuration key %s: %w", key, err)
 			}
@@ -44,7 +45,7 @@ func buildPlan(ctx context.Context, db *store.DB, c Config) (screening.Plan, err
 		return p, err
 	}
 	for _, n := range refs {
-		r, err := db.ResolveTrain(ctx, n)
+		r, err := fleetrun.ResolveTrain(ctx, db, n)
 		if err != nil {
 			// A bridge whose stored rating names an unknown train fails alone, with that reason.
 			continue

@@ -6,6 +6,7 @@ import (
 	"path/filepath"
 
 	"github.com/spf13/cobra"
+	"github.com/trussfleet/trussfleet/runreport"
 	"github.com/trussfleet/trussfleet/screening/report"
 	"github.com/trussfleet/trussfleet/store"
 )
@@ -42,7 +43,7 @@ func newReportCmd(a *app) *cobra.Command {
 
 // writeReport writes the HTML report of a run into dir.
 func writeReport(ctx context.Context, db *store.DB, runID int64, dir string) error {
-	run, err := db.ReportRun(ctx, runID)
+	run, err := runreport.Run(ctx, db, runID)
 	if err != nil {
 		return err
 	}
@@ -51,6 +52,6 @@ func writeReport(ctx context.Context, db *store.DB, runID int64, dir string) err
 		return err
 	}
 	return report.WriteSite(dir, run, rows, func(id string) (report.Bridge, error) {
-		return db.ReportBridge(ctx, run, id)
+		return runreport.Bridge(ctx, db, run, id)
 	})
 }

@@ -10,9 +10,9 @@ import (
 	"os/signal"
 	"runtime/debug"
 	"syscall"
-	"time"
 
 	"github.com/spf13/cobra"
+	"github.com/trussfleet/trussfleet/fleetrun"
 	"github.com/trussfleet/trussfleet/store"
 )
 
@@ -65,89 +65,47 @@ func screeningGC() {
 	}
 }
 
+// workerOptions are this process's share of the work, as configured.
+func (a *app) workerOptions() fleetrun.WorkerOptions {
+	s := a.cfg.Screen
+	return fleetrun.WorkerOptions{Jobs: s.Jobs, Threads: a.cfg.Workers, JobTimeout: s.JobTimeout, RescueAfter: s.RescueAfter}
+}
+
 // screen runs (or resumes) a run to its end in this process and prints its summary.
 func (a *app) screen(ctx context.Context, db *store.DB, out, errw io.Writer, changed bool, resume int64) error {
 	screeningGC()
 	s := a.cfg.Screen
-	// Each committed job wakes the wait below, which then looks at once whether the run
-	// has ended instead of at its next poll.
-	wake := make(chan struct{}, 1)
-	wc, err := db.NewWorkerClient(store.WorkerOptions{
-		Jobs: s.Jobs, Threads: a.cfg.Workers, JobTimeout: s.JobTimeout, RescueAfter: s.RescueAfter,
-		OnChunk: func(int64, int) {
-			select {
-			case wake <- struct{}{}:
-			default:
-			}
+	opt := fleetrun.Options{
+		Worker: a.workerOptions(), ChunkSize: s.ChunkSize, Logger: slog.Default(), Progress: progressPrinter(errw),
+		Recovered: func(id int64, rec fleetrun.Recovered) {
+			fmt.Fprintf(errw, "run %d: %d bridges without a job queued again, %d recorded as failed\n", id, rec.Requeued, rec.Failed)
 		},
-	})
-	if err != nil {
-		return err
 	}
-	id := resume
+	id, err := resume, error(nil) // the run's id: resume's, or the new run's
 	if resume == 0 {
-		plan, err := buildPlan(ctx, db, a.cfg)
-		if err != nil {
-			return err
+		plan, perr := buildPlan(ctx, db, a.cfg)
+		if perr != nil {
+			return perr
 		}
-		id, err = wc.CreateRun(ctx, store.NewRun{ProgramVersion: version, Config: a.cfg.Redacted(), Plan: plan,
-			PlanHash: plan.Hash(), ChunkSize: s.ChunkSize, Changed: changed})
-		if err != nil {
-			return err
-		}
+		id, err = fleetrun.Run(ctx, db, fleetrun.NewRun{ProgramVersion: version, Config: a.cfg.Redacted(), Plan: plan,
+			PlanHash: plan.Hash(), ChunkSize: s.ChunkSize, Changed: changed}, opt)
 	} else {
-		run, err := db.GetRun(ctx, resume)
-		if err != nil {
-			return err
-		}
-		if run.Status == store.RunCompleted {
-			fmt.Fprintf(out, "run %d is already complete\n", resume)
-			return a.printSummary(ctx, db, out, resume)
-		}
-		if err := db.SetRunStatus(ctx, resume, store.RunRunning); err != nil {
-			return err
-		}
-		// Bridges whose jobs are gone (ended by River, cleaned away, or lost in a crash)
-		// are queued again or recorded as failed, so that the run can finish.
-		if rec, err := wc.RecoverRuns(ctx, resume, s.ChunkSize); err != nil {
-			return err
-		} else if rec != (store.Recovered{}) {
-			fmt.Fprintf(errw, "run %d: %d bridges without a job queued again, %d recorded as failed\n", resume, rec.Requeued, rec.Failed)
-		}
+		err = fleetrun.Resume(ctx, db, resume, opt)
 	}
-	// Progress counts from here: what the run had before this process started does not
-	// count toward its rate.
-	p0, err := db.Progress(ctx, id)
-	if err != nil {
-		return err
-	}
-	start := time.Now()
-	if err := wc.Start(context.WithoutCancel(ctx)); err != nil {
-		return err
-	}
-	sweep := func(ctx context.Context) (store.Recovered, error) { return wc.RecoverRuns(ctx, id, s.ChunkSize) }
-	status, err := waitForRun(ctx, db, id, errw, p0.Total-p0.Pending, start, wake, sweep)
-	stopCtx, cancel := context.WithTimeout(context.Background(), 30*time.Second)
-	defer cancel()
-	if errors.Is(err, context.Canceled) {
-		// Running jobs are cancelled: their transactions roll back and they run again on resume.
-		_ = wc.StopAndCancel(stopCtx)
-		if serr := db.SetRunStatus(stopCtx, id, store.RunInterrupted); serr != nil {
-			return serr
-		}
-		p, _ := db.Progress(stopCtx, id)
+	var interrupted *fleetrun.Interrupted
+	var failed *fleetrun.Failed
+	switch {
+	case errors.Is(err, fleetrun.ErrAlreadyComplete):
+		fmt.Fprintf(out, "run %d is already complete\n", resume)
+		return a.printSummary(ctx, db, out, resume)
+	case errors.As(err, &interrupted):
 		fmt.Fprintf(out, "\nrun %d interrupted: %d of %d bridges kept; finish it with `trussfleet screen --resume %d`\n",
-			id, p.Done+p.Failed+p.Carried, p.Total, id)
-		return &exitError{code: exitInterrupted, err: fmt.Errorf("run %d interrupted", id)}
-	}
-	if serr := wc.Stop(stopCtx); serr != nil && err == nil {
-		err = serr
-	}
-	if err != nil {
+			id, interrupted.Kept, interrupted.Total, id)
+		return &exitError{code: exitInterrupted, err: err}
+	case errors.As(err, &failed):
 		return &exitError{code: exitRunFailed, err: err}
-	}
-	if status != store.RunCompleted {
-		return &exitError{code: exitRunFailed, err: fmt.Errorf("run %d ended %s", id, status)}
+	case err != nil:
+		return err
 	}
 	if err := a.printSummary(ctx, db, out, id); err != nil {
 		return err
@@ -162,119 +120,4 @@ func (a *app) screen(ctx context.Context, db *store.DB, out, errw io.Writer, cha
 		return &exitError{code: exitBridgesFailed, err: fmt.Errorf("run %d: %d bridges could not be screened (see `trussfleet rank --run %d`)", id, p.Failed, id)}
 	}
 	return nil
-}
-
-// waitForRun polls the run until it is no longer running, showing progress: a bar on a
-// terminal, a log line every few seconds otherwise. A signal on wake (a job of this process
-// committed) makes it look at the run's status at once. Every few seconds, when bridges are
-// pending but no job is left to work them, sweep ends or requeues them.
-func waitForRun(ctx context.Context, db *store.DB, id int64, errw io.Writer, first int, start time.Time, wake <-chan struct{},
-	sweep func(context.Context) (store.Recovered, error)) (string, error) {
-	tty := isTerminal(errw)
-	var lastLog, lastJobCheck time.Time
-	var lostSince time.Time
-	// Each poll is a count on the pending bridges' partial index, cheap at any fleet size.
-	tick := time.NewTicker(500 * time.Millisecond)
-	defer tick.Stop()
-	for {
-		select {
-		case <-ctx.Done():
-			return "", ctx.Err()
-		case <-tick.C:
-		case <-wake:
-			if r, err := db.GetRun(ctx, id); err != nil || r.Status == store.RunRunning {
-				continue // the next tick reports progress, or the loss of the database
-			}
-		}
-		run, err := db.GetRun(ctx, id)
-		var pending int
-		if err == nil {
-			pending, err = db.PendingBridges(ctx, id)
-		}
-		if err != nil {
-			// The database may be restarting: the workers retry their jobs, so wait for it.
-			if ctx.Err() != nil {
-				return "", ctx.Err()
-			}
-			if lostSince.IsZero() {
-				lostSince = time.Now()
-				slog.Warn("lost the database; waiting for it", "run", id, "err", err)
-			}
-			if time.Since(lostSince) > dbGrace {
-				return "", fmt.Errorf("database unreachable for %v: %w", dbGrace, err)
-			}
-			continue
-		}
-		lostSince = time.Time{}
-		total := run.BridgesTotal
-		done := total - pending
-		el := time.Since(start).Seconds()
-		rate := float64(done-first) / max(el, 1e-3)
-		eta := "?"
-		if rate > 0 {
-			eta = (time.Duration(float64(pending)/rate) * time.Second).Round(time.Second).String()
-		}
-		switch {
-		case tty:
-			fmt.Fprintf(errw, "\r%s %d/%d bridges  %.0f/s  ETA %s   ", bar(done, total, 30), done, total, rate, eta)
-		case time.Since(lastLog) > 5*time.Second || run.Status != store.RunRunning:
-			slog.Info("screening", "run", id, "done", done, "total", total, "per_s", fmt.Sprintf("%.0f", rate), "eta", eta)
-			lastLog = time.Now()
-		}
-		if run.Status != store.RunRunning {
-			if tty {
-				fmt.Fprintln(errw)
-			}
-			return run.Status, nil
-		}
-		if pending == 0 {
-			// Every bridge is written but the run is still open: the process of its last
-			// job died between the job's commit and its check. Complete it here.
-			if err := db.FinishRuns(ctx, id); err != nil {
-				slog.Warn("completing the run", "run", id, "err", err)
-			}
-			continue
-		}
-		if time.Since(lastJobCheck) > jobCheckEvery {
-			lastJobCheck = time.Now()
-			if n, err := db.OpenJobs(ctx, id); err == nil && n == 0 {
-				rec, err := sweep(ctx)
-				if err != nil {
-					slog.Warn("recovering bridges without a job", "run", id, "err", err)
-				} else {
-					slog.Warn("bridges pending with no job left", "run", id, "requeued", rec.Requeued, "failed", rec.Failed)
-				}
-			}
-		}
-	}
-}
-
-// jobCheckEvery is how often a waiting run looks for bridges left without a job.
-const jobCheckEvery = 5 * time.Second
-
-// dbGrace is how long a run waits for a database that went away before it gives up.
-const dbGrace = 2 * time.Minute
-
-func bar(done, total, width int) string {
-	n := 0
-	if total > 0 {
-		n = done * width / total
-	}
-	b := make([]byte, width)
-	for i := range b {
-		b[i] = '.'
-		if i < n {
-			b[i] = '#'
-		}
-	}
-	return "[" + string(b) + "]"
-}
-
-func isTerminal(w io.Writer) bool {
-	f, ok := w.(*os.File)
-	if !ok {
-		return false
-	}
-	st, err := f.Stat()
-	return err == nil && st.Mode()&os.ModeCharDevice != 0
 }

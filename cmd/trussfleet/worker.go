@@ -1,16 +1,14 @@
 package main
 
 import (
-	"context"
 	"fmt"
 	"log/slog"
 	"os"
 	"os/signal"
 	"syscall"
-	"time"
 
 	"github.com/spf13/cobra"
-	"github.com/trussfleet/trussfleet/store"
+	"github.com/trussfleet/trussfleet/fleetrun"
 )
 
 func init() { commands = append(commands, newWorkerCmd) }
@@ -35,40 +33,13 @@ SIGINT or SIGTERM stops it: running jobs finish first (up to job_timeout), then 
 			defer db.Close()
 			screeningGC()
 			s := a.cfg.Screen
-			wc, err := db.NewWorkerClient(store.WorkerOptions{
-				Jobs: s.Jobs, Threads: a.cfg.Workers, JobTimeout: s.JobTimeout, RescueAfter: s.RescueAfter,
-				OnChunk: func(run int64, n int) { slog.Info("chunk committed", "run", run, "bridges", n) },
+			wo := a.workerOptions()
+			wo.OnChunk = func(run int64, n int) { slog.Info("chunk committed", "run", run, "bridges", n) }
+			return fleetrun.Work(ctx, db, fleetrun.Options{Worker: wo, ChunkSize: s.ChunkSize, Logger: slog.Default(),
+				Started: func() {
+					fmt.Fprintf(cmd.ErrOrStderr(), "worker started (pid %d): %d jobs at once, %d threads each\n", os.Getpid(), s.Jobs, a.cfg.Workers)
+				},
 			})
-			if err != nil {
-				return err
-			}
-			if err := wc.Start(context.WithoutCancel(ctx)); err != nil {
-				return err
-			}
-			fmt.Fprintf(cmd.ErrOrStderr(), "worker started (pid %d): %d jobs at once, %d threads each\n", os.Getpid(), s.Jobs, a.cfg.Workers)
-			// A job completes its run after its commit; a worker that died in between leaves
-			// the run open with nothing pending. Any worker completes such runs, now and then,
-			// and ends or requeues bridges that are pending with no job left to work them.
-			tick := time.NewTicker(30 * time.Second)
-			defer tick.Stop()
-			for done := false; !done; {
-				if err := db.FinishRuns(ctx, 0); err != nil && ctx.Err() == nil {
-					slog.Warn("completing finished runs", "err", err)
-				}
-				if rec, err := wc.RecoverRuns(ctx, 0, s.ChunkSize); err != nil && ctx.Err() == nil {
-					slog.Warn("recovering bridges without a job", "err", err)
-				} else if rec != (store.Recovered{}) {
-					slog.Warn("bridges pending with no job left", "requeued", rec.Requeued, "failed", rec.Failed)
-				}
-				select {
-				case <-ctx.Done():
-					done = true
-				case <-tick.C:
-				}
-			}
-			stopCtx, cancel := context.WithTimeout(context.Background(), s.JobTimeout+10*time.Second)
-			defer cancel()
-			return wc.Stop(stopCtx)
 		},
 	}
 	cmd.Flags().Int("workers", 0, "goroutines screening bridges per job (default: CPUs)")

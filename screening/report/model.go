@@ -3,6 +3,7 @@ package report
 import (
 	"time"
 
+	"github.com/trussfleet/trussfleet/internal/ranking"
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/rating"
 	"github.com/trussfleet/trussfleet/screening/traffic"
@@ -37,34 +38,9 @@ type Run struct {
 	BridgesFlagged int
 }
 
-// BridgeRow is one line of the priority list.
-type BridgeRow struct {
-	Rank                   int
-	BridgeID, Name, Line   string
-	ChainageKm             *float64
-	TrussType              string
-	SpanM                  float64
-	Panels                 int
-	WorstMember            string
-	RFExisting, RFProposed *float64 // nil: no member with capacity data
-	// Change is RFProposed/RFExisting − 1 (negative when the RF falls).
-	Change *float64
-	// DemandIncrease is the largest member live-demand increase, as a fraction.
-	DemandIncrease float64
-	Headroom       *float64 // multiple of the proposed traffic carried at RF = 1
-	Flags          []string // distinct flags of the bridge's members, in report order
-	FlagCounts     map[string]int
-	// Governing train of the worst member and where it stood.
-	GoverningTrain     string
-	GoverningSense     string // tension or compression
-	GoverningHeadM     *float64
-	GoverningDirection string
-	GoverningFromM     *float64
-	GoverningToM       *float64
-	LastInspected      string // YYYY-MM-DD or ""
-	// Status is "done" or "failed"; Error says why a bridge failed.
-	Status, Error string
-}
+// BridgeRow is one line of the priority list (package internal/ranking, which store reads
+// it into).
+type BridgeRow = ranking.Row
 
 // Bridge is a bridge page: its row, its geometry and every member's numbers.
 type Bridge struct {

@@ -375,7 +375,7 @@ func (s *Server) writeSettings() error {
 //     never corrupt the database (fsync stays on). That is acceptable only for what can be
 //     lost: River's own bookkeeping (a job fetched, retried or completed again) and progress
 //     marks. Every transaction that writes results, completes a job with them, queues jobs
-//     or imports a file asks for a durable commit itself (store's durable: SET LOCAL
+//     or imports a file asks for a durable commit itself (store.Durable: SET LOCAL
 //     synchronous_commit = on), on this server and on any other, because River's completer
 //     would otherwise complete again, on the recovered server, a job whose results the crash
 //     lost (TestDatabaseCrash kills the server mid-run with pg_ctl's immediate mode).

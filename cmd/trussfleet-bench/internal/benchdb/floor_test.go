@@ -9,6 +9,7 @@ import (
 
 	"github.com/trussfleet/trussfleet/cmd/trussfleet-bench/internal/benchdb"
 	"github.com/trussfleet/trussfleet/configs"
+	"github.com/trussfleet/trussfleet/fleetrun"
 	"github.com/trussfleet/trussfleet/importers"
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/fleetgen"
@@ -24,12 +25,12 @@ func TestCopyFloorAndDeleteRun(t *testing.T) {
 	ctx := context.Background()
 	db := pgtest.DB(t)
 	seedFleet(t, db, 6)
-	ic, err := db.NewInsertClient()
+	ic, err := fleetrun.NewInsertClient(db)
 	if err != nil {
 		t.Fatal(err)
 	}
 	plan := testPlan(t, db)
-	id, err := ic.CreateRun(ctx, store.NewRun{ProgramVersion: "test", Config: map[string]any{}, Plan: plan, PlanHash: plan.Hash(), ChunkSize: 4})
+	id, err := ic.CreateRun(ctx, fleetrun.NewRun{ProgramVersion: "test", Config: map[string]any{}, Plan: plan, PlanHash: plan.Hash(), ChunkSize: 4})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -126,7 +127,7 @@ func testPlan(t *testing.T, db *store.DB) screening.Plan {
 	resolve := func(names []string) []screening.TrainRef {
 		var out []screening.TrainRef
 		for _, n := range names {
-			r, err := db.ResolveTrain(ctx, n)
+			r, err := fleetrun.ResolveTrain(ctx, db, n)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -148,7 +149,7 @@ func testPlan(t *testing.T, db *store.DB) screening.Plan {
 func runToEnd(t *testing.T, db *store.DB, id int64, jobs int) {
 	t.Helper()
 	ctx := context.Background()
-	wc, err := db.NewWorkerClient(store.WorkerOptions{Jobs: jobs, Threads: 2, JobTimeout: time.Minute, RescueAfter: 2 * time.Minute})
+	wc, err := fleetrun.NewWorkerClient(db, fleetrun.WorkerOptions{Jobs: jobs, Threads: 2, JobTimeout: time.Minute, RescueAfter: 2 * time.Minute})
 	if err != nil {
 		t.Fatal(err)
 	}

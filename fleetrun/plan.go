@@ -1,4 +1,4 @@
-package store
+package fleetrun
 
 import (
 	"context"
@@ -8,15 +8,15 @@ import (
 	"path/filepath"
 	"strings"
 
-	"github.com/jackc/pgx/v5"
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/traffic"
+	"github.com/trussfleet/trussfleet/store"
 )
 
 // ResolveTrain finds the train a configuration or an inventory names: a built-in model
 // ("lm71:alpha=1"), a stored train (by its name, or its file name with or without .yaml), or
 // a train file on disk. The reference keeps the definition, so that the run can be repeated.
-func (db *DB) ResolveTrain(ctx context.Context, asked string) (screening.TrainRef, error) {
+func ResolveTrain(ctx context.Context, db *store.DB, asked string) (screening.TrainRef, error) {
 	asked = strings.TrimSpace(asked)
 	ref := screening.TrainRef{Asked: asked}
 	if t, ok, err := traffic.Builtin(asked); ok {
@@ -26,17 +26,14 @@ func (db *DB) ResolveTrain(ctx context.Context, asked string) (screening.TrainRe
 		ref.Name, ref.Builtin = t.Name, asked
 		return ref, nil
 	}
-	var st Train
-	err := db.Pool.QueryRow(ctx, `SELECT name, file_name, source FROM trains
-		WHERE name = $1 OR file_name = $1 OR regexp_replace(file_name, '^.*/', '') IN ($1, $1 || '.yaml', $1 || '.yml')
-		ORDER BY (name = $1) DESC LIMIT 1`, asked).Scan(&st.Name, &st.FileName, &st.Source)
+	st, err := db.FindTrain(ctx, asked)
 	switch {
 	case err == nil:
 		ref.Name, ref.Source, ref.FileName = st.Name, st.Source, st.FileName
 		_, err := ref.Train()
 		return ref, err
-	case !errors.Is(err, pgx.ErrNoRows):
-		return ref, fmt.Errorf("train %q: %w", asked, err)
+	case !errors.Is(err, store.ErrNotFound):
+		return ref, err
 	}
 	if data, err := os.ReadFile(asked); err == nil {
 		t, err := traffic.ParseTrainFile(asked, data)

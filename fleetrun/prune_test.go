@@ -1,4 +1,4 @@
-package store_test
+package fleetrun_test
 
 import (
 	"context"
@@ -7,6 +7,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/trussfleet/trussfleet/fleetrun"
 	"github.com/trussfleet/trussfleet/store"
 	"github.com/trussfleet/trussfleet/store/pgtest"
 )
@@ -58,7 +59,7 @@ func TestPruneRuns(t *testing.T) {
 	plan := testPlan(t, db)
 	nightly := func() int64 {
 		t.Helper()
-		id, err := ic.CreateRun(ctx, store.NewRun{ProgramVersion: "test", Config: map[string]any{}, Plan: plan,
+		id, err := ic.CreateRun(ctx, fleetrun.NewRun{ProgramVersion: "test", Config: map[string]any{}, Plan: plan,
 			PlanHash: plan.Hash(), ChunkSize: 3, Changed: true})
 		if err != nil {
 			t.Fatal(err)

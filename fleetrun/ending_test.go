@@ -1,4 +1,4 @@
-package store_test
+package fleetrun_test
 
 import (
 	"context"
@@ -7,6 +7,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/trussfleet/trussfleet/fleetrun"
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/store"
 	"github.com/trussfleet/trussfleet/store/pgtest"
@@ -43,14 +44,14 @@ func jobOf(t *testing.T, db *store.DB, id int64, bridge string) int64 {
 }
 
 // createRun creates a run of the seeded fleet with chunk bridges a job.
-func createRun(t *testing.T, db *store.DB, chunk int) (*store.Client, int64) {
+func createRun(t *testing.T, db *store.DB, chunk int) (*fleetrun.Client, int64) {
 	t.Helper()
 	plan := testPlan(t, db)
-	ic, err := db.NewInsertClient()
+	ic, err := fleetrun.NewInsertClient(db)
 	if err != nil {
 		t.Fatal(err)
 	}
-	id, err := ic.CreateRun(context.Background(), store.NewRun{ProgramVersion: "test", Config: map[string]any{},
+	id, err := ic.CreateRun(context.Background(), fleetrun.NewRun{ProgramVersion: "test", Config: map[string]any{},
 		Plan: plan, PlanHash: plan.Hash(), ChunkSize: chunk})
 	if err != nil {
 		t.Fatal(err)
@@ -84,7 +85,7 @@ func TestTimedOutChunkIsSplit(t *testing.T) {
 		}
 		return screening.ScreenAll(ctx, bs, s, threads)
 	}
-	wc, err := db.NewWorkerClientScreening(store.WorkerOptions{Jobs: 2, Threads: 1, JobTimeout: 300 * time.Millisecond,
+	wc, err := fleetrun.NewWorkerClientScreening(db, fleetrun.WorkerOptions{Jobs: 2, Threads: 1, JobTimeout: 300 * time.Millisecond,
 		RescueAfter: time.Minute}, hang)
 	if err != nil {
 		t.Fatal(err)
@@ -164,7 +165,7 @@ func TestJobsEndedWithoutWork(t *testing.T) {
 	exec(`UPDATE river_job SET state = 'completed', finalized_at = now() WHERE id = $1`, jobOf(t, db, id, lost))
 	// The last job's commit is lost again each time it is queued: after MaxRequeues, the
 	// bridges are recorded as failed instead of queued for ever.
-	for i := 0; i <= store.MaxRequeues; i++ {
+	for i := 0; i <= fleetrun.MaxRequeues; i++ {
 		exec(`UPDATE river_job SET state = 'completed', finalized_at = now() WHERE id = $1`, jobOf(t, db, id, lostForGood))
 		rec, err := ic.RecoverRuns(ctx, id, 2)
 		if err != nil {
@@ -172,7 +173,7 @@ func TestJobsEndedWithoutWork(t *testing.T) {
 		}
 		t.Logf("sweep %d: %+v", i+1, rec)
 	}
-	wc, err := db.NewWorkerClient(store.WorkerOptions{Jobs: 2, Threads: 1, JobTimeout: 10 * time.Second, RescueAfter: 12 * time.Second})
+	wc, err := fleetrun.NewWorkerClient(db, fleetrun.WorkerOptions{Jobs: 2, Threads: 1, JobTimeout: 10 * time.Second, RescueAfter: 12 * time.Second})
 	if err != nil {
 		t.Fatal(err)
 	}

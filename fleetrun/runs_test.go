@@ -1,4 +1,4 @@
-package store_test
+package fleetrun_test
 
 import (
 	"bytes"
@@ -9,6 +9,7 @@ import (
 	"time"
 
 	"github.com/trussfleet/trussfleet/configs"
+	"github.com/trussfleet/trussfleet/fleetrun"
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/fleetgen"
 	"github.com/trussfleet/trussfleet/screening/traffic"
@@ -63,14 +64,14 @@ func testPlan(t *testing.T, db *store.DB) screening.Plan {
 	ctx := context.Background()
 	p := screening.Plan{Dynamic: "phi3", Method: "working-stress", Flag: 1, Review: 1.1, Worse: 0.2}
 	for _, n := range []string{"northmoor-freight-today", "eastfell-multiple-unit"} {
-		r, err := db.ResolveTrain(ctx, n)
+		r, err := fleetrun.ResolveTrain(ctx, db, n)
 		if err != nil {
 			t.Fatal(err)
 		}
 		p.Existing = append(p.Existing, r)
 	}
 	for _, n := range []string{"northmoor-freight-proposed", "lm71:alpha=1"} {
-		r, err := db.ResolveTrain(ctx, n)
+		r, err := fleetrun.ResolveTrain(ctx, db, n)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -81,7 +82,7 @@ func testPlan(t *testing.T, db *store.DB) screening.Plan {
 		t.Fatal(err)
 	}
 	for _, n := range refs {
-		r, err := db.ResolveTrain(ctx, n)
+		r, err := fleetrun.ResolveTrain(ctx, db, n)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -93,7 +94,7 @@ func testPlan(t *testing.T, db *store.DB) screening.Plan {
 func runToEnd(t *testing.T, db *store.DB, id int64, jobs int) {
 	t.Helper()
 	ctx := context.Background()
-	wc, err := db.NewWorkerClient(store.WorkerOptions{Jobs: jobs, Threads: 2, JobTimeout: time.Minute, RescueAfter: 2 * time.Minute})
+	wc, err := fleetrun.NewWorkerClient(db, fleetrun.WorkerOptions{Jobs: jobs, Threads: 2, JobTimeout: time.Minute, RescueAfter: 2 * time.Minute})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -122,11 +123,11 @@ func TestRunScreensEveryBridgeOnce(t *testing.T) {
 	db := pgtest.DB(t)
 	seedFleet(t, db, 23)
 	plan := testPlan(t, db)
-	ic, err := db.NewInsertClient()
+	ic, err := fleetrun.NewInsertClient(db)
 	if err != nil {
 		t.Fatal(err)
 	}
-	id, err := ic.CreateRun(ctx, store.NewRun{ProgramVersion: "test", Config: map[string]any{"k": 1}, Plan: plan, PlanHash: plan.Hash(), ChunkSize: 4})
+	id, err := ic.CreateRun(ctx, fleetrun.NewRun{ProgramVersion: "test", Config: map[string]any{"k": 1}, Plan: plan, PlanHash: plan.Hash(), ChunkSize: 4})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -154,7 +155,7 @@ func TestRunScreensEveryBridgeOnce(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		res := screening.ScreenBridge(store.ScreeningInput(b, ms), set)
+		res := screening.ScreenBridge(fleetrun.ScreeningInput(b, ms), set)
 		if res.Err != nil {
 			t.Fatal(res.Err)
 		}
@@ -188,7 +189,7 @@ func TestRunScreensEveryBridgeOnce(t *testing.T) {
 	// A nightly run with nothing changed carries every bridge forward, queues nothing and
 	// writes no row of its own: the hashes it takes of every bridge when it is created equal
 	// those the jobs took.
-	id2, err := ic.CreateRun(ctx, store.NewRun{ProgramVersion: "test", Config: map[string]any{"k": 1}, Plan: plan, PlanHash: plan.Hash(), ChunkSize: 4, Changed: true})
+	id2, err := ic.CreateRun(ctx, fleetrun.NewRun{ProgramVersion: "test", Config: map[string]any{"k": 1}, Plan: plan, PlanHash: plan.Hash(), ChunkSize: 4, Changed: true})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -214,7 +215,7 @@ func TestRunScreensEveryBridgeOnce(t *testing.T) {
 		capacity_compression_kn = capacity_compression_kn / 2, rating_factor = rating_factor / 2 WHERE bridge_id = $1`, victim); err != nil {
 		t.Fatal(err)
 	}
-	id3, err := ic.CreateRun(ctx, store.NewRun{ProgramVersion: "test", Config: map[string]any{"k": 1}, Plan: plan, PlanHash: plan.Hash(), ChunkSize: 4, Changed: true})
+	id3, err := ic.CreateRun(ctx, fleetrun.NewRun{ProgramVersion: "test", Config: map[string]any{"k": 1}, Plan: plan, PlanHash: plan.Hash(), ChunkSize: 4, Changed: true})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -246,11 +247,11 @@ func TestFinishRunsAfterALostCheck(t *testing.T) {
 	db := pgtest.DB(t)
 	seedFleet(t, db, 5)
 	plan := testPlan(t, db)
-	ic, err := db.NewInsertClient()
+	ic, err := fleetrun.NewInsertClient(db)
 	if err != nil {
 		t.Fatal(err)
 	}
-	nr := store.NewRun{ProgramVersion: "test", Config: map[string]any{}, Plan: plan, PlanHash: plan.Hash(), ChunkSize: 5}
+	nr := fleetrun.NewRun{ProgramVersion: "test", Config: map[string]any{}, Plan: plan, PlanHash: plan.Hash(), ChunkSize: 5}
 	done, err := ic.CreateRun(ctx, nr)
 	if err != nil {
 		t.Fatal(err)

@@ -1,4 +1,4 @@
-package store
+package fleetrun
 
 import (
 	"cmp"
@@ -10,6 +10,7 @@ import (
 	"slices"
 
 	"github.com/jackc/pgx/v5"
+	"github.com/trussfleet/trussfleet/store"
 )
 
 // InputHash is the digest of everything a bridge's result depends on: the run's plan (its
@@ -19,7 +20,7 @@ import (
 // The fields are written in binary, each text ended by a zero byte (which text in PostgreSQL
 // cannot hold) and each optional number preceded by whether it is there, so that two
 // different inputs never write the same bytes.
-func InputHash(planHash string, b Bridge, members []Member) string {
+func InputHash(planHash string, b store.Bridge, members []store.Member) string {
 	var h inputHasher
 	h.text("trussfleet input 1")
 	h.text(planHash)
@@ -85,47 +86,16 @@ func (h *inputHasher) optText(s *string) {
 	}
 }
 
-// inputHashes hashes every bridge of the inventory as InputHash does, reading the bridges
-// with their members in one ordered pass (one bridge's members in memory at a time), and
-// returns the bridges' ids with their hashes in id order.
+// inputHashes hashes every bridge of the inventory as InputHash does (store.EachBridge: one
+// ordered pass, one bridge's members in memory at a time), and returns the bridges' ids with
+// their hashes in id order.
 func inputHashes(ctx context.Context, tx pgx.Tx, planHash string) (ids, hashes []string, err error) {
-	rows, err := tx.Query(ctx, "SELECT "+bridgeColumns+`, m.member IS NOT NULL, coalesce(m.member, ''),
-		m.capacity_tension_kn, m.capacity_compression_kn, m.rating_factor, m.reference_train,
-		coalesce(m.condition_factor, 1)
-		FROM bridges b LEFT JOIN members m ON m.bridge_id = b.bridge_id ORDER BY b.bridge_id, m.member`)
+	err = store.EachBridge(ctx, tx, func(b store.Bridge, members []store.Member) {
+		ids = append(ids, b.BridgeID)
+		hashes = append(hashes, InputHash(planHash, b, members))
+	})
 	if err != nil {
 		return nil, nil, err
 	}
-	defer rows.Close()
-	var cur Bridge
-	var members []Member
-	flush := func() {
-		if cur.BridgeID != "" {
-			ids = append(ids, cur.BridgeID)
-			hashes = append(hashes, InputHash(planHash, cur, members))
-		}
-	}
-	for rows.Next() {
-		var b Bridge
-		var m Member
-		var hasMember bool
-		dest := append(b.pointers(), &hasMember, &m.Member, &m.CapacityTensionKN, &m.CapacityCompressionKN,
-			&m.RatingFactor, &m.ReferenceTrain, &m.ConditionFactor)
-		if err := rows.Scan(dest...); err != nil {
-			return nil, nil, err
-		}
-		if b.BridgeID != cur.BridgeID {
-			flush()
-			cur, members = b, members[:0]
-		}
-		if hasMember {
-			m.BridgeID = b.BridgeID
-			members = append(members, m)
-		}
-	}
-	if err := rows.Err(); err != nil {
-		return nil, nil, err
-	}
-	flush()
 	return ids, hashes, nil
 }

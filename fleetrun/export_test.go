@@ -1,15 +1,16 @@
-package store
+package fleetrun
 
 import (
 	"context"
 
 	"github.com/trussfleet/trussfleet/screening"
+	"github.com/trussfleet/trussfleet/store"
 )
 
 // NewWorkerClientScreening is NewWorkerClient with its own screening function.
-func (db *DB) NewWorkerClientScreening(opt WorkerOptions,
+func NewWorkerClientScreening(db *store.DB, opt WorkerOptions,
 	screen func(context.Context, []screening.Bridge, *screening.Settings, int) ([]screening.Result, error)) (*Client, error) {
-	return db.newWorkerClient(opt, screen)
+	return newWorkerClient(db, opt, screen)
 }
 
 // MaxRequeues is how often a bridge left without a job is queued again.
@@ -17,25 +18,27 @@ const MaxRequeues = maxRequeues
 
 // What the result-writing tests and benchmarks reach inside the package for.
 var (
-	WriteResults            = writeResults
-	InputHashes             = inputHashes
-	MemberResultColumns     = memberResultColumns
-	MemberAssessmentColumns = memberAssessmentColumns
-	Num                     = num
-	RFOrNil                 = rfOrNil
+	WriteResults = writeResults
+	InputHashes  = inputHashes
+	Num          = num
+	RFOrNil      = rfOrNil
 )
+
+// testEncoder is the one encoder of EncodeMemberResults and EncodeMemberAssessments, kept
+// from call to call as a job's pooled encoder is (the tests call them one at a time).
+var testEncoder resultEncoder
 
 // EncodeMemberResults and EncodeMemberAssessments give the binary COPY stream writeResults
 // sends for results' rows (all taken as pending), written over buf's storage as a job reuses
 // its encoder's buffer.
 func EncodeMemberResults(buf []byte, setIDs []int64, results []screening.Result) []byte {
-	e := copyEncoder{buf: buf}
-	return encodeMemberResults(&e, results, setIDs)
+	testEncoder.copy = *store.NewCopyEncoder(buf)
+	return testEncoder.memberResults(results, setIDs)
 }
 
 func EncodeMemberAssessments(buf []byte, setIDs []int64, results []screening.Result) []byte {
-	e := copyEncoder{buf: buf}
-	return encodeMemberAssessments(&e, results, setIDs)
+	testEncoder.copy = *store.NewCopyEncoder(buf)
+	return testEncoder.memberAssessments(results, setIDs)
 }
 
 // CancelJob cancels a job through River's own API.

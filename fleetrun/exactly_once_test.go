@@ -1,10 +1,11 @@
-package store_test
+package fleetrun_test
 
 import (
 	"context"
 	"testing"
 	"time"
 
+	"github.com/trussfleet/trussfleet/fleetrun"
 	"github.com/trussfleet/trussfleet/store"
 	"github.com/trussfleet/trussfleet/store/pgtest"
 )
@@ -29,12 +30,12 @@ func TestSharedRunWritesOnce(t *testing.T) {
 	db := pgtest.DB(t)
 	seedFleet(t, db, 30)
 	plan := testPlan(t, db)
-	ic, err := db.NewInsertClient()
+	ic, err := fleetrun.NewInsertClient(db)
 	if err != nil {
 		t.Fatal(err)
 	}
 	// A run whose first chunk's bridges are queued again before any worker starts.
-	id, err := ic.CreateRun(ctx, store.NewRun{ProgramVersion: "test", Config: map[string]any{}, Plan: plan, PlanHash: plan.Hash(), ChunkSize: 3})
+	id, err := ic.CreateRun(ctx, fleetrun.NewRun{ProgramVersion: "test", Config: map[string]any{}, Plan: plan, PlanHash: plan.Hash(), ChunkSize: 3})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -47,13 +48,13 @@ func TestSharedRunWritesOnce(t *testing.T) {
 		for _, b := range bridges[i:min(i+3, len(bridges))] {
 			ids = append(ids, b.BridgeID)
 		}
-		if err := ic.QueueChunk(ctx, store.ChunkArgs{RunID: id, Bridges: ids}); err != nil {
+		if err := ic.QueueChunk(ctx, fleetrun.ChunkArgs{RunID: id, Bridges: ids}); err != nil {
 			t.Fatal(err)
 		}
 	}
-	var clients []*store.Client
+	var clients []*fleetrun.Client
 	for range 3 {
-		wc, err := db.NewWorkerClient(store.WorkerOptions{Jobs: 2, Threads: 1, JobTimeout: time.Minute, RescueAfter: 2 * time.Minute})
+		wc, err := fleetrun.NewWorkerClient(db, fleetrun.WorkerOptions{Jobs: 2, Threads: 1, JobTimeout: time.Minute, RescueAfter: 2 * time.Minute})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -110,9 +111,9 @@ func TestRacingRunsStoreASetOnce(t *testing.T) {
 	seedFleet(t, db, 16)
 	_, a := createRun(t, db, 1)
 	_, b := createRun(t, db, 1)
-	var clients []*store.Client
+	var clients []*fleetrun.Client
 	for range 2 {
-		wc, err := db.NewWorkerClient(store.WorkerOptions{Jobs: 4, Threads: 1, JobTimeout: time.Minute, RescueAfter: 2 * time.Minute})
+		wc, err := fleetrun.NewWorkerClient(db, fleetrun.WorkerOptions{Jobs: 4, Threads: 1, JobTimeout: time.Minute, RescueAfter: 2 * time.Minute})
 		if err != nil {
 			t.Fatal(err)
 		}

@@ -1,9 +1,7 @@
-package store
+package fleetrun
 
 import (
 	"context"
-	"crypto/sha256"
-	"encoding/hex"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -16,6 +14,7 @@ import (
 	"github.com/riverqueue/river"
 	"github.com/riverqueue/river/riverdriver/riverpgxv5"
 	"github.com/trussfleet/trussfleet/screening"
+	"github.com/trussfleet/trussfleet/store"
 )
 
 // ScreenQueue is the River queue the screening jobs go to.
@@ -28,7 +27,7 @@ type ChunkArgs struct {
 }
 
 // Kind names the job kind in River's tables.
-func (ChunkArgs) Kind() string { return "trussfleet.screen_chunk" }
+func (ChunkArgs) Kind() string { return store.ScreenJobKind }
 
 // InsertOpts puts the job on the screening queue.
 func (ChunkArgs) InsertOpts() river.InsertOpts {
@@ -67,7 +66,7 @@ type ChunkTiming struct {
 // Client is a River client that works screening jobs (or, with NewInsertClient, only
 // inserts them).
 type Client struct {
-	db    *DB
+	db    *store.DB
 	river *river.Client[pgx.Tx]
 }
 
@@ -79,7 +78,7 @@ func riverLogger(l *slog.Logger) *slog.Logger {
 }
 
 // NewInsertClient gives a client that creates runs but works no jobs.
-func (db *DB) NewInsertClient() (*Client, error) {
+func NewInsertClient(db *store.DB) (*Client, error) {
 	rc, err := river.NewClient(riverpgxv5.New(db.Pool), &river.Config{Logger: riverLogger(nil)})
 	if err != nil {
 		return nil, err
@@ -88,13 +87,13 @@ func (db *DB) NewInsertClient() (*Client, error) {
 }
 
 // NewWorkerClient gives a client that works the screening jobs of every open run; Start it.
-func (db *DB) NewWorkerClient(opt WorkerOptions) (*Client, error) {
-	return db.newWorkerClient(opt, screening.ScreenAll)
+func NewWorkerClient(db *store.DB, opt WorkerOptions) (*Client, error) {
+	return newWorkerClient(db, opt, screening.ScreenAll)
 }
 
 // newWorkerClient is NewWorkerClient with the function that screens a chunk's bridges (the
 // fault tests give one that hangs on chosen bridges).
-func (db *DB) newWorkerClient(opt WorkerOptions, screen screenFunc) (*Client, error) {
+func newWorkerClient(db *store.DB, opt WorkerOptions, screen screenFunc) (*Client, error) {
 	w := &chunkWorker{db: db, opt: opt, screen: screen, runs: map[int64]runPlan{}}
 	workers := river.NewWorkers()
 	if err := river.AddWorkerSafely(workers, w); err != nil {
@@ -127,88 +126,6 @@ func (c *Client) Stop(ctx context.Context) error { return c.river.Stop(ctx) }
 // and stops.
 func (c *Client) StopAndCancel(ctx context.Context) error { return c.river.StopAndCancel(ctx) }
 
-// CreateRun records a run, its bridges and its jobs in one transaction, and returns its id.
-// A full run holds a row for every bridge and screens them all. With NewRun.Changed, the run
-// is based on the latest completed run and holds rows only for what differs from it
-// (writeDelta): bridges whose input hash equals the base run's are carried forward without a
-// row or a job, so a night in which nothing changed writes the run's own row and nothing else.
-func (c *Client) CreateRun(ctx context.Context, nr NewRun) (int64, error) {
-	cfg, err := json.Marshal(nr.Config)
-	if err != nil {
-		return 0, fmt.Errorf("run configuration: %w", err)
-	}
-	plan, err := json.Marshal(nr.Plan)
-	if err != nil {
-		return 0, fmt.Errorf("run plan: %w", err)
-	}
-	sum := sha256.Sum256(append(append([]byte{}, cfg...), plan...))
-	chunk := max(nr.ChunkSize, 1)
-	var id int64
-	err = pgx.BeginFunc(ctx, c.db.Pool, func(tx pgx.Tx) error {
-		if err := durable(ctx, tx); err != nil {
-			return err
-		}
-		var base *int64
-		mode := "full"
-		if nr.Changed {
-			mode = "changed"
-			err := tx.QueryRow(ctx, "SELECT id FROM runs WHERE status = 'completed' ORDER BY id DESC LIMIT 1").Scan(&base)
-			if err != nil && !errors.Is(err, pgx.ErrNoRows) {
-				return err
-			}
-		}
-		if err := tx.QueryRow(ctx, `INSERT INTO runs (program_version, config, config_hash, trains, mode, base_run_id, plan_hash)
-			VALUES ($1, $2, $3, $4, $5, $6, $7) RETURNING id`,
-			nr.ProgramVersion, cfg, hex.EncodeToString(sum[:]), plan, mode, base, nr.PlanHash).Scan(&id); err != nil {
-			return err
-		}
-		// The jobs hash each bridge as they load it (chunkInputs); only a run that carries
-		// unchanged bridges forward needs every hash now.
-		var total int
-		if base == nil {
-			tag, err := tx.Exec(ctx, `INSERT INTO run_bridges (run_id, bridge_id, input_hash)
-				SELECT $1, bridge_id, '' FROM bridges`, id)
-			if err != nil {
-				return err
-			}
-			total = int(tag.RowsAffected())
-		} else {
-			n, err := writeDelta(ctx, tx, id, *base, nr.PlanHash)
-			if err != nil {
-				return err
-			}
-			total = n
-		}
-		// Statistics that know the new run: without them the planner takes the run for a
-		// handful of rows and reads all its pending bridges to find a job's 50 (10 ms a job
-		// at 10,000 bridges, growing with the fleet). ANALYZE samples a bounded number of
-		// rows, a few milliseconds at any size.
-		if _, err := tx.Exec(ctx, "ANALYZE run_bridges"); err != nil {
-			return err
-		}
-		rows, err := tx.Query(ctx, `SELECT bridge_id FROM run_bridges WHERE run_id = $1 AND status = 'pending'
-			ORDER BY bridge_id`, id)
-		if err != nil {
-			return err
-		}
-		pending, err := pgx.CollectRows(rows, pgx.RowTo[string])
-		if err != nil {
-			return err
-		}
-		if err := insertChunks(ctx, c.river, tx, id, pending, chunk); err != nil {
-			return err
-		}
-		_, err = tx.Exec(ctx, `UPDATE runs SET bridges_total = $3,
-			status = CASE WHEN $2 THEN 'completed' ELSE status END,
-			finished_at = CASE WHEN $2 THEN now() END WHERE id = $1`, id, len(pending) == 0, total)
-		return err
-	})
-	if err != nil {
-		return 0, fmt.Errorf("creating run: %w", err)
-	}
-	return id, nil
-}
-
 // QueueChunk queues one more job for bridges of a run. Bridges already written are skipped
 // when it runs, so queueing a chunk twice (or re-queueing one a rescued worker finished) is
 // harmless.
@@ -217,23 +134,13 @@ func (c *Client) QueueChunk(ctx context.Context, args ChunkArgs) error {
 	return err
 }
 
-// OpenJobs counts the jobs of a run that are still to be worked (available, running, waiting
-// to retry or scheduled).
-func (db *DB) OpenJobs(ctx context.Context, runID int64) (int, error) {
-	var n int
-	err := db.Pool.QueryRow(ctx, `SELECT count(*) FROM river_job WHERE kind = $1
-		AND state IN ('available', 'running', 'retryable', 'scheduled', 'pending')
-		AND (args->>'run_id')::bigint = $2`, ChunkArgs{}.Kind(), runID).Scan(&n)
-	return n, err
-}
-
 // screenFunc screens a chunk's bridges: screening.ScreenAll.
 type screenFunc func(ctx context.Context, bridges []screening.Bridge, s *screening.Settings, threads int) ([]screening.Result, error)
 
 // chunkWorker works ChunkArgs jobs.
 type chunkWorker struct {
 	river.WorkerDefaults[ChunkArgs]
-	db     *DB
+	db     *store.DB
 	opt    WorkerOptions
 	screen screenFunc
 
@@ -292,7 +199,7 @@ func (w *chunkWorker) Work(ctx context.Context, job *river.Job[ChunkArgs]) error
 	if err != nil {
 		return w.retryOrFail(ctx, job, err)
 	}
-	inputs, hashes, err := w.db.chunkInputs(ctx, a.RunID, rp.planHash, a.Bridges)
+	inputs, hashes, err := chunkInputs(ctx, w.db, a.RunID, rp.planHash, a.Bridges)
 	if err != nil {
 		return w.retryOrFail(ctx, job, err)
 	}
@@ -307,7 +214,7 @@ func (w *chunkWorker) Work(ctx context.Context, job *river.Job[ChunkArgs]) error
 	t2 := time.Now()
 	tm.Load, tm.Screen = t1.Sub(t0), t2.Sub(t1)
 	err = pgx.BeginFunc(ctx, w.db.Pool, func(tx pgx.Tx) error {
-		if err := durable(ctx, tx); err != nil {
+		if err := store.Durable(ctx, tx); err != nil {
 			return err
 		}
 		n, err := writeResults(ctx, tx, a.RunID, results, hashes, &tm)
@@ -342,7 +249,7 @@ func (w *chunkWorker) endJob(ctx context.Context, job *river.Job[ChunkArgs], fn 
 	ectx, cancel := context.WithTimeout(context.WithoutCancel(ctx), endingTimeout)
 	defer cancel()
 	err := pgx.BeginFunc(ectx, w.db.Pool, func(tx pgx.Tx) error {
-		if err := durable(ectx, tx); err != nil {
+		if err := store.Durable(ectx, tx); err != nil {
 			return err
 		}
 		if err := fn(ectx, tx); err != nil {
@@ -367,7 +274,7 @@ func (w *chunkWorker) retryOrFail(ctx context.Context, job *river.Job[ChunkArgs]
 	}
 	why := failReason("job failed after %d attempts: %v", job.Attempt, cause)
 	err := w.endJob(ctx, job, func(ctx context.Context, tx pgx.Tx) error {
-		return failBridges(ctx, tx, job.Args.RunID, job.Args.Bridges, why)
+		return store.FailBridges(ctx, tx, job.Args.RunID, job.Args.Bridges, why)
 	})
 	if err != nil {
 		// River discards the job; RecoverRuns records its error on the bridges later.
@@ -394,7 +301,7 @@ func (w *chunkWorker) timedOut(ctx context.Context, job *river.Job[ChunkArgs], i
 			}
 			return insertChunks(ctx, rc, tx, job.Args.RunID, ids, 1)
 		}
-		return failBridges(ctx, tx, job.Args.RunID, ids, failReason(
+		return store.FailBridges(ctx, tx, job.Args.RunID, ids, failReason(
 			"screening took longer than the job timeout (%v, stopped after %v): check its trains and geometry, or raise job_timeout",
 			w.opt.JobTimeout, took.Round(time.Millisecond)))
 	})
@@ -402,13 +309,6 @@ func (w *chunkWorker) timedOut(ctx context.Context, job *river.Job[ChunkArgs], i
 		return fmt.Errorf("job timed out, and ending it failed: %w", err)
 	}
 	return nil
-}
-
-// failBridges records why the run's still pending bridges among ids could not be screened.
-func failBridges(ctx context.Context, tx pgx.Tx, runID int64, ids []string, why string) error {
-	_, err := tx.Exec(ctx, `UPDATE run_bridges SET status = 'failed', error = $3, screened_at = now()
-		WHERE run_id = $1 AND bridge_id = ANY($2) AND status = 'pending'`, runID, ids, why)
-	return err
 }
 
 // finishRun completes the run if this job's commit left no bridge pending. It runs after
@@ -420,67 +320,4 @@ func (w *chunkWorker) finishRun(ctx context.Context, runID int64) {
 	if err := w.db.FinishRuns(context.WithoutCancel(ctx), runID); err != nil && w.opt.Logger != nil {
 		w.opt.Logger.Warn("completing the run", "run", runID, "err", err)
 	}
-}
-
-// FinishRuns marks completed the given run, or with id 0 every run, that is running or
-// interrupted with no bridge pending. It is idempotent and safe to call at any time: a
-// worker calls it after each job, and screen, worker and CreateRun call it for runs whose
-// last job's process died between its commit and its check.
-func (db *DB) FinishRuns(ctx context.Context, runID int64) error {
-	_, err := db.Pool.Exec(ctx, `UPDATE runs r SET status = 'completed', finished_at = now()
-		WHERE ($1 = 0 OR r.id = $1) AND r.status IN ('running', 'interrupted')
-		AND NOT EXISTS (SELECT 1 FROM run_bridges b WHERE b.run_id = r.id AND b.status = 'pending')`, runID)
-	return err
-}
-
-// writeDelta writes the rows of a run based on base that differ from base's picture: a
-// pending row for each bridge whose input hash differs from its row there (or that has none,
-// or whose screening failed), a removed row for each bridge of base's picture gone from the
-// inventory; and marks the run incomplete (its picture continues in base's). It returns the
-// number of bridges in the inventory.
-func writeDelta(ctx context.Context, tx pgx.Tx, id, base int64, planHash string) (int, error) {
-	ids, hashes, err := inputHashes(ctx, tx, planHash)
-	if err != nil {
-		return 0, err
-	}
-	rows, err := tx.Query(ctx, `SELECT bridge_id, input_hash, status FROM run_picture($1)`, base)
-	if err != nil {
-		return 0, err
-	}
-	type held struct{ hash, status string }
-	before := map[string]held{}
-	var b, h, st string
-	if _, err := pgx.ForEachRow(rows, []any{&b, &h, &st}, func() error {
-		before[b] = held{h, st}
-		return nil
-	}); err != nil {
-		return 0, fmt.Errorf("picture of run %d: %w", base, err)
-	}
-	var changed, changedHashes []string
-	for i, b := range ids {
-		old, ok := before[b]
-		delete(before, b)
-		if ok && old.hash == hashes[i] && (old.status == "done" || old.status == "carried") {
-			continue
-		}
-		changed, changedHashes = append(changed, b), append(changedHashes, hashes[i])
-	}
-	removed := make([]string, 0, len(before))
-	for b := range before {
-		removed = append(removed, b)
-	}
-	if len(changed) > 0 {
-		if _, err := tx.Exec(ctx, `INSERT INTO run_bridges (run_id, bridge_id, input_hash)
-			SELECT $1, * FROM unnest($2::text[], $3::text[])`, id, changed, changedHashes); err != nil {
-			return 0, err
-		}
-	}
-	if len(removed) > 0 {
-		if _, err := tx.Exec(ctx, `INSERT INTO run_bridges (run_id, bridge_id, input_hash, status, screened_at)
-			SELECT $1, b, '', 'removed', now() FROM unnest($2::text[]) AS b`, id, removed); err != nil {
-			return 0, err
-		}
-	}
-	_, err = tx.Exec(ctx, "UPDATE runs SET complete = false WHERE id = $1", id)
-	return len(ids), err
 }

@@ -1,20 +1,21 @@
-package store
+package runreport
 
 import (
 	"context"
 	"encoding/json"
 	"fmt"
 
-	"github.com/jackc/pgx/v5"
+	"github.com/jackc/pgx/v5/pgtype"
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/report"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 	"github.com/trussfleet/trussfleet/screening/truss"
+	"github.com/trussfleet/trussfleet/store"
 )
 
-// ReportRun loads what a report shows of a run: its settings, its trains and its totals.
-func (db *DB) ReportRun(ctx context.Context, runID int64) (report.Run, error) {
+// Run loads what a report shows of a run: its settings, its trains and its totals.
+func Run(ctx context.Context, db *store.DB, runID int64) (report.Run, error) {
 	r, err := db.GetRun(ctx, runID)
 	if err != nil {
 		return report.Run{}, err
@@ -55,10 +56,10 @@ func (db *DB) ReportRun(ctx context.Context, runID int64) (report.Run, error) {
 	return out, err
 }
 
-// ReportBridge loads one bridge's page: its priority-list row, its geometry and loads as the
+// Bridge loads one bridge's page: its priority-list row, its geometry and loads as the
 // inventory holds them now, and every member's stored results in the run. The trains of the
 // extremes are looked up in run.Trains.
-func (db *DB) ReportBridge(ctx context.Context, run report.Run, bridgeID string) (report.Bridge, error) {
+func Bridge(ctx context.Context, db *store.DB, run report.Run, bridgeID string) (report.Bridge, error) {
 	row, err := db.RankedBridge(ctx, run.ID, bridgeID)
 	if err != nil {
 		return report.Bridge{}, err
@@ -76,67 +77,11 @@ func (db *DB) ReportBridge(ctx context.Context, run report.Run, bridgeID string)
 	if row.Status == "failed" {
 		return out, nil
 	}
-	held := map[string]Member{}
+	held := map[string]store.Member{}
 	for _, m := range inv {
 		held[m.Member] = m
 	}
-	set, err := db.bridgeSet(ctx, run.ID, bridgeID)
-	if err != nil {
-		return out, err
-	}
-	members := map[string]*report.Member{}
-	rows, err := db.Pool.Query(ctx, `SELECT member, rf_existing, rf_proposed, sense_proposed, flags
-		FROM member_assessments WHERE set_id = $1`, set)
-	if err != nil {
-		return out, err
-	}
-	for rows.Next() {
-		m := &report.Member{}
-		if err := rows.Scan(&m.Label, &m.RFExisting, &m.RFProposed, &m.SenseProposed, &m.Flags); err != nil {
-			rows.Close()
-			return out, err
-		}
-		members[m.Label] = m
-	}
-	if err := rows.Err(); err != nil {
-		return out, err
-	}
-	rows, err = db.Pool.Query(ctx, `SELECT member, scenario, kind, dead_kn, live_max_kn, live_min_kn, impact,
-		rf_tension, rf_compression, basis, max_train, max_head_m, max_direction, max_from_m, max_to_m,
-		min_train, min_head_m, min_direction, min_from_m, min_to_m, coalesce(max_count, 0), coalesce(min_count, 0)
-		FROM member_results WHERE set_id = $1`, set)
-	if err != nil {
-		return out, err
-	}
-	err = forEach(rows, func(r pgx.Rows) error {
-		var label, scenario string
-		var s report.Scenario
-		var kind string
-		var dead float64
-		var maxHead, maxFrom, maxTo, minHead, minFrom, minTo *float64
-		var maxDir, minDir string
-		if err := r.Scan(&label, &scenario, &kind, &dead, &s.LiveMaxKN, &s.LiveMinKN, &s.Impact, &s.RFTension,
-			&s.RFCompression, &s.Basis, &s.Max.Train, &maxHead, &maxDir, &maxFrom, &maxTo,
-			&s.Min.Train, &minHead, &minDir, &minFrom, &minTo, &s.Max.Count, &s.Min.Count); err != nil {
-			return err
-		}
-		s.Max.Value, s.Min.Value = s.LiveMaxKN, s.LiveMinKN
-		placement(&s.Max, maxHead, maxDir, maxFrom, maxTo)
-		placement(&s.Min, minHead, minDir, minFrom, minTo)
-		s.MaxTrain, s.MinTrain = run.Trains[s.Max.Train], run.Trains[s.Min.Train]
-		m, ok := members[label]
-		if !ok {
-			m = &report.Member{Label: label}
-			members[label] = m
-		}
-		m.Kind, m.DeadKN = kind, dead
-		if scenario == "existing" {
-			m.Existing = s
-		} else {
-			m.Proposed = s
-		}
-		return nil
-	})
+	members, err := storedMembers(ctx, db, run, bridgeID)
 	if err != nil {
 		return out, err
 	}
@@ -164,28 +109,67 @@ func (db *DB) ReportBridge(ctx context.Context, run report.Run, bridgeID string)
 	return out, nil
 }
 
-func placement(e *envelope.Extreme, head *float64, dir string, from, to *float64) {
-	if head == nil {
-		return
+// storedMembers reads the result set of a bridge in the run, by member label: its
+// assessments and both scenarios' envelopes.
+func storedMembers(ctx context.Context, db *store.DB, run report.Run, bridgeID string) (map[string]*report.Member, error) {
+	members := map[string]*report.Member{}
+	set, err := db.BridgeSet(ctx, run.ID, bridgeID)
+	if err != nil || set == nil {
+		return members, err
 	}
-	e.Loaded, e.HeadM = true, *head
+	assessments, err := db.MemberAssessments(ctx, *set)
+	if err != nil {
+		return nil, err
+	}
+	for _, a := range assessments {
+		members[a.Member] = &report.Member{Label: a.Member, RFExisting: ptr(a.RFExisting), RFProposed: ptr(a.RFProposed),
+			SenseProposed: a.SenseProposed, Flags: a.Flags}
+	}
+	results, err := db.MemberResults(ctx, *set)
+	if err != nil {
+		return nil, err
+	}
+	for _, r := range results {
+		s := report.Scenario{LiveMaxKN: r.LiveMaxKN, LiveMinKN: r.LiveMinKN, Impact: r.Impact,
+			RFTension: ptr(r.RFTension), RFCompression: ptr(r.RFCompression), Basis: r.Basis}
+		s.Max = extreme(r.LiveMaxKN, r.MaxTrain, r.MaxHeadM, r.MaxDirection, r.MaxFromM, r.MaxToM, r.MaxCount)
+		s.Min = extreme(r.LiveMinKN, r.MinTrain, r.MinHeadM, r.MinDirection, r.MinFromM, r.MinToM, r.MinCount)
+		s.MaxTrain, s.MinTrain = run.Trains[s.Max.Train], run.Trains[s.Min.Train]
+		m, ok := members[r.Member]
+		if !ok {
+			m = &report.Member{Label: r.Member}
+			members[r.Member] = m
+		}
+		m.Kind, m.DeadKN = r.Kind, r.DeadKN
+		if r.Scenario == "existing" {
+			m.Existing = s
+		} else {
+			m.Proposed = s
+		}
+	}
+	return members, nil
+}
+
+// extreme is a stored extreme: its value and train, and where the train stood when it has a
+// head position (a train on the bridge).
+func extreme(value float64, train string, head pgtype.Float8, dir string, from, to pgtype.Float8, count pgtype.Int4) envelope.Extreme {
+	e := envelope.Extreme{Value: value, Train: train}
+	e.Count = int(count.Int32)
+	if !head.Valid {
+		return e
+	}
+	e.Loaded, e.HeadM = true, head.Float64
 	if dir == envelope.RightToLeft.String() {
 		e.Direction = envelope.RightToLeft
 	}
-	if from != nil {
-		e.LoadedFromM = *from
-	}
-	if to != nil {
-		e.LoadedToM = *to
-	}
+	e.LoadedFromM, e.LoadedToM = from.Float64, to.Float64
+	return e
 }
 
-func forEach(rows pgx.Rows, f func(pgx.Rows) error) error {
-	defer rows.Close()
-	for rows.Next() {
-		if err := f(rows); err != nil {
-			return err
-		}
+// ptr is a nullable number as the report holds it: nil for NULL.
+func ptr(v pgtype.Float8) *float64 {
+	if !v.Valid {
+		return nil
 	}
-	return rows.Err()
+	return &v.Float64
 }

@@ -1,13 +1,16 @@
-package store_test
+package fleetrun_test
 
 import (
 	"context"
 	"testing"
 
 	"github.com/jackc/pgx/v5"
+	"github.com/trussfleet/trussfleet/fleetrun"
 	"github.com/trussfleet/trussfleet/store"
 	"github.com/trussfleet/trussfleet/store/pgtest"
 )
+
+func ptr[T any](v T) *T { return &v }
 
 func hashBridge() (store.Bridge, []store.Member) {
 	b := store.Bridge{BridgeID: "NER-00001", Name: "Quarnholm Girders", TrussType: "pratt", SpanM: 48, Panels: 8,
@@ -26,17 +29,17 @@ func hashBridge() (store.Bridge, []store.Member) {
 // skipping NULLs and took the two for the same.
 func TestInputHashSeesEveryInput(t *testing.T) {
 	b, ms := hashBridge()
-	base := store.InputHash("plan", b, ms)
-	if base != store.InputHash("plan", b, ms) {
+	base := fleetrun.InputHash("plan", b, ms)
+	if base != fleetrun.InputHash("plan", b, ms) {
 		t.Fatal("the hash is not repeatable")
 	}
 	reversed := []store.Member{ms[2], ms[0], ms[1]}
-	if store.InputHash("plan", b, reversed) != base {
+	if fleetrun.InputHash("plan", b, reversed) != base {
 		t.Error("the hash depends on the members' order")
 	}
 	same := b
 	same.Name, same.Line, same.Latitude, same.YearBuilt = "Thraskwick Bridge", "Eastfell Branch", ptr(-41.5), ptr(1897)
-	if store.InputHash("plan", same, ms) != base {
+	if fleetrun.InputHash("plan", same, ms) != base {
 		t.Error("the hash changed with the bridge's name, line, place or year, which change no result")
 	}
 	changes := map[string]func(b *store.Bridge, ms []store.Member) []store.Member{
@@ -79,11 +82,11 @@ func TestInputHashSeesEveryInput(t *testing.T) {
 	for name, change := range changes {
 		b2, ms2 := hashBridge()
 		ms2 = change(&b2, ms2)
-		if store.InputHash("plan", b2, ms2) == base {
+		if fleetrun.InputHash("plan", b2, ms2) == base {
 			t.Errorf("%s: the hash did not change", name)
 		}
 	}
-	if store.InputHash("other plan", b, ms) == base {
+	if fleetrun.InputHash("other plan", b, ms) == base {
 		t.Error("the hash did not change with the plan")
 	}
 }
@@ -102,7 +105,7 @@ func TestInputHashesOfInventory(t *testing.T) {
 	var ids, hashes []string
 	err := pgx.BeginFunc(ctx, db.Pool, func(tx pgx.Tx) error {
 		var err error
-		ids, hashes, err = store.InputHashes(ctx, tx, "plan")
+		ids, hashes, err = fleetrun.InputHashes(ctx, tx, "plan")
 		return err
 	})
 	if err != nil {
@@ -121,7 +124,7 @@ func TestInputHashesOfInventory(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		want[b.BridgeID] = store.InputHash("plan", b, ms)
+		want[b.BridgeID] = fleetrun.InputHash("plan", b, ms)
 	}
 	for i, id := range ids {
 		if hashes[i] != want[id] {

@@ -1,0 +1,66 @@
+package fleetrun
+
+import (
+	"context"
+
+	"github.com/trussfleet/trussfleet/screening"
+	"github.com/trussfleet/trussfleet/screening/rating"
+	"github.com/trussfleet/trussfleet/screening/truss"
+	"github.com/trussfleet/trussfleet/store"
+)
+
+// chunkInputs loads the bridges of a job that are still pending in the run, with their
+// members, as screening inputs, and each bridge's input hash (InputHash with planHash, the
+// run's; none for a run without one), taken of the rows loaded: the hash describes exactly
+// what is screened.
+func chunkInputs(ctx context.Context, db *store.DB, runID int64, planHash string, ids []string) ([]screening.Bridge, map[string]string, error) {
+	bridges, members, err := db.PendingBridgesOf(ctx, runID, ids)
+	if err != nil {
+		return nil, nil, err
+	}
+	byBridge := make(map[string][]store.Member, len(bridges))
+	for _, m := range members {
+		byBridge[m.BridgeID] = append(byBridge[m.BridgeID], m)
+	}
+	out := make([]screening.Bridge, len(bridges))
+	hashes := make(map[string]string, len(bridges))
+	for i, b := range bridges {
+		ms := byBridge[b.BridgeID]
+		out[i] = ScreeningInput(b, ms)
+		if planHash != "" {
+			hashes[b.BridgeID] = InputHash(planHash, b, ms)
+		}
+	}
+	return out, hashes, nil
+}
+
+// ScreeningInput turns an inventory row and its members into what screening needs.
+func ScreeningInput(b store.Bridge, members []store.Member) screening.Bridge {
+	sb := screening.Bridge{
+		ID:             b.BridgeID,
+		Truss:          truss.Params{Type: b.TrussType, SpanM: b.SpanM, Panels: b.Panels, DepthM: b.DepthM, Deck: b.Deck, EndPosts: b.EndPosts},
+		TrussShare:     b.TrussShare,
+		Tracks:         b.Tracks,
+		DeadLoadKNPerM: b.DeadLoadKNPerM,
+		Members:        make(map[string]rating.Member, len(members)),
+	}
+	for _, m := range members {
+		sb.Members[m.Member] = RatingMember(m)
+	}
+	return sb
+}
+
+// RatingMember turns a members row into the rating package's view of it.
+func RatingMember(m store.Member) rating.Member {
+	r := rating.Member{ConditionFactor: m.ConditionFactor}
+	if m.CapacityTensionKN != nil {
+		r.CapacityTension = *m.CapacityTensionKN
+	}
+	if m.CapacityCompressionKN != nil {
+		r.CapacityCompression = *m.CapacityCompressionKN
+	}
+	if m.RatingFactor != nil && m.ReferenceTrain != nil {
+		r.RatingFactor, r.ReferenceTrain = *m.RatingFactor, *m.ReferenceTrain
+	}
+	return r
+}

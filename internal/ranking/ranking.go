@@ -1,0 +1,35 @@
+// Package ranking holds the line of a run's priority list: what package store reads for
+// each bridge of a run, in priority order, and what the report (package screening/report),
+// the priority list on the terminal and the exports show. It is a package of its own so that
+// the store and the report share the line without either importing the other.
+package ranking
+
+// Row is one line of a run's priority list.
+type Row struct {
+	Rank                   int
+	BridgeID, Name, Line   string
+	ChainageKm             *float64
+	TrussType              string
+	SpanM                  float64
+	Panels                 int
+	WorstMember            string
+	RFExisting, RFProposed *float64 // nil: no member with capacity data
+	// Change is RFProposed/RFExisting − 1 (negative when the RF falls).
+	Change *float64
+	// DemandIncrease is the largest member live-demand increase, as a fraction.
+	DemandIncrease float64
+	Headroom       *float64 // multiple of the proposed traffic carried at RF = 1
+	Flags          []string // distinct flags of the bridge's members, in report order
+	FlagCounts     map[string]int
+	// Governing train of the worst member and where it stood.
+	GoverningTrain     string
+	GoverningSense     string // tension or compression
+	GoverningHeadM     *float64
+	GoverningDirection string
+	GoverningFromM     *float64
+	GoverningToM       *float64
+	LastInspected      string // YYYY-MM-DD or ""
+	// Status is "done" or "failed" (a result carried forward from an earlier run reads as
+	// done); Error says why a bridge failed.
+	Status, Error string
+}

@@ -1,0 +1,58 @@
+package store
+
+import (
+	"context"
+
+	"github.com/jackc/pgx/v5"
+	"github.com/jackc/pgx/v5/pgtype"
+)
+
+// Table member_assessments: sql/migrations/002_screening.sql, 004, 009 (made anew, keyed by
+// result set).
+
+// MemberAssessment is a row of member_assessments: one member's rating under both scenarios
+// and its flags, in a result set.
+type MemberAssessment struct {
+	SetID  int64
+	Member string // the geometry's label
+	// The member's lowest rating factor under each scenario; NULL where there is none or it
+	// has no finite value.
+	RFExisting, RFProposed pgtype.Float8
+	SenseProposed          string // the sense of the proposed factor, "" without one
+	// DemandIncrease is the largest live-demand increase, a fraction; the column refuses
+	// NULL.
+	DemandIncrease pgtype.Float8
+	Flags          []string // never NULL: empty for none
+}
+
+// memberAssessmentColumns are member_assessments' columns: the COPY that writes the rows,
+// the encoder's order and the SELECT that reads them.
+var memberAssessmentColumns = []column[MemberAssessment]{
+	{"set_id", func(a *MemberAssessment) any { return &a.SetID }},
+	{"member", func(a *MemberAssessment) any { return &a.Member }},
+	{"rf_existing", func(a *MemberAssessment) any { return &a.RFExisting }},
+	{"rf_proposed", func(a *MemberAssessment) any { return &a.RFProposed }},
+	{"sense_proposed", func(a *MemberAssessment) any { return &a.SenseProposed }},
+	{"demand_increase", func(a *MemberAssessment) any { return &a.DemandIncrease }},
+	{"flags", func(a *MemberAssessment) any { return &a.Flags }},
+}
+
+// MemberAssessmentColumns are the names of member_assessments' columns, in the order
+// MemberAssessment rows are encoded.
+var MemberAssessmentColumns = columnNames(memberAssessmentColumns)
+
+var copyMemberAssessments = copyStatement("member_assessments", MemberAssessmentColumns)
+
+// MemberAssessment appends one member_assessments row.
+func (e *CopyEncoder) MemberAssessment(a *MemberAssessment) { encodeRow(e, memberAssessmentColumns, a) }
+
+// CopyMemberAssessments copies a binary COPY stream of member_assessments rows (CopyEncoder:
+// Begin, MemberAssessment for each row, End) into the table.
+func CopyMemberAssessments(ctx context.Context, tx pgx.Tx, stream []byte) error {
+	return copyStream(ctx, tx, "member_assessments", copyMemberAssessments, stream)
+}
+
+// MemberAssessments reads the rows of a result set.
+func (db *DB) MemberAssessments(ctx context.Context, setID int64) ([]MemberAssessment, error) {
+	return selectRows(ctx, db, "member_assessments", memberAssessmentColumns, "set_id = $1", setID)
+}
