@@ -10,89 +10,93 @@ import (
 	"github.com/trussfleet/trussfleet/store/pgtest"
 )
 
-func ptr[T any](v T) *T { return &v }
-
-func hashBridge() (store.Bridge, []store.Member) {
-	b := store.Bridge{BridgeID: "NER-00001", Name: "Quarnholm Girders", TrussType: "pratt", SpanM: 48, Panels: 8,
-		DepthM: 6, Deck: "through", Trusses: 2, TrussShare: 0.5, Tracks: 1, DeadLoadKNPerM: 14}
-	ms := []store.Member{
-		{BridgeID: b.BridgeID, Member: "L0-L1", CapacityTensionKN: ptr(2400.0), ConditionFactor: 1},
-		{BridgeID: b.BridgeID, Member: "U1-U2", CapacityCompressionKN: ptr(3100.0), ConditionFactor: 0.9},
-		{BridgeID: b.BridgeID, Member: "U1-L2", RatingFactor: ptr(1.2), ReferenceTrain: ptr("northmoor-freight-today"), ConditionFactor: 1},
+// version reads a bridge's input version.
+func version(t *testing.T, db *store.DB, bridge string) int64 {
+	t.Helper()
+	var v int64
+	if err := db.Pool.QueryRow(context.Background(), "SELECT input_version FROM bridges WHERE bridge_id = $1", bridge).Scan(&v); err != nil {
+		t.Fatal(err)
 	}
-	return b, ms
+	return v
 }
 
-// TestInputHashSeesEveryInput: the hash changes with every input a result depends on, not
-// with names and places, and not with the order the members come in. Among the changes, a
-// capacity moved from tension to compression: the earlier SQL hash joined the numbers
-// skipping NULLs and took the two for the same.
-func TestInputHashSeesEveryInput(t *testing.T) {
-	b, ms := hashBridge()
-	base := fleetrun.InputHash("plan", b, ms)
-	if base != fleetrun.InputHash("plan", b, ms) {
-		t.Fatal("the hash is not repeatable")
-	}
-	reversed := []store.Member{ms[2], ms[0], ms[1]}
-	if fleetrun.InputHash("plan", b, reversed) != base {
-		t.Error("the hash depends on the members' order")
-	}
-	same := b
-	same.Name, same.Line, same.Latitude, same.YearBuilt = "Thraskwick Bridge", "Eastfell Branch", ptr(-41.5), ptr(1897)
-	if fleetrun.InputHash("plan", same, ms) != base {
-		t.Error("the hash changed with the bridge's name, line, place or year, which change no result")
-	}
-	changes := map[string]func(b *store.Bridge, ms []store.Member) []store.Member{
-		"truss type":     func(b *store.Bridge, ms []store.Member) []store.Member { b.TrussType = "howe"; return ms },
-		"span":           func(b *store.Bridge, ms []store.Member) []store.Member { b.SpanM = 48.000001; return ms },
-		"panels":         func(b *store.Bridge, ms []store.Member) []store.Member { b.Panels = 10; return ms },
-		"depth":          func(b *store.Bridge, ms []store.Member) []store.Member { b.DepthM = 6.5; return ms },
-		"deck":           func(b *store.Bridge, ms []store.Member) []store.Member { b.Deck = "deck"; return ms },
-		"end posts":      func(b *store.Bridge, ms []store.Member) []store.Member { b.EndPosts = "vertical"; return ms },
-		"trusses":        func(b *store.Bridge, ms []store.Member) []store.Member { b.Trusses = 3; return ms },
-		"share":          func(b *store.Bridge, ms []store.Member) []store.Member { b.TrussShare = 0.55; return ms },
-		"tracks":         func(b *store.Bridge, ms []store.Member) []store.Member { b.Tracks = 2; return ms },
-		"dead load":      func(b *store.Bridge, ms []store.Member) []store.Member { b.DeadLoadKNPerM = 15; return ms },
-		"a member fewer": func(b *store.Bridge, ms []store.Member) []store.Member { return ms[:2] },
-		"a label": func(b *store.Bridge, ms []store.Member) []store.Member {
-			ms[0].Member = "L0-L2"
-			return ms
-		},
-		"a capacity": func(b *store.Bridge, ms []store.Member) []store.Member {
-			ms[0].CapacityTensionKN = ptr(2399.0)
-			return ms
-		},
-		"a capacity moved from tension to compression": func(b *store.Bridge, ms []store.Member) []store.Member {
-			ms[0].CapacityTensionKN, ms[0].CapacityCompressionKN = nil, ptr(2400.0)
-			return ms
-		},
-		"a rating factor": func(b *store.Bridge, ms []store.Member) []store.Member {
-			ms[2].RatingFactor = ptr(1.25)
-			return ms
-		},
-		"a reference train": func(b *store.Bridge, ms []store.Member) []store.Member {
-			ms[2].ReferenceTrain = ptr("cooper:e=80")
-			return ms
-		},
-		"a condition factor": func(b *store.Bridge, ms []store.Member) []store.Member {
-			ms[1].ConditionFactor = 0.85
-			return ms
-		},
-	}
-	for name, change := range changes {
-		b2, ms2 := hashBridge()
-		ms2 = change(&b2, ms2)
-		if fleetrun.InputHash("plan", b2, ms2) == base {
-			t.Errorf("%s: the hash did not change", name)
+// TestInputVersionSeesEveryInput: the database renews a bridge's input version with every
+// change of an input its result depends on (its geometry and loads; a member added, changed
+// or removed, in any column, including a capacity moved from tension to compression, which
+// the earlier SQL hash took for no change), and not with names, places and dates, nor with
+// an import that changes nothing (an upsert whose rows all equal the stored ones).
+func TestInputVersionSeesEveryInput(t *testing.T) {
+	ctx := context.Background()
+	db := pgtest.DB(t)
+	exec := func(q string) {
+		t.Helper()
+		if _, err := db.Pool.Exec(ctx, q); err != nil {
+			t.Fatalf("%s: %v", q, err)
 		}
 	}
-	if fleetrun.InputHash("other plan", b, ms) == base {
-		t.Error("the hash did not change with the plan")
+	exec(`INSERT INTO bridges (bridge_id, name, truss_type, span_m, panels, depth_m, deck, dead_load_kn_per_m)
+		VALUES ('NER-00001', 'Quarnholm Girders', 'pratt', 48, 8, 6, 'through', 14),
+		       ('NER-00002', 'Thraskwick Bridge', 'pratt', 48, 8, 6, 'through', 14)`)
+	exec(`INSERT INTO members (bridge_id, member, capacity_tension_kn, capacity_compression_kn, rating_factor, reference_train, condition_factor)
+		VALUES ('NER-00001', 'L0-L1', 2400, NULL, NULL, NULL, 1), ('NER-00001', 'U1-U2', NULL, 3100, NULL, NULL, 0.9),
+		       ('NER-00001', 'U1-L2', NULL, NULL, 1.2, 'northmoor-freight-today', 1)`)
+	const upsert = `INSERT INTO members (bridge_id, member, capacity_tension_kn, condition_factor)
+		VALUES ('NER-00001', 'L0-L1', 2400, 1) ON CONFLICT (bridge_id, member) DO UPDATE
+		SET capacity_tension_kn = EXCLUDED.capacity_tension_kn
+		WHERE members.capacity_tension_kn IS DISTINCT FROM EXCLUDED.capacity_tension_kn`
+	for _, c := range []struct {
+		what, sql string
+		renews    bool
+	}{
+		{"name, line, place, year, inspection", `UPDATE bridges SET name = 'Kestholm Bridge', line = 'Eastfell Branch',
+			latitude = -41.5, longitude = 172.1, year_built = 1897, last_inspected = '2024-03-01' WHERE bridge_id = 'NER-00001'`, false},
+		{"an import that changes nothing", upsert, false},
+		{"another bridge's member", `INSERT INTO members (bridge_id, member, capacity_tension_kn) VALUES ('NER-00002', 'L0-L1', 900)`, false},
+		{"truss type", `UPDATE bridges SET truss_type = 'howe' WHERE bridge_id = 'NER-00001'`, true},
+		{"span", `UPDATE bridges SET span_m = 48.000001 WHERE bridge_id = 'NER-00001'`, true},
+		{"panels", `UPDATE bridges SET panels = 10 WHERE bridge_id = 'NER-00001'`, true},
+		{"depth", `UPDATE bridges SET depth_m = 6.5 WHERE bridge_id = 'NER-00001'`, true},
+		{"deck", `UPDATE bridges SET deck = 'deck' WHERE bridge_id = 'NER-00001'`, true},
+		{"end posts", `UPDATE bridges SET end_posts = 'vertical' WHERE bridge_id = 'NER-00001'`, true},
+		{"trusses", `UPDATE bridges SET trusses = 3 WHERE bridge_id = 'NER-00001'`, true},
+		{"share", `UPDATE bridges SET truss_share = 0.55 WHERE bridge_id = 'NER-00001'`, true},
+		{"tracks", `UPDATE bridges SET tracks = 2 WHERE bridge_id = 'NER-00001'`, true},
+		{"dead load", `UPDATE bridges SET dead_load_kn_per_m = 15 WHERE bridge_id = 'NER-00001'`, true},
+		{"a capacity", `UPDATE members SET capacity_tension_kn = 2399 WHERE bridge_id = 'NER-00001' AND member = 'L0-L1'`, true},
+		{"an import that changes a capacity", upsert, true},
+		{"a capacity moved from tension to compression", `UPDATE members SET capacity_tension_kn = NULL,
+			capacity_compression_kn = 2400 WHERE bridge_id = 'NER-00001' AND member = 'L0-L1'`, true},
+		{"a rating factor", `UPDATE members SET rating_factor = 1.25 WHERE bridge_id = 'NER-00001' AND member = 'U1-L2'`, true},
+		{"a reference train", `UPDATE members SET reference_train = 'cooper:e=80' WHERE bridge_id = 'NER-00001' AND member = 'U1-L2'`, true},
+		{"a condition factor", `UPDATE members SET condition_factor = 0.85 WHERE bridge_id = 'NER-00001' AND member = 'U1-U2'`, true},
+		{"a label", `UPDATE members SET member = 'L0-L2' WHERE bridge_id = 'NER-00001' AND member = 'L0-L1'`, true},
+		{"a member more", `INSERT INTO members (bridge_id, member, capacity_tension_kn) VALUES ('NER-00001', 'L1-L2', 2400)`, true},
+		{"a member fewer", `DELETE FROM members WHERE bridge_id = 'NER-00001' AND member = 'L1-L2'`, true},
+	} {
+		before := version(t, db, "NER-00001")
+		exec(c.sql)
+		after := version(t, db, "NER-00001")
+		if (after != before) != c.renews {
+			t.Errorf("%s: version %d -> %d; want renewed: %v", c.what, before, after, c.renews)
+		}
+	}
+}
+
+// TestInputHash: the hash is repeatable and changes with the plan and with the version.
+func TestInputHash(t *testing.T) {
+	h := fleetrun.InputHash("plan", 7)
+	if h != fleetrun.InputHash("plan", 7) {
+		t.Fatal("the hash is not repeatable")
+	}
+	for _, other := range []string{fleetrun.InputHash("other plan", 7), fleetrun.InputHash("plan", 8), fleetrun.InputHash("plan7", 0)} {
+		if other == h {
+			t.Errorf("%s: the hash did not change with the plan or the version", other)
+		}
 	}
 }
 
 // TestInputHashesOfInventory: the hashes a run takes of the whole inventory when it is
-// created equal InputHash of each bridge's rows as a job loads them.
+// created equal InputHash of each bridge's version as the bridge is read alone.
 func TestInputHashesOfInventory(t *testing.T) {
 	ctx := context.Background()
 	db := pgtest.DB(t)
@@ -120,11 +124,7 @@ func TestInputHashesOfInventory(t *testing.T) {
 	}
 	want := map[string]string{}
 	for _, b := range bridges {
-		ms, err := db.Members(ctx, b.BridgeID)
-		if err != nil {
-			t.Fatal(err)
-		}
-		want[b.BridgeID] = fleetrun.InputHash("plan", b, ms)
+		want[b.BridgeID] = fleetrun.InputHash("plan", b.InputVersion)
 	}
 	for i, id := range ids {
 		if hashes[i] != want[id] {

@@ -11,8 +11,8 @@ import (
 
 // chunkInputs loads the bridges of a job that are still pending in the run, with their
 // members, as screening inputs, and each bridge's input hash (InputHash with planHash, the
-// run's; none for a run without one), taken of the rows loaded: the hash describes exactly
-// what is screened.
+// run's; none for a run without one) of the version read with the rows: the hash names
+// exactly what is screened.
 func chunkInputs(ctx context.Context, db *store.DB, runID int64, planHash string, ids []string) ([]screening.Bridge, map[string]string, error) {
 	bridges, members, err := db.PendingBridgesOf(ctx, runID, ids)
 	if err != nil {
@@ -28,7 +28,7 @@ func chunkInputs(ctx context.Context, db *store.DB, runID int64, planHash string
 		ms := byBridge[b.BridgeID]
 		out[i] = ScreeningInput(b, ms)
 		if planHash != "" {
-			hashes[b.BridgeID] = InputHash(planHash, b, ms)
+			hashes[b.BridgeID] = InputHash(planHash, b.InputVersion)
 		}
 	}
 	return out, hashes, nil

@@ -9,7 +9,7 @@ import (
 	"github.com/jackc/pgx/v5"
 )
 
-// Table bridges: sql/migrations/001_inventory.sql.
+// Table bridges: sql/migrations/001_inventory.sql; input_version and its triggers, 010.
 
 // Bridge is one span of the inventory, a row of the bridges table. Pointer fields are
 // optional (NULL when nil).
@@ -34,6 +34,9 @@ type Bridge struct {
 	Latitude       *float64   `json:"latitude,omitempty"`
 	Longitude      *float64   `json:"longitude,omitempty"`
 	LastInspected  *time.Time `json:"last_inspected,omitempty"` // a date
+	// InputVersion is new whenever a screening input of the bridge changes: its geometry and
+	// loads, or any of its members' rows (sql/migrations/010_input_versions.sql). Read only.
+	InputVersion int64 `json:"-"`
 }
 
 // BridgeSummary is a bridge with what is stored about its members.
@@ -54,7 +57,7 @@ var bridgesTable = table{
 // bridgeColumns is the select list matching scanBridge.
 const bridgeColumns = `b.bridge_id, b.name, b.line, b.chainage_km, b.truss_type, b.span_m, b.panels, b.depth_m, b.deck,
 	b.end_posts, b.trusses, b.truss_share, b.tracks, b.dead_load_kn_per_m, b.year_built, b.latitude, b.longitude,
-	b.last_inspected`
+	b.last_inspected, b.input_version`
 
 func (b Bridge) values() []any {
 	return []any{b.BridgeID, b.Name, b.Line, b.ChainageKM, b.TrussType, b.SpanM, b.Panels, b.DepthM, b.Deck, b.EndPosts,
@@ -64,7 +67,7 @@ func (b Bridge) values() []any {
 func (b *Bridge) pointers() []any {
 	return []any{&b.BridgeID, &b.Name, &b.Line, &b.ChainageKM, &b.TrussType, &b.SpanM, &b.Panels, &b.DepthM, &b.Deck,
 		&b.EndPosts, &b.Trusses, &b.TrussShare, &b.Tracks, &b.DeadLoadKNPerM, &b.YearBuilt, &b.Latitude, &b.Longitude,
-		&b.LastInspected}
+		&b.LastInspected, &b.InputVersion}
 }
 
 // ErrNotFound is returned (wrapped) when a named row does not exist.
@@ -111,10 +114,22 @@ func (db *DB) BridgeSummaries(ctx context.Context) ([]BridgeSummary, error) {
 
 // PendingBridgesOf reads those of the bridges ids that are still pending in the run, in id
 // order, with the members of all of ids.
-func (db *DB) PendingBridgesOf(ctx context.Context, runID int64, ids []string) ([]Bridge, []Member, error) {
+//
+// Both reads see one snapshot (a read-only repeatable-read transaction): the members are
+// those of the bridges' rows as read, so each bridge's InputVersion names exactly the inputs
+// returned.
+func (db *DB) PendingBridgesOf(ctx context.Context, runID int64, ids []string) (bridges []Bridge, members []Member, err error) {
+	err = pgx.BeginTxFunc(ctx, db.Pool, pgx.TxOptions{IsoLevel: pgx.RepeatableRead, AccessMode: pgx.ReadOnly}, func(tx pgx.Tx) error {
+		bridges, members, err = pendingBridgesOf(ctx, tx, runID, ids)
+		return err
+	})
+	return bridges, members, err
+}
+
+func pendingBridgesOf(ctx context.Context, tx pgx.Tx, runID int64, ids []string) ([]Bridge, []Member, error) {
 	// r.bridge_id = ANY($2) as well as the join: a run just created may have no statistics,
 	// and then the planner may read all the run's bridges to join 50 of them.
-	rows, err := db.Pool.Query(ctx, "SELECT "+bridgeColumns+` FROM bridges b
+	rows, err := tx.Query(ctx, "SELECT "+bridgeColumns+` FROM bridges b
 		JOIN run_bridges r ON r.bridge_id = b.bridge_id AND r.run_id = $1 AND r.status = 'pending'
 			AND r.bridge_id = ANY($2)
 		WHERE b.bridge_id = ANY($2) ORDER BY b.bridge_id`, runID, ids)
@@ -128,7 +143,7 @@ func (db *DB) PendingBridgesOf(ctx context.Context, runID int64, ids []string) (
 	if err != nil {
 		return nil, nil, err
 	}
-	rows, err = db.Pool.Query(ctx, "SELECT "+memberColumns+" FROM members WHERE bridge_id = ANY($1)", ids)
+	rows, err = tx.Query(ctx, "SELECT "+memberColumns+" FROM members WHERE bridge_id = ANY($1)", ids)
 	if err != nil {
 		return nil, nil, err
 	}
@@ -139,45 +154,17 @@ func (db *DB) PendingBridgesOf(ctx context.Context, runID int64, ids []string) (
 	return bridges, members, nil
 }
 
-// EachBridge calls fn with every bridge of the inventory and its members, in bridge and
-// member order, reading them in one ordered pass with one bridge's members in memory at a
-// time: members is valid only during the call.
-func EachBridge(ctx context.Context, tx pgx.Tx, fn func(b Bridge, members []Member)) error {
-	rows, err := tx.Query(ctx, "SELECT "+bridgeColumns+`, m.member IS NOT NULL, coalesce(m.member, ''),
-		m.capacity_tension_kn, m.capacity_compression_kn, m.rating_factor, m.reference_train,
-		coalesce(m.condition_factor, 1)
-		FROM bridges b LEFT JOIN members m ON m.bridge_id = b.bridge_id ORDER BY b.bridge_id, m.member`)
+// InputVersions lists every bridge of the inventory with its input version, in id order.
+func InputVersions(ctx context.Context, tx pgx.Tx) (ids []string, versions []int64, err error) {
+	rows, err := tx.Query(ctx, "SELECT bridge_id, input_version FROM bridges ORDER BY bridge_id")
 	if err != nil {
-		return err
+		return nil, nil, err
 	}
-	defer rows.Close()
-	var cur Bridge
-	var members []Member
-	for rows.Next() {
-		var b Bridge
-		var m Member
-		var hasMember bool
-		dest := append(b.pointers(), &hasMember, &m.Member, &m.CapacityTensionKN, &m.CapacityCompressionKN,
-			&m.RatingFactor, &m.ReferenceTrain, &m.ConditionFactor)
-		if err := rows.Scan(dest...); err != nil {
-			return err
-		}
-		if b.BridgeID != cur.BridgeID {
-			if cur.BridgeID != "" {
-				fn(cur, members)
-			}
-			cur, members = b, members[:0]
-		}
-		if hasMember {
-			m.BridgeID = b.BridgeID
-			members = append(members, m)
-		}
-	}
-	if err := rows.Err(); err != nil {
-		return err
-	}
-	if cur.BridgeID != "" {
-		fn(cur, members)
-	}
-	return nil
+	var id string
+	var v int64
+	_, err = pgx.ForEachRow(rows, []any{&id, &v}, func() error {
+		ids, versions = append(ids, id), append(versions, v)
+		return nil
+	})
+	return ids, versions, err
 }

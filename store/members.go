@@ -79,10 +79,17 @@ func collectMembers(rows pgx.Rows) ([]Member, error) {
 	})
 }
 
-// ReferenceTrains lists the distinct reference trains that stored rating factors name.
+// ReferenceTrains lists the distinct reference trains that stored rating factors name. It
+// walks the index of reference trains (migration 010) one train at a time, a skip scan: a
+// handful of index probes however many members name them, where SELECT DISTINCT reads every
+// member (1.6 s at 100,000 bridges).
 func (db *DB) ReferenceTrains(ctx context.Context) ([]string, error) {
-	rows, err := db.Pool.Query(ctx, `SELECT DISTINCT reference_train FROM members
-		WHERE reference_train IS NOT NULL ORDER BY 1`)
+	rows, err := db.Pool.Query(ctx, `WITH RECURSIVE t (train) AS (
+			SELECT min(reference_train) FROM members WHERE reference_train IS NOT NULL
+			UNION ALL
+			SELECT (SELECT min(m.reference_train) FROM members m WHERE m.reference_train > t.train)
+			FROM t WHERE t.train IS NOT NULL)
+		SELECT train FROM t WHERE train IS NOT NULL ORDER BY train`)
 	if err != nil {
 		return nil, err
 	}
