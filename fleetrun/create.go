@@ -65,12 +65,14 @@ func (c *Client) CreateRun(ctx context.Context, nr NewRun) (int64, error) {
 		if err != nil {
 			return err
 		}
-		if err := store.AnalyzeRunBridges(ctx, tx); err != nil {
-			return err
-		}
 		pending, err := store.PendingBridgeIDs(ctx, tx, id)
 		if err != nil {
 			return err
+		}
+		if len(pending) >= analyzeFrom {
+			if err := store.AnalyzeRunBridges(ctx, tx); err != nil {
+				return err
+			}
 		}
 		if err := insertChunks(ctx, c.river, tx, id, pending, nr.ChunkSize); err != nil {
 			return err
@@ -82,6 +84,13 @@ func (c *Client) CreateRun(ctx context.Context, nr NewRun) (int64, error) {
 	}
 	return id, nil
 }
+
+// analyzeFrom is the number of bridges to screen from which a new run analyses run_bridges:
+// without statistics that know the run, the planner takes it for a handful of rows and reads
+// all its pending bridges to find a job's 50 (10 ms a job at 10,000 bridges). A run with
+// fewer new rows than this gains nothing from it, and ANALYZE samples 30,000 rows whatever
+// the run (0.1 to 0.3 s).
+const analyzeFrom = 1000
 
 // writeDelta writes the rows of a run based on base that differ from base's picture: a
 // pending row for each bridge whose input hash differs from its row there (or that has none,

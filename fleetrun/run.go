@@ -156,9 +156,12 @@ const stopTimeout = 30 * time.Second
 func (w *watch) toEnd(ctx context.Context, id int64) error {
 	// Progress counts from here: what the run had before this process started does not
 	// count toward its rate.
-	p0, err := w.db.Progress(ctx, id)
+	run, pending, err := w.look(ctx, id)
 	if err != nil {
 		return err
+	}
+	if run.Status == store.RunCompleted {
+		return nil // nothing to screen: a nightly run with nothing changed is complete at creation
 	}
 	start := time.Now()
 	if err := w.client.Start(context.WithoutCancel(ctx)); err != nil {
@@ -167,7 +170,7 @@ func (w *watch) toEnd(ctx context.Context, id int64) error {
 	if w.opt.Started != nil {
 		w.opt.Started()
 	}
-	status, err := w.wait(ctx, id, p0.Total-p0.Pending, start)
+	status, err := w.wait(ctx, id, run.BridgesTotal-pending, start)
 	stopCtx, cancel := context.WithTimeout(context.Background(), stopTimeout)
 	defer cancel()
 	if errors.Is(err, context.Canceled) {

@@ -93,25 +93,26 @@ func (db *DB) ranked(ctx context.Context, runID int64, limit int, only string) (
 func (db *DB) FlagTotals(ctx context.Context, runID int64) (members map[string]int, bridgesFlagged int, err error) {
 	// Each bridge's summary counts its members by flag: summing those reads one row a bridge
 	// instead of one a member.
-	rows, err := db.Pool.Query(ctx, `SELECT f, sum(n::int) FROM run_picture($1) r, jsonb_each_text(r.flag_counts) AS c(f, n)
-		GROUP BY f`, runID)
+	// One reading of the run's picture for both: a row per flag, and one with no flag (f
+	// NULL) for the bridges flagged.
+	rows, err := db.Pool.Query(ctx, `WITH p AS MATERIALIZED (SELECT flags, flag_counts FROM run_picture($1))
+		SELECT f, sum(n::int)::bigint FROM p, jsonb_each_text(p.flag_counts) AS c(f, n) GROUP BY f
+		UNION ALL
+		SELECT NULL, count(*) FROM p WHERE cardinality(p.flags) > 0`, runID)
 	if err != nil {
 		return nil, 0, err
 	}
 	members = map[string]int{}
-	for rows.Next() {
-		var f string
-		var n int
-		if err := rows.Scan(&f, &n); err != nil {
-			return nil, 0, err
+	var f *string
+	var n int
+	_, err = pgx.ForEachRow(rows, []any{&f, &n}, func() error {
+		if f == nil {
+			bridgesFlagged = n
+		} else {
+			members[*f] = n
 		}
-		members[f] = n
-	}
-	if err := rows.Err(); err != nil {
-		return nil, 0, err
-	}
-	err = db.Pool.QueryRow(ctx, `SELECT count(*) FROM run_picture($1) WHERE cardinality(flags) > 0`,
-		runID).Scan(&bridgesFlagged)
+		return nil
+	})
 	return members, bridgesFlagged, err
 }
 
@@ -174,19 +175,21 @@ type FailedBridge struct {
 
 // FailedBridges lists up to limit bridges a run could not screen, and how many there are.
 func (db *DB) FailedBridges(ctx context.Context, runID int64, limit int) ([]FailedBridge, int, error) {
-	var n int
-	if err := db.Pool.QueryRow(ctx, `SELECT count(*) FROM run_picture($1) WHERE status = 'failed'`, runID).Scan(&n); err != nil {
-		return nil, 0, err
-	}
-	rows, err := db.Pool.Query(ctx, `SELECT r.bridge_id, coalesce(b.name, ''), r.error FROM run_picture($1) r
-		LEFT JOIN bridges b ON b.bridge_id = r.bridge_id
-		WHERE r.status = 'failed' ORDER BY r.bridge_id LIMIT $2`, runID, limit)
+	// The count of all of them beside each of the first limit (a window is counted before
+	// the LIMIT): one reading of the run's picture.
+	rows, err := db.Pool.Query(ctx, `SELECT r.bridge_id, coalesce(b.name, ''), r.error, count(*) OVER ()
+		FROM run_picture($1) r LEFT JOIN bridges b ON b.bridge_id = r.bridge_id
+		WHERE r.status = 'failed' ORDER BY r.bridge_id LIMIT $2`, runID, max(limit, 1))
 	if err != nil {
 		return nil, 0, err
 	}
+	var n int
 	fs, err := pgx.CollectRows(rows, func(r pgx.CollectableRow) (FailedBridge, error) {
 		var f FailedBridge
-		return f, r.Scan(&f.BridgeID, &f.Name, &f.Error)
+		return f, r.Scan(&f.BridgeID, &f.Name, &f.Error, &n)
 	})
+	if limit < 1 {
+		fs = nil
+	}
 	return fs, n, err
 }
