@@ -88,3 +88,13 @@ func dropUnusedSets(ctx context.Context, tx pgx.Tx, sets []int64, n map[string]i
 	}
 	return nil
 }
+
+// AnalyzeResults renews the planner's statistics of the result tables and run_bridges. A
+// first run fills them with hundreds of thousands of rows; until the autovacuum has analysed
+// them the planner takes them for empty, and a reader that joins a run's picture to them (the
+// member-level priority list, say) may scan a table once per bridge. A run that screened many
+// bridges calls it as it ends.
+func (db *DB) AnalyzeResults(ctx context.Context) error {
+	_, err := db.Pool.Exec(ctx, "ANALYZE run_bridges, result_sets, member_results, member_assessments")
+	return err
+}
