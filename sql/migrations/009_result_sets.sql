@@ -126,26 +126,75 @@ $$;
 
 ---- create above / drop below ----
 
-DROP FUNCTION run_picture(bigint);
 DROP INDEX run_bridges_set;
 ALTER TABLE member_results RENAME TO member_results_new;
 ALTER TABLE member_assessments RENAME TO member_assessments_new;
-CREATE TABLE member_results AS
-    SELECT r.run_id, r.bridge_id, m.scenario, m.member, m.kind, m.dead_kn, m.live_max_kn, m.live_min_kn, m.impact,
-        m.rf_tension, m.rf_compression, m.basis, m.max_train, m.max_head_m, m.max_direction, m.max_from_m, m.max_to_m,
-        m.min_train, m.min_head_m, m.min_direction, m.min_from_m, m.min_to_m, m.max_count, m.min_count
-    FROM member_results_new m JOIN run_bridges r ON r.set_id = m.set_id;
-ALTER TABLE member_results ADD PRIMARY KEY (run_id, bridge_id, scenario, member);
-CREATE TABLE member_assessments AS
-    SELECT r.run_id, r.bridge_id, a.member, a.rf_existing, a.rf_proposed, a.sense_proposed, a.demand_increase, a.flags
-    FROM member_assessments_new a JOIN run_bridges r ON r.set_id = a.set_id;
-ALTER TABLE member_assessments ADD PRIMARY KEY (run_id, bridge_id, member);
+CREATE TABLE member_results (
+    run_id          bigint  NOT NULL,
+    bridge_id       text    NOT NULL,
+    scenario        text    NOT NULL,
+    member          text    NOT NULL,
+    kind            text    NOT NULL,
+    dead_kn         double precision NOT NULL,
+    live_max_kn     double precision NOT NULL,
+    live_min_kn     double precision NOT NULL,
+    impact          double precision NOT NULL,
+    rf_tension      double precision,
+    rf_compression  double precision,
+    basis           text    NOT NULL DEFAULT '',
+    max_train       text    NOT NULL DEFAULT '',
+    max_head_m      double precision,
+    max_direction   text    NOT NULL DEFAULT '',
+    max_from_m      double precision,
+    max_to_m        double precision,
+    min_train       text    NOT NULL DEFAULT '',
+    min_head_m      double precision,
+    min_direction   text    NOT NULL DEFAULT '',
+    min_from_m      double precision,
+    min_to_m        double precision,
+    max_count       integer,
+    min_count       integer,
+    PRIMARY KEY (run_id, bridge_id, scenario, member)
+);
+CREATE TABLE member_assessments (
+    run_id          bigint  NOT NULL,
+    bridge_id       text    NOT NULL,
+    member          text    NOT NULL,
+    rf_existing     double precision,
+    rf_proposed     double precision,
+    sense_proposed  text    NOT NULL DEFAULT '',
+    demand_increase double precision NOT NULL DEFAULT 0,
+    flags           text[]  NOT NULL DEFAULT '{}',
+    PRIMARY KEY (run_id, bridge_id, member)
+);
+-- Every run gets the rows of its picture again: a run that held only what changed is made
+-- whole from its base runs first.
+INSERT INTO run_bridges (run_id, bridge_id, input_hash, status, error, source_run_id, worst_member, rf_existing,
+    rf_proposed, demand_increase, headroom, flags, flag_counts, governing_train, governing_sense, governing_head_m,
+    governing_direction, governing_from_m, governing_to_m, screened_at, requeues, set_id)
+SELECT r.id, p.bridge_id, p.input_hash, 'carried', p.error, coalesce(p.source_run_id, p.run_id), p.worst_member,
+    p.rf_existing, p.rf_proposed, p.demand_increase, p.headroom, p.flags, p.flag_counts, p.governing_train,
+    p.governing_sense, p.governing_head_m, p.governing_direction, p.governing_from_m, p.governing_to_m,
+    p.screened_at, p.requeues, p.set_id
+FROM runs r CROSS JOIN LATERAL run_picture(r.id) p
+WHERE NOT r.complete AND p.run_id <> r.id;
+DELETE FROM run_bridges WHERE status = 'removed';
+INSERT INTO member_results (run_id, bridge_id, scenario, member, kind, dead_kn, live_max_kn, live_min_kn, impact,
+    rf_tension, rf_compression, basis, max_train, max_head_m, max_direction, max_from_m, max_to_m,
+    min_train, min_head_m, min_direction, min_from_m, min_to_m, max_count, min_count)
+SELECT r.run_id, r.bridge_id, m.scenario, m.member, m.kind, m.dead_kn, m.live_max_kn, m.live_min_kn, m.impact,
+    m.rf_tension, m.rf_compression, m.basis, m.max_train, m.max_head_m, m.max_direction, m.max_from_m, m.max_to_m,
+    m.min_train, m.min_head_m, m.min_direction, m.min_from_m, m.min_to_m, m.max_count, m.min_count
+FROM member_results_new m JOIN run_bridges r ON r.set_id = m.set_id;
+INSERT INTO member_assessments (run_id, bridge_id, member, rf_existing, rf_proposed, sense_proposed, demand_increase, flags)
+SELECT r.run_id, r.bridge_id, a.member, a.rf_existing, a.rf_proposed, a.sense_proposed, a.demand_increase, a.flags
+FROM member_assessments_new a JOIN run_bridges r ON r.set_id = a.set_id;
 DROP TABLE member_results_new;
 DROP TABLE member_assessments_new;
-DELETE FROM run_bridges WHERE status = 'removed';
 ALTER TABLE run_bridges DROP CONSTRAINT run_bridges_status_check;
 ALTER TABLE run_bridges ADD CONSTRAINT run_bridges_status_check
     CHECK (status IN ('pending', 'done', 'failed', 'carried'));
 ALTER TABLE run_bridges DROP COLUMN set_id;
 ALTER TABLE runs DROP COLUMN complete;
+DROP FUNCTION run_picture(bigint);
 DROP TABLE result_sets;
