@@ -28,6 +28,10 @@ type Retention struct {
 	DryRun bool
 }
 
+// PassedOn is the key of Pruned.Rows that counts the rows a pruned run passed on to the runs
+// based on it, rather than removed.
+const PassedOn = "passed on"
+
 // Pruned is what a prune removed: the runs, and the rows of each run table and of River's
 // jobs.
 type Pruned struct {
@@ -130,7 +134,7 @@ func (db *DB) deleteRun(ctx context.Context, id int64, counts map[string]int64) 
 			if err != nil {
 				return fmt.Errorf("passing run %d's results on to run %d: %w", id, d, err)
 			}
-			n["carried into later runs"] += carried
+			n[PassedOn] += carried
 			if _, err := tx.Exec(ctx, "DELETE FROM run_bridges WHERE run_id = $1 AND status = 'removed'", d); err != nil {
 				return err
 			}

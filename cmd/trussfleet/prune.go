@@ -64,20 +64,25 @@ func pruneRuns(ctx context.Context, w io.Writer, db *store.DB, r store.Retention
 			fmt.Fprintln(w, "prune: no run would be removed")
 			return nil
 		}
-		fmt.Fprintf(w, "prune: would remove %d runs: %s\n", len(p.Runs), runList(p.Runs))
+		fmt.Fprintf(w, "prune: would remove %s: %s\n", plural(len(p.Runs), "run"), runList(p.Runs))
 		return nil
 	}
 	if len(p.Runs) > 0 {
 		tables := make([]string, 0, len(p.Rows))
 		for t := range p.Rows {
-			tables = append(tables, t)
+			if t != store.PassedOn {
+				tables = append(tables, t)
+			}
 		}
 		slices.Sort(tables)
 		var rows []string
 		for _, t := range tables {
 			rows = append(rows, fmt.Sprintf("%s %d", t, p.Rows[t]))
 		}
-		fmt.Fprintf(w, "prune: removed %d runs (%s); rows removed: %s\n", len(p.Runs), runList(p.Runs), strings.Join(rows, ", "))
+		fmt.Fprintf(w, "prune: removed %s (%s); rows removed: %s\n", plural(len(p.Runs), "run"), runList(p.Runs), strings.Join(rows, ", "))
+		if n := p.Rows[store.PassedOn]; n > 0 {
+			fmt.Fprintf(w, "prune: %d bridge rows passed on (as carried) to the runs based on the removed ones\n", n)
+		}
 	} else if err == nil {
 		fmt.Fprintln(w, "prune: no run to remove")
 	}
@@ -116,6 +121,14 @@ func runList(ids []int64) string {
 		return strings.Join(s[:6], ", ") + ", …, " + strings.Join(s[len(s)-3:], ", ")
 	}
 	return strings.Join(s, ", ")
+}
+
+// plural is "1 run", "2 runs".
+func plural(n int, noun string) string {
+	if n == 1 {
+		return "1 " + noun
+	}
+	return fmt.Sprintf("%d %ss", n, noun)
 }
 
 func mib(b int64) string { return fmt.Sprintf("%.1f MiB", float64(b)/(1<<20)) }
