@@ -5,7 +5,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"log/slog"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -14,7 +13,6 @@ import (
 
 	"github.com/spf13/cobra"
 	"github.com/trussfleet/trussfleet/cmd/trussfleet-bench/internal/benchdb"
-	"github.com/trussfleet/trussfleet/store"
 )
 
 // nightlyOptions are the flags of `nightly`.
@@ -65,40 +63,12 @@ func benchNightly(ctx context.Context, out io.Writer, cfgFile string, dbc databa
 	if o.bridges < 1 || o.nights < 0 || !(o.change > 0 && o.change <= 1) || o.keepRuns < 0 {
 		return fmt.Errorf("need --bridges >= 1, --nights >= 0, 0 < --change <= 1, --keep-runs >= 0")
 	}
-	dir, err := filepath.Abs(filepath.Join(o.dir, "nightly-"+strconv.Itoa(o.bridges)))
-	if err != nil {
-		return err
-	}
-	if err := os.MkdirAll(dir, 0o755); err != nil {
-		return err
-	}
-	if dbc.url == "" && dbc.dataDir == "" {
-		dbc.dataDir = filepath.Join(dir, "pg")
-	}
-	exe, err := findTrussfleet(ctx, o.trussfleet, dir, out)
-	if err != nil {
-		return err
-	}
-	tf := trussfleet{exe: exe, cfgFile: cfgFile, db: dbc}
-	fleet := filepath.Join(dir, "fleet")
-	if _, err := os.Stat(filepath.Join(fleet, "members.csv")); err != nil {
-		if err := tf.run(ctx, out, "fleet", "generate", "--bridges", strconv.Itoa(o.bridges),
-			"--seed", strconv.FormatUint(o.seed, 10), "--out", fleet); err != nil {
-			return err
-		}
-	}
-	if err := importFleet(ctx, tf, dir, fleet, out); err != nil {
-		return err
-	}
-	db, err := store.Open(ctx, store.Options{URL: dbc.url, DataDir: dbc.dataDir, SearchPath: os.Getenv("PATH"),
-		Logf: func(format string, args ...any) { slog.Info(fmt.Sprintf(format, args...)) }})
+	dir, tf, db, err := prepareFleet(ctx, out, cfgFile, dbc, filepath.Join(o.dir, "nightly-"+strconv.Itoa(o.bridges)),
+		o.bridges, o.seed, o.trussfleet)
 	if err != nil {
 		return err
 	}
 	defer db.Close()
-	if _, err := db.Migrate(ctx); err != nil {
-		return err
-	}
 	// Start from no runs, so that the first run is a full one on an empty result store.
 	for {
 		r, err := db.LatestRun(ctx, false)

@@ -76,42 +76,12 @@ func benchRun(ctx context.Context, out io.Writer, cfgFile string, dbc database, 
 	if o.bridges < 1 {
 		return fmt.Errorf("--bridges must be at least 1, got %d", o.bridges)
 	}
-	dir, err := filepath.Abs(filepath.Join(o.dir, "n-"+strconv.Itoa(o.bridges)))
-	if err != nil {
-		return err
-	}
-	if err := os.MkdirAll(dir, 0o755); err != nil {
-		return err
-	}
-	if dbc.url == "" && dbc.dataDir == "" {
-		dbc.dataDir = filepath.Join(dir, "pg")
-	}
-	exe, err := findTrussfleet(ctx, o.trussfleet, dir, out)
-	if err != nil {
-		return err
-	}
-	tf := trussfleet{exe: exe, cfgFile: cfgFile, db: dbc}
-
-	fleet := filepath.Join(dir, "fleet")
-	if _, err := os.Stat(filepath.Join(fleet, "members.csv")); err != nil {
-		if err := tf.run(ctx, out, "fleet", "generate", "--bridges", strconv.Itoa(o.bridges),
-			"--seed", strconv.FormatUint(o.seed, 10), "--out", fleet); err != nil {
-			return err
-		}
-	}
-	if err := importFleet(ctx, tf, dir, fleet, out); err != nil {
-		return err
-	}
-
-	db, err := store.Open(ctx, store.Options{URL: dbc.url, DataDir: dbc.dataDir, SearchPath: os.Getenv("PATH"),
-		Logf: func(format string, args ...any) { slog.Info(fmt.Sprintf(format, args...)) }})
+	dir, tf, db, err := prepareFleet(ctx, out, cfgFile, dbc, filepath.Join(o.dir, "n-"+strconv.Itoa(o.bridges)),
+		o.bridges, o.seed, o.trussfleet)
 	if err != nil {
 		return err
 	}
 	defer db.Close()
-	if _, err := db.Migrate(ctx); err != nil {
-		return err
-	}
 	members, err := benchdb.CountMembers(ctx, db.Pool)
 	if err != nil {
 		return err
@@ -217,6 +187,48 @@ func benchRun(ctx context.Context, out io.Writer, cfgFile string, dbc database, 
 	fmt.Fprintln(out)
 	fmt.Fprintf(out, "ratio:       %.2f (screen wall time / COPY floor)\n", wall/floor.Elapsed.Seconds())
 	return nil
+}
+
+// prepareFleet readies a benchmark's folder dir: the trussfleet to measure, an invented
+// fleet of the given size (generated unless the folder holds one), imported with the example
+// trains into the configured database or one of its own (dir/pg), migrated and open.
+func prepareFleet(ctx context.Context, out io.Writer, cfgFile string, dbc database, dir string, bridges int, seed uint64,
+	named string) (string, trussfleet, *store.DB, error) {
+	dir, err := filepath.Abs(dir)
+	if err != nil {
+		return "", trussfleet{}, nil, err
+	}
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return "", trussfleet{}, nil, err
+	}
+	if dbc.url == "" && dbc.dataDir == "" {
+		dbc.dataDir = filepath.Join(dir, "pg")
+	}
+	exe, err := findTrussfleet(ctx, named, dir, out)
+	if err != nil {
+		return "", trussfleet{}, nil, err
+	}
+	tf := trussfleet{exe: exe, cfgFile: cfgFile, db: dbc}
+	fleet := filepath.Join(dir, "fleet")
+	if _, err := os.Stat(filepath.Join(fleet, "members.csv")); err != nil {
+		if err := tf.run(ctx, out, "fleet", "generate", "--bridges", strconv.Itoa(bridges),
+			"--seed", strconv.FormatUint(seed, 10), "--out", fleet); err != nil {
+			return "", tf, nil, err
+		}
+	}
+	if err := importFleet(ctx, tf, dir, fleet, out); err != nil {
+		return "", tf, nil, err
+	}
+	db, err := store.Open(ctx, store.Options{URL: dbc.url, DataDir: dbc.dataDir, SearchPath: os.Getenv("PATH"),
+		Logf: func(format string, args ...any) { slog.Info(fmt.Sprintf(format, args...)) }})
+	if err != nil {
+		return "", tf, nil, err
+	}
+	if _, err := db.Migrate(ctx); err != nil {
+		db.Close()
+		return "", tf, nil, err
+	}
+	return dir, tf, db, nil
 }
 
 // importFleet imports the example trains and the fleet with trussfleet import; a second

@@ -22,20 +22,7 @@ import (
 func TestChangedRunEqualsFullRun(t *testing.T) {
 	t.Parallel()
 	ctx := context.Background()
-	url := pgtest.URL(t)
-	cfgPath, _ := faultConfig(t, url)
-	db, err := store.Open(ctx, store.Options{URL: url})
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer db.Close()
-	seedDemoFleet(t, db, 60)
-	mustRun := func(args ...string) {
-		t.Helper()
-		if out, err := runCmd(t, append([]string{"--config", cfgPath}, args...)...); err != nil {
-			t.Fatalf("%v: %v\n%s", args, err, out)
-		}
-	}
+	db, _, mustRun := fleetWithCommands(t, 60)
 	mustRun("screen")
 	bridges, err := db.Bridges(ctx)
 	if err != nil {
@@ -99,20 +86,7 @@ func TestChangedRunEqualsFullRun(t *testing.T) {
 func TestKilledPrune(t *testing.T) {
 	t.Parallel()
 	ctx := context.Background()
-	url := pgtest.URL(t)
-	cfgPath, _ := faultConfig(t, url)
-	db, err := store.Open(ctx, store.Options{URL: url})
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer db.Close()
-	seedDemoFleet(t, db, 150)
-	mustRun := func(args ...string) {
-		t.Helper()
-		if out, err := runCmd(t, append([]string{"--config", cfgPath}, args...)...); err != nil {
-			t.Fatalf("%v: %v\n%s", args, err, out)
-		}
-	}
+	db, cfgPath, mustRun := fleetWithCommands(t, 150)
 	mustRun("screen")
 	for night := range 7 {
 		if _, err := db.Pool.Exec(ctx, `UPDATE members SET capacity_tension_kn = capacity_tension_kn * 0.95
@@ -205,6 +179,26 @@ func TestKilledPrune(t *testing.T) {
 	last := runs[0].ID // newest first
 	if len(left) != 1 || left[0].ID != last || read(last) != before[last] {
 		t.Errorf("after the last prune: %d runs left, want only run %d reading as before", len(left), last)
+	}
+}
+
+// fleetWithCommands gives a fresh database holding an invented fleet of n bridges, its
+// config file, and a runner of trussfleet commands on it that fails the test on an error.
+func fleetWithCommands(t *testing.T, n int) (*store.DB, string, func(args ...string)) {
+	t.Helper()
+	url := pgtest.URL(t)
+	cfgPath, _ := faultConfig(t, url)
+	db, err := store.Open(context.Background(), store.Options{URL: url})
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(db.Close)
+	seedDemoFleet(t, db, n)
+	return db, cfgPath, func(args ...string) {
+		t.Helper()
+		if out, err := runCmd(t, append([]string{"--config", cfgPath}, args...)...); err != nil {
+			t.Fatalf("%v: %v\n%s", args, err, out)
+		}
 	}
 }
 
