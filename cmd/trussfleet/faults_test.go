@@ -216,31 +216,8 @@ func TestKilledWorkers(t *testing.T) {
 func TestDatabaseRestart(t *testing.T) {
 	t.Parallel()
 	ctx := context.Background()
-	dir, err := os.MkdirTemp("", "tf-restart-")
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer os.RemoveAll(dir)
-	srv, err := pgserver.New(pgserver.Options{DataDir: filepath.Join(dir, "pg"), SearchPath: os.Getenv("PATH")})
-	if err != nil {
-		t.Fatal(err)
-	}
-	if err := srv.Start(ctx); err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatalf("no PostgreSQL server: %v", err)
-		}
-		t.Skipf("no PostgreSQL server: %v", err)
-	}
-	defer srv.Stop(context.Background())
+	srv, db := ownServer(t)
 	url := srv.URL(pgserver.Database)
-	db, err := store.Open(ctx, store.Options{URL: url})
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer db.Close()
-	if _, err := db.Migrate(ctx); err != nil {
-		t.Fatal(err)
-	}
 	_, cfg := faultConfig(t, url)
 	const n = 600
 	seedDemoFleet(t, db, n)
