@@ -109,6 +109,10 @@ func NewLines(x []float64, ordinates [][]float64) (*Lines, error) {
 	if len(ordinates) == 0 {
 		return nil, errors.New("influence lines: no members")
 	}
+	// Members and their kinks are indexed in 32 bits (the mirror table, the kink lists).
+	if float64(n)*float64(len(ordinates)) > math.MaxInt32 {
+		return nil, fmt.Errorf("influence lines: %d members at %d panel points are more than %d ordinates, the limit", len(ordinates), n, math.MaxInt32)
+	}
 	for i, o := range ordinates {
 		if len(o) != n {
 			return nil, fmt.Errorf("influence lines: member %d has %d ordinates for %d panel points", i, len(o), n)
