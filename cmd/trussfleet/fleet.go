@@ -36,7 +36,7 @@ func newFleetCmd(a *app) *cobra.Command {
 			opt := fleetgen.Defaults(n)
 			opt.Seed, opt.Reference = seed, refTrain
 			return writeFleet(opt, out, func(b, m string) {
-				fmt.Fprintf(cmd.OutOrStdout(), "wrote %d invented bridges: %s, %s\n", n, b, m)
+				fmt.Fprintf(cmd.OutOrStdout(), "wrote %s: %s, %s\n", plural(n, "invented bridge"), b, m)
 			})
 		},
 	}

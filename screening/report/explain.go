@@ -24,10 +24,12 @@ func Explain(w io.Writer, run Run, b Bridge, member string) error {
 	if b.Row.Status == "failed" {
 		return fmt.Errorf("bridge %s was not screened in run %d: %s", safetext.Terminal(b.Row.BridgeID), run.ID, safetext.Terminal(b.Row.Error))
 	}
+	// Member labels are matched regardless of case, as the importers match them (l2-l3 is
+	// L2-L3); bridge ids exactly.
 	idx := -1
 	for i, m := range b.Members {
-		if m.Label == member {
-			idx = i
+		if strings.EqualFold(m.Label, member) {
+			idx, member = i, m.Label
 		}
 	}
 	t, err := truss.Build(b.Truss)

@@ -67,6 +67,13 @@ func TestExplain(t *testing.T) {
 		t.Error("a flagged member's explanation gives no reason")
 	}
 
+	// Member labels are matched regardless of case (as the importers match them): u1-l2 is
+	// U1-L2, explained word for word the same.
+	var lower strings.Builder
+	if err := Explain(&lower, f.Run, b, "u1-l2"); err != nil || lower.String() != out {
+		t.Errorf("explain u1-l2: %v; differs from U1-L2's explanation: %v", err, lower.String() != out)
+	}
+
 	err := Explain(&sb, f.Run, b, "U9-L9")
 	if err == nil || !strings.Contains(err.Error(), `"U9-L9"`) || !strings.Contains(err.Error(), "U1-L2") {
 		t.Errorf("unknown member: got %v, want an error naming it and the members", err)
