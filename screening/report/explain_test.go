@@ -6,6 +6,9 @@ import (
 	"regexp"
 	"strings"
 	"testing"
+
+	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/traffic"
 )
 
 func TestExplain(t *testing.T) {
@@ -87,4 +90,50 @@ func (b Bridge) indexOf(label string) int {
 		}
 	}
 	return -1
+}
+
+// TestExplainOnePlacement: an extreme that several placements reach (another count of the
+// long freight consist, the mirror image on the symmetric Pratt) is shown at one placement:
+// the governing line, the governing train's row in the table of trains and the loads summed
+// below it all stand the train where the run did (its stored placement), which gives the
+// stored force (reference: the loads at that placement summed by placeTrain, the influence
+// line read by interpolation).
+func TestExplainOnePlacement(t *testing.T) {
+	f := screenFleet(t, []invented{pratt48(t, "NER-90001", "Tarnbeck Viaduct", 0.95)})
+	b := f.Bridges["NER-90001"]
+	gov := regexp.MustCompile(`(?m)^  governing (tension|compression): (\S+) kN, (.+?), ((?:left-to-right|right-to-left), front at .+)$`)
+	checked := 0
+	for _, m := range b.Members {
+		var sb strings.Builder
+		if err := Explain(&sb, f.Run, b, m.Label); err != nil {
+			t.Fatal(err)
+		}
+		out := sb.String()
+		for _, g := range gov.FindAllStringSubmatch(out, -1) {
+			train, words := g[3], g[4]
+			// The train's row lists its max and min with their placements, tab-aligned.
+			row := regexp.MustCompile(`(?m)^  ` + regexp.QuoteMeta(train) + `\s.*$`).FindString(out)
+			if !strings.Contains(row, words) {
+				t.Errorf("%s governing %s: %q, but the row of %s reads %q", m.Label, g[1], words, train, row)
+			}
+			checked++
+		}
+		// Trains of axles only: the store keeps all of their placement.
+		for _, sc := range []Scenario{m.Existing, m.Proposed} {
+			for _, e := range []struct {
+				stored envelope.Extreme
+				tr     *traffic.Train
+			}{{sc.Max, sc.MaxTrain}, {sc.Min, sc.MinTrain}} {
+				if !e.stored.Loaded || e.tr == nil || e.tr.Uniform != nil || len(e.tr.Parts) > 0 {
+					continue
+				}
+				if w := placementWords(e.stored, e.tr); !strings.Contains(out, w) {
+					t.Errorf("%s: the run's placement %q of %s is not shown", m.Label, w, e.stored.Train)
+				}
+			}
+		}
+	}
+	if checked == 0 {
+		t.Fatal("no governing placement found in the explanations")
+	}
 }
