@@ -121,3 +121,23 @@ func TestTooLargeRefused(t *testing.T) {
 		}
 	}
 }
+
+// BenchmarkLongConsistWithParts: a locomotive and 1 to 40,000 wagons with a part over the
+// locomotive on a 20 m span, swept only up to the count beyond which more wagons change
+// nothing (the full sweep of every count took 32 s).
+func BenchmarkLongConsistWithParts(b *testing.B) {
+	x, _, ord := prattLines(20, 4, 4)
+	loco := traffic.Vehicle{Name: "loco", LengthM: 18, Axles: []traffic.Axle{{AtM: 2, LoadKN: 220}, {AtM: 4, LoadKN: 220}, {AtM: 14, LoadKN: 220}, {AtM: 16, LoadKN: 220}}}
+	wagon := traffic.Vehicle{Name: "wagon", LengthM: 12, Axles: []traffic.Axle{{AtM: 1.5, LoadKN: 200}, {AtM: 3.3, LoadKN: 200}, {AtM: 8.7, LoadKN: 200}, {AtM: 10.5, LoadKN: 200}}}
+	tr := &traffic.Train{Name: "long", Consist: []traffic.Group{{Vehicle: loco, Min: 1, Max: 1}, {Vehicle: wagon, Min: 1, Max: 40000}},
+		Parts: []traffic.Part{{FromM: 0, ToM: 18, QKNPerM: 30, Mode: traffic.Whole}}}
+	l, ld := prepared(b, x, ord, tr)
+	var c Calculator
+	var out []Extremes
+	for b.Loop() {
+		var err error
+		if out, err = c.Envelope(l, ld, Options{}, out); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
