@@ -141,3 +141,28 @@ func BenchmarkLongConsistWithParts(b *testing.B) {
 		}
 	}
 }
+
+// TestLinesTooLargeRefused: lines whose refined grid could need more entries than 32-bit
+// indexes hold are refused with the limit named, and lines just within it are accepted.
+// Reference: the worst case (n + m(n-1)) m, one zero crossing per member and panel, worked
+// by hand: 50,000 members on 2 points need 2,500,100,000 > 2,147,483,647; 40,000 need
+// 1,600,080,000.
+func TestLinesTooLargeRefused(t *testing.T) {
+	x := []float64{0, 10}
+	for _, c := range []struct {
+		members int
+		ok      bool
+	}{{40000, true}, {50000, false}} {
+		ord := make([][]float64, c.members)
+		for i := range ord {
+			ord[i] = []float64{0, 0}
+		}
+		_, err := NewLines(x, ord)
+		if c.ok && err != nil {
+			t.Errorf("%d members: %v", c.members, err)
+		}
+		if !c.ok && (err == nil || !strings.Contains(err.Error(), "2147483647")) {
+			t.Errorf("%d members: got %v, want a refusal naming the limit", c.members, err)
+		}
+	}
+}
