@@ -146,10 +146,10 @@ type sweptTrain struct {
 }
 
 // sweep is the envelope of one train over the current bridge's lines, computed once.
-func (w *Screener) sweep(l *envelope.Lines, ld *envelope.Load, opt envelope.Options) []envelope.Extremes {
+func (w *Screener) sweep(l *envelope.Lines, ld *envelope.Load, opt envelope.Options) ([]envelope.Extremes, error) {
 	for _, s := range w.swept {
 		if s.ld == ld {
-			return s.ext
+			return s.ext, nil
 		}
 	}
 	k := len(w.swept)
@@ -159,8 +159,13 @@ func (w *Screener) sweep(l *envelope.Lines, ld *envelope.Load, opt envelope.Opti
 		w.swept = append(w.swept, sweptTrain{})
 	}
 	s := &w.swept[k]
-	s.ld, s.ext = ld, w.calc.Envelope(l, ld, opt, s.ext[:0])
-	return s.ext
+	ext, err := w.calc.Envelope(l, ld, opt, s.ext[:0])
+	if err != nil {
+		w.swept = w.swept[:k]
+		return nil, err
+	}
+	s.ld, s.ext = ld, ext
+	return s.ext, nil
 }
 
 // ScreenBridge screens one bridge with a fresh Screener.
@@ -263,7 +268,10 @@ func (w *Screener) scenarioEnvelope(l *envelope.Lines, trains []*envelope.Load, 
 	out := make([]envelope.Extremes, l.Members())
 	opt := envelope.Options{Share: share}
 	for k, ld := range trains {
-		ext := w.sweep(l, ld, opt)
+		ext, err := w.sweep(l, ld, opt)
+		if err != nil {
+			return nil, err
+		}
 		if k == 0 {
 			copy(out, ext)
 			continue

@@ -85,6 +85,17 @@ func (db *DB) Bridges(ctx context.Context) ([]Bridge, error) {
 	})
 }
 
+// BridgeIDsFolded returns the bridge ids that equal id but for case (id itself left out), at
+// most five: bridge ids are matched exactly, and a command that finds no bridge names these
+// as what the user may have meant.
+func (db *DB) BridgeIDsFolded(ctx context.Context, id string) ([]string, error) {
+	rows, err := db.Pool.Query(ctx, "SELECT bridge_id FROM bridges WHERE lower(bridge_id) = lower($1) AND bridge_id <> $1 ORDER BY bridge_id LIMIT 5", id)
+	if err != nil {
+		return nil, fmt.Errorf("looking up bridge ids like %q: %w", id, err)
+	}
+	return pgx.CollectRows(rows, pgx.RowTo[string])
+}
+
 // Bridge returns one bridge by its asset key.
 func (db *DB) Bridge(ctx context.Context, bridgeID string) (Bridge, error) {
 	var b Bridge

@@ -66,7 +66,7 @@ func bridgesTable(w io.Writer, bs []store.BridgeSummary) error {
 	if err := tw.Flush(); err != nil {
 		return err
 	}
-	fmt.Fprintf(w, "%d bridges\n", len(bs))
+	fmt.Fprintln(w, plural(len(bs), "bridge"))
 	printCaution(w)
 	return nil
 }

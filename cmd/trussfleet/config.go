@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"os"
+	"path/filepath"
 	"runtime"
 	"strconv"
 	"strings"
@@ -102,6 +103,31 @@ func setDefaults(v *viper.Viper) {
 	v.SetDefault("retention.vacuum", true)
 }
 
+// findConfigFile is the configuration file used when --config names none: the first that
+// exists of ./trussfleet.yaml, $XDG_CONFIG_HOME/trussfleet/trussfleet.yaml (when
+// XDG_CONFIG_HOME is set, else ~/.config/trussfleet/trussfleet.yaml); "" for none.
+func findConfigFile() string {
+	for _, p := range configSearchPath() {
+		if st, err := os.Stat(p); err == nil && !st.IsDir() {
+			return p
+		}
+	}
+	return ""
+}
+
+// configSearchPath lists the places findConfigFile looks, in order.
+func configSearchPath() []string {
+	out := []string{"trussfleet.yaml"}
+	// The XDG base directory specification ignores a relative XDG_CONFIG_HOME.
+	if d := os.Getenv("XDG_CONFIG_HOME"); d != "" && filepath.IsAbs(d) {
+		return append(out, filepath.Join(d, "trussfleet", "trussfleet.yaml"))
+	}
+	if home, err := os.UserHomeDir(); err == nil {
+		out = append(out, filepath.Join(home, ".config", "trussfleet", "trussfleet.yaml"))
+	}
+	return out
+}
+
 // loadConfig resolves flags > TRUSSFLEET_* environment > config file > defaults, once.
 func loadConfig(file string, flags *pflag.FlagSet) (Config, error) {
 	v := viper.New()
@@ -110,9 +136,7 @@ func loadConfig(file string, flags *pflag.FlagSet) (Config, error) {
 	v.SetEnvKeyReplacer(strings.NewReplacer(".", "_"))
 	v.AutomaticEnv()
 	if file == "" {
-		if _, err := os.Stat("trussfleet.yaml"); err == nil {
-			file = "trussfleet.yaml"
-		}
+		file = findConfigFile()
 	}
 	if file != "" {
 		v.SetConfigFile(file)

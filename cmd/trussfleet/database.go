@@ -7,6 +7,7 @@ import (
 	"os"
 	"path/filepath"
 
+	"github.com/trussfleet/trussfleet/internal/safetext"
 	"github.com/trussfleet/trussfleet/store"
 )
 
@@ -47,11 +48,36 @@ func (a *app) openDatabase(ctx context.Context) (*store.DB, error) {
 	if err != nil {
 		return nil, err
 	}
+	a.sayDatabase(opt)
 	if _, err := db.Migrate(ctx); err != nil {
 		db.Close()
 		return nil, err
 	}
 	return db, nil
+}
+
+// sayDatabase tells, once per command on standard error, which database the command opened
+// (a URL without its password, or the embedded server's data directory) and from which
+// configuration file, so that a command run from another folder cannot use another database
+// unnoticed. Standard output stays the command's own.
+func (a *app) sayDatabase(opt store.Options) {
+	if a.saidDatabase || a.stderr == nil {
+		return
+	}
+	a.saidDatabase = true
+	fmt.Fprintln(a.stderr, safetext.TerminalLines(databaseNote(opt, a.cfgUsed)))
+}
+
+// databaseNote is sayDatabase's line.
+func databaseNote(opt store.Options, cfgFile string) string {
+	s := "database: embedded, " + opt.DataDir
+	if opt.URL != "" {
+		s = "database: " + store.RedactConnString(opt.URL)
+	}
+	if cfgFile != "" {
+		s += " (configuration " + cfgFile + ")"
+	}
+	return s
 }
 
 // withDatabase opens the database for a command, runs f, and closes it.

@@ -66,6 +66,7 @@ database start it; it keeps running for the next command until 'trussfleet db st
 					return err
 				}
 				defer db.Close()
+				a.sayDatabase(opt)
 				applied, err := db.Migrate(cmd.Context())
 				for _, m := range applied {
 					fmt.Fprintln(cmd.OutOrStdout(), "applied", m)
@@ -145,6 +146,7 @@ func (a *app) dbStatus(ctx context.Context, w io.Writer) error {
 		return err
 	}
 	defer db.Close()
+	a.sayDatabase(opt)
 	cur, latest, err := db.SchemaVersion(ctx)
 	if err != nil {
 		return err

@@ -76,14 +76,14 @@ Running it again re-imports (nothing changes) and screens again as a new run.`,
 					return err
 				}
 				for _, p := range paths {
-					fmt.Fprintln(out, "Wrote", p)
+					fmt.Fprintln(out, "wrote", p)
 				}
 			}
 			site := filepath.Join(a.cfg.Output, "report")
 			if err := writeReport(ctx, db, run.ID, site); err != nil {
 				return err
 			}
-			fmt.Fprintf(out, "Wrote %s (open it in a browser)\n", filepath.Join(site, "index.html"))
+			fmt.Fprintf(out, "wrote %s (open it in a browser)\n", filepath.Join(site, "index.html"))
 			return screenErr
 		},
 	}

@@ -147,6 +147,13 @@ func TestEndToEnd(t *testing.T) {
 	if err != nil || !strings.Contains(out, "+360.0") || !strings.Contains(out, "300.0") || !strings.Contains(out, "0.80") || !strings.Contains(out, "CAUTION") {
 		t.Errorf("explain: %v\n%s", err, out)
 	}
+	// Member labels regardless of case; bridge ids exactly, with a hint at the id meant.
+	if out2, err := runCmd(t, "--database-url", url, "--config", cfg, "explain", "T-1", "l2-l3"); err != nil || out2 != out {
+		t.Errorf("explain T-1 l2-l3: %v; same as L2-L3: %v", err, out2 == out)
+	}
+	if _, err := runCmd(t, "--database-url", url, "--config", cfg, "explain", "t-1", "L2-L3"); err == nil || !strings.Contains(err.Error(), "did you mean T-1?") {
+		t.Errorf("explain t-1: got %v, want not found with a hint at T-1", err)
+	}
 	site := filepath.Join(dir, "report")
 	if out, err := runCmd(t, "--database-url", url, "--config", cfg, "report", "--out", site); err != nil {
 		t.Errorf("report: %v\n%s", err, out)

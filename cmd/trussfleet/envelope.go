@@ -75,7 +75,10 @@ func newEnvelopeCmd(a *app) *cobra.Command {
 					return fmt.Errorf("--train %s: %w", spec, err)
 				}
 				names = append(names, tr.Name)
-				one = calc.Envelope(lines, ld, opt, one)
+				one, err = calc.Envelope(lines, ld, opt, one)
+				if err != nil {
+					return fmt.Errorf("--train %s: %w", spec, err)
+				}
 				if all == nil {
 					all = append([]envelope.Extremes(nil), one...)
 				} else {

@@ -11,16 +11,25 @@ import (
 	"testing"
 )
 
-// runCmd executes the trussfleet command line and returns what it printed.
+// runCmd executes the trussfleet command line and returns what it printed on standard
+// output.
 func runCmd(t *testing.T, args ...string) (string, error) {
 	t.Helper()
+	stdout, _, err := runCmdErr(t, args...)
+	return stdout, err
+}
+
+// runCmdErr executes the trussfleet command line and returns what it printed on standard
+// output and on standard error.
+func runCmdErr(t *testing.T, args ...string) (stdout, stderr string, err error) {
+	t.Helper()
 	root := newRootCmd()
-	var out bytes.Buffer
+	var out, errOut bytes.Buffer
 	root.SetOut(&out)
-	root.SetErr(&out)
+	root.SetErr(&errOut)
 	root.SetArgs(args)
-	err := root.ExecuteContext(context.Background())
-	return out.String(), err
+	err = root.ExecuteContext(context.Background())
+	return out.String(), errOut.String(), err
 }
 
 func TestEnvelopeCommandJSON(t *testing.T) {

@@ -1,7 +1,13 @@
 package main
 
 import (
+	"context"
+	"errors"
+	"fmt"
+	"strings"
+
 	"github.com/spf13/cobra"
+	"github.com/trussfleet/trussfleet/internal/safetext"
 	"github.com/trussfleet/trussfleet/runreport"
 	"github.com/trussfleet/trussfleet/screening/report"
 	"github.com/trussfleet/trussfleet/store"
@@ -25,7 +31,7 @@ func newExplainCmd(a *app) *cobra.Command {
 				}
 				b, err := runreport.Bridge(ctx, db, run, args[0])
 				if err != nil {
-					return err
+					return withBridgeHint(ctx, db, args[0], err)
 				}
 				return report.Explain(cmd.OutOrStdout(), run, b, args[1])
 			})
@@ -33,4 +39,17 @@ func newExplainCmd(a *app) *cobra.Command {
 	}
 	cmd.Flags().Int64Var(&runID, "run", 0, "run id (default: the latest completed run)")
 	return cmd
+}
+
+// withBridgeHint adds to a "not found" error for bridge id the ids that differ from it only
+// in case: bridge ids are matched exactly (member labels regardless of case).
+func withBridgeHint(ctx context.Context, db *store.DB, id string, err error) error {
+	if !errors.Is(err, store.ErrNotFound) {
+		return err
+	}
+	like, lerr := db.BridgeIDsFolded(ctx, id)
+	if lerr != nil || len(like) == 0 {
+		return err
+	}
+	return fmt.Errorf("%w (bridge ids are matched exactly, capitals included; did you mean %s?)", err, safetext.Terminal(strings.Join(like, " or ")))
 }

@@ -217,12 +217,13 @@ func writeCSV(w io.Writer, header []string, records [][]string) error {
 }
 
 // writeFileAtomic writes through a temporary file in the same folder and renames it, so that
-// a reader never sees half a file.
+// a reader never sees half a file. The file gets os.Create's mode, 0666 less the umask
+// (createOutput).
 func writeFileAtomic(path string, write func(io.Writer) error) error {
 	if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
 		return err
 	}
-	f, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+"-*")
+	f, err := createOutput(filepath.Dir(path), "."+filepath.Base(path)+"-*")
 	if err != nil {
 		return err
 	}

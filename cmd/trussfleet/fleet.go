@@ -36,7 +36,7 @@ func newFleetCmd(a *app) *cobra.Command {
 			opt := fleetgen.Defaults(n)
 			opt.Seed, opt.Reference = seed, refTrain
 			return writeFleet(opt, out, func(b, m string) {
-				fmt.Fprintf(cmd.OutOrStdout(), "wrote %d invented bridges: %s, %s\n", n, b, m)
+				fmt.Fprintf(cmd.OutOrStdout(), "wrote %s: %s, %s\n", plural(n, "invented bridge"), b, m)
 			})
 		},
 	}
@@ -52,12 +52,12 @@ func newFleetCmd(a *app) *cobra.Command {
 // half-written inventory behind.
 func writeFleet(opt fleetgen.Options, dir string, done func(b, m string)) error {
 	bPath, mPath := filepath.Join(dir, "bridges.csv"), filepath.Join(dir, "members.csv")
-	bf, err := os.CreateTemp(dir, ".bridges-*.csv")
+	bf, err := createOutput(dir, ".bridges-*.csv")
 	if err != nil {
 		return err
 	}
 	defer os.Remove(bf.Name())
-	mf, err := os.CreateTemp(dir, ".members-*.csv")
+	mf, err := createOutput(dir, ".members-*.csv")
 	if err != nil {
 		bf.Close()
 		return err

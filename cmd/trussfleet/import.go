@@ -52,11 +52,11 @@ updated, and re-importing the same file changes nothing.`,
 func printImport(w io.Writer, r importers.Result) {
 	c := r.Counts
 	if r.Checked {
-		fmt.Fprintf(w, "%s: %d rows checked, no errors; nothing written. An import would insert %d, update %d, leave %d unchanged.\n",
-			r.File, c.Rows, c.Inserted, c.Updated, c.Unchanged)
+		fmt.Fprintf(w, "%s: %s checked, no errors; nothing written. An import would insert %d, update %d, leave %d unchanged.\n",
+			r.File, plural(c.Rows, "row"), c.Inserted, c.Updated, c.Unchanged)
 	} else {
-		fmt.Fprintf(w, "%s: %d rows: %d inserted, %d updated, %d unchanged (import %d, sha256 %s)\n",
-			r.File, c.Rows, c.Inserted, c.Updated, c.Unchanged, r.BatchID, r.SHA256)
+		fmt.Fprintf(w, "%s: %s: %d inserted, %d updated, %d unchanged (import %d, sha256 %s)\n",
+			r.File, plural(c.Rows, "row"), c.Inserted, c.Updated, c.Unchanged, r.BatchID, r.SHA256)
 	}
 	if len(r.Ignored) > 0 {
 		// The names are the file's own header text.

@@ -266,11 +266,13 @@ func TestHostileInventoryThroughCommands(t *testing.T) {
 // cells are written after a quote, the negative forces as they are.
 func TestEnvelopeCSVTrainNames(t *testing.T) {
 	p := writeTestFile(t, t.TempDir(), "axle.yaml", axleTrain("=Axle 400", 400))
-	out, err := runCmd(t, "envelope", "--type", "pratt", "--span", "48", "--panels", "8", "--depth", "6", "--train", p, "--format", "csv")
+	body, stderr, err := runCmdErr(t, "envelope", "--type", "pratt", "--span", "48", "--panels", "8", "--depth", "6", "--train", p, "--format", "csv")
 	if err != nil {
-		t.Fatal(err, out)
+		t.Fatal(err, body)
 	}
-	_, body, _ := strings.Cut(out, "\n") // the caution, on standard error, comes first
+	if !strings.Contains(stderr, "CAUTION") {
+		t.Errorf("no caution on standard error: %q", stderr)
+	}
 	recs, err := csv.NewReader(strings.NewReader(body)).ReadAll()
 	if err != nil {
 		t.Fatal(err)

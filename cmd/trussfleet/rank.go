@@ -56,7 +56,7 @@ func printRanked(w io.Writer, run store.Run, rows []report.BridgeRow) error {
 		return err
 	}
 	if failed := countFailed(rows); failed > 0 {
-		fmt.Fprintf(w, "\n%d bridges could not be screened (listed last, NOT SCREENED): they are not cleared; fix their data and run again.\n", failed)
+		fmt.Fprintf(w, "\n%s could not be screened (listed last, NOT SCREENED): not cleared; fix their data and run again.\n", plural(failed, "bridge"))
 		if cut {
 			fmt.Fprintf(w, "Reasons longer than %d characters are cut short here; trussfleet export writes them in full.\n", safetext.CellRunes)
 		}

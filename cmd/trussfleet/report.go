@@ -30,7 +30,7 @@ func newReportCmd(a *app) *cobra.Command {
 					return err
 				}
 				w := cmd.OutOrStdout()
-				fmt.Fprintf(w, "Wrote the report of run %d: %s\n", r.ID, filepath.Join(out, "index.html"))
+				fmt.Fprintf(w, "wrote the report of run %d: %s\n", r.ID, filepath.Join(out, "index.html"))
 				printCaution(w)
 				return nil
 			})

@@ -1,6 +1,8 @@
 package main
 
 import (
+	"io"
+
 	"github.com/spf13/cobra"
 )
 
@@ -11,6 +13,11 @@ var version = "dev"
 type app struct {
 	cfgFile string
 	cfg     Config
+	// cfgUsed is the configuration file read ("" for none), stderr where notes to the user
+	// go (the database in use), and saidDatabase whether that note was given.
+	cfgUsed      string
+	stderr       io.Writer
+	saidDatabase bool
 }
 
 func newRootCmd() *cobra.Command {
@@ -28,7 +35,12 @@ first; local codes, the owner's standards and licensed practice govern.`,
 		SilenceUsage:  true,
 		SilenceErrors: true,
 		PersistentPreRunE: func(cmd *cobra.Command, args []string) error {
-			cfg, err := loadConfig(a.cfgFile, cmd.Flags())
+			a.stderr = cmd.ErrOrStderr()
+			a.cfgUsed = a.cfgFile
+			if a.cfgUsed == "" {
+				a.cfgUsed = findConfigFile()
+			}
+			cfg, err := loadConfig(a.cfgUsed, cmd.Flags())
 			if err != nil {
 				return err
 			}
@@ -37,7 +49,7 @@ first; local codes, the owner's standards and licensed practice govern.`,
 		},
 	}
 	pf := root.PersistentFlags()
-	pf.StringVar(&a.cfgFile, "config", "", "configuration file (YAML); default: ./trussfleet.yaml if present")
+	pf.StringVar(&a.cfgFile, "config", "", "configuration file (YAML); default: the first present of ./trussfleet.yaml, $XDG_CONFIG_HOME/trussfleet/trussfleet.yaml (or ~/.config/trussfleet/trussfleet.yaml)")
 	pf.String("database-url", "", "PostgreSQL connection string; empty starts the embedded server")
 	pf.String("data-dir", "", "data directory of the embedded server (default $XDG_DATA_HOME/trussfleet/pg)")
 

@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
+	"slices"
 	"strconv"
 	"strings"
 	"text/tabwriter"
@@ -149,9 +150,15 @@ func diffRuns(ctx context.Context, w io.Writer, db *store.DB, ids []int64) error
 	return printDiff(w, [2]int64{ids[0], ids[1]}, changes)
 }
 
+// printDiff prints the changes as the table shows them: a change in the worst RF alone that
+// does not show at the two decimals printed (1.404 to 1.396, both 1.40) is left out, so that
+// no line reads "1.40 -> 1.40". Ranks, flags and failures are compared exactly.
 func printDiff(w io.Writer, ids [2]int64, changes []store.BridgeChange) error {
 	var failed, flagged, cleared, other []store.BridgeChange
 	for _, c := range changes {
+		if !visibleChange(c) {
+			continue
+		}
 		switch {
 		case c.StatusB == "failed" && c.StatusA != "failed":
 			// Not screened is not cleared: the bridge needs its data fixed and a new run.
@@ -164,8 +171,8 @@ func printDiff(w io.Writer, ids [2]int64, changes []store.BridgeChange) error {
 			other = append(other, c)
 		}
 	}
-	fmt.Fprintf(w, "From run %d to run %d: %d could not be screened, %d newly flagged, %d cleared, %d other changes.\n",
-		ids[0], ids[1], len(failed), len(flagged), len(cleared), len(other))
+	fmt.Fprintf(w, "From run %d to run %d: %d could not be screened, %d newly flagged, %d cleared, %s.\n",
+		ids[0], ids[1], len(failed), len(flagged), len(cleared), plural(len(other), "other change"))
 	for _, g := range []struct {
 		title string
 		rows  []store.BridgeChange
@@ -189,6 +196,17 @@ func printDiff(w io.Writer, ids [2]int64, changes []store.BridgeChange) error {
 	fmt.Fprintln(w)
 	printCaution(w)
 	return nil
+}
+
+// visibleChange reports whether c shows in the printed table: a different rank, flags or
+// failure, or a worst RF that differs at the printed precision (fmtRF).
+func visibleChange(c store.BridgeChange) bool {
+	return !equalPtr(c.RankA, c.RankB) || !slices.Equal(c.FlagsA, c.FlagsB) ||
+		(c.StatusA == "failed") != (c.StatusB == "failed") || fmtRF(c.RFA) != fmtRF(c.RFB)
+}
+
+func equalPtr[T comparable](a, b *T) bool {
+	return (a == nil) == (b == nil) && (a == nil || *a == *b)
 }
 
 func rankText(r *int, status string) string {

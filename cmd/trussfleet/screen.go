@@ -78,7 +78,7 @@ func (a *app) screen(ctx context.Context, db *store.DB, out, errw io.Writer, cha
 	opt := fleetrun.Options{
 		Worker: a.workerOptions(), ChunkSize: s.ChunkSize, Logger: slog.Default(), Progress: progressPrinter(errw),
 		Recovered: func(id int64, rec fleetrun.Recovered) {
-			fmt.Fprintf(errw, "run %d: %d bridges without a job queued again, %d recorded as failed\n", id, rec.Requeued, rec.Failed)
+			fmt.Fprintf(errw, "run %d: %s without a job queued again, %d recorded as failed\n", id, plural(rec.Requeued, "bridge"), rec.Failed)
 		},
 	}
 	id, err := resume, error(nil) // the run's id: resume's, or the new run's
@@ -99,8 +99,8 @@ func (a *app) screen(ctx context.Context, db *store.DB, out, errw io.Writer, cha
 		fmt.Fprintf(out, "run %d is already complete\n", resume)
 		return a.printSummary(ctx, db, out, resume)
 	case errors.As(err, &interrupted):
-		fmt.Fprintf(out, "\nrun %d interrupted: %d of %d bridges kept; finish it with `trussfleet screen --resume %d`\n",
-			id, interrupted.Kept, interrupted.Total, id)
+		fmt.Fprintf(out, "\nrun %d interrupted: %d of %s kept; finish it with `trussfleet screen --resume %d`\n",
+			id, interrupted.Kept, plural(interrupted.Total, "bridge"), id)
 		return &exitError{code: exitInterrupted, err: err}
 	case errors.As(err, &failed):
 		return &exitError{code: exitRunFailed, err: err}
@@ -117,7 +117,7 @@ func (a *app) screen(ctx context.Context, db *store.DB, out, errw io.Writer, cha
 		}
 	}
 	if p, err := db.Progress(ctx, id); err == nil && p.Failed > 0 {
-		return &exitError{code: exitBridgesFailed, err: fmt.Errorf("run %d: %d bridges could not be screened (see `trussfleet rank --run %d`)", id, p.Failed, id)}
+		return &exitError{code: exitBridgesFailed, err: fmt.Errorf("run %d: %s could not be screened (see `trussfleet rank --run %d`)", id, plural(p.Failed, "bridge"), id)}
 	}
 	return nil
 }

@@ -86,12 +86,12 @@ func TestStoredRunHasNoPassword(t *testing.T) {
 			var printed strings.Builder
 			run := func(args ...string) string {
 				t.Helper()
-				out, err := runCmd(t, args...)
+				out, stderr, err := runCmdErr(t, args...)
 				var ee *exitError
 				if err != nil && !(errors.As(err, &ee) && ee.code == exitBridgesFailed) {
-					t.Fatalf("trussfleet %s: %v\n%s", strings.Join(args, " "), err, out)
+					t.Fatalf("trussfleet %s: %v\n%s%s", strings.Join(args, " "), err, out, stderr)
 				}
-				printed.WriteString(out)
+				printed.WriteString(out + stderr)
 				return out
 			}
 			run("--config", cfgPath, "screen")

@@ -26,8 +26,8 @@ func (a *app) printSummary(ctx context.Context, db *store.DB, w io.Writer, id in
 	if err != nil {
 		return err
 	}
-	fmt.Fprintf(w, "\nRun %d %s: %d bridges (%d screened, %d carried forward, %d failed), %d with flags.\n",
-		id, run.Status, p.Total, p.Done, p.Carried, p.Failed, flagged)
+	fmt.Fprintf(w, "\nRun %d %s: %s (%d screened, %d carried forward, %d failed), %d with flags.\n",
+		id, run.Status, plural(p.Total, "bridge"), p.Done, p.Carried, p.Failed, flagged)
 	fmt.Fprint(w, "Members flagged:")
 	for _, f := range rating.Flags {
 		fmt.Fprintf(w, "  %s %d", f, counts[string(f)])
@@ -62,7 +62,7 @@ func printFailed(ctx context.Context, db *store.DB, w io.Writer, id int64) error
 	if err != nil || n == 0 {
 		return err
 	}
-	fmt.Fprintf(w, "\n%d bridges could not be screened (not cleared: fix their data and run again):\n", n)
+	fmt.Fprintf(w, "\n%s could not be screened (not cleared: fix their data and run again):\n", plural(n, "bridge"))
 	for _, f := range failed {
 		fmt.Fprintf(w, "  %s %s: %s\n", safetext.Terminal(f.BridgeID), safetext.Terminal(f.Name), safetext.Terminal(f.Error))
 	}

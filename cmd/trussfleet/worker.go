@@ -37,7 +37,7 @@ SIGINT or SIGTERM stops it: running jobs finish first (up to job_timeout), then 
 			wo.OnChunk = func(run int64, n int) { slog.Info("chunk committed", "run", run, "bridges", n) }
 			return fleetrun.Work(ctx, db, fleetrun.Options{Worker: wo, ChunkSize: s.ChunkSize, Logger: slog.Default(),
 				Started: func() {
-					fmt.Fprintf(cmd.ErrOrStderr(), "worker started (pid %d): %d jobs at once, %d threads each\n", os.Getpid(), s.Jobs, a.cfg.Workers)
+					fmt.Fprintf(cmd.ErrOrStderr(), "worker started (pid %d): %s at once, %s each\n", os.Getpid(), plural(s.Jobs, "job"), plural(a.cfg.Workers, "thread"))
 				},
 			})
 		},

@@ -71,7 +71,7 @@ func benchEnvelopes(b *testing.B, l *Lines, prefix string) {
 			var out []Extremes
 			b.ReportAllocs()
 			for b.Loop() {
-				out = c.envelope(l, ld, Options{}, out, plain)
+				out, _ = c.envelope(l, ld, Options{}, out, plain)
 			}
 		})
 	}
@@ -87,7 +87,11 @@ func BenchmarkStepping(b *testing.B) {
 	}{{"lm71", "lm71", false}, {"freight-all-counts", "freight", true}, {"freight-reduced-counts", "freight", false}, {"uniform", "uniform", false}} {
 		tr := trains[v.train]
 		ld, _ := Prepare(tr)
-		exact := slices.Clone(c.Envelope(l, ld, Options{}, nil))
+		exact, err := c.Envelope(l, ld, Options{}, nil)
+		if err != nil {
+			b.Fatal(err)
+		}
+		exact = slices.Clone(exact)
 		b.Run(v.name, func(b *testing.B) {
 			var mx, mn []float64
 			for b.Loop() {
@@ -144,7 +148,7 @@ func stepEnvelope(l *Lines, x []float64, ord [][]float64, tr *traffic.Train, ld 
 			counts = append(counts, n)
 		}
 	} else {
-		for _, k := range ld.counts(xl - x0) {
+		for _, k := range ld.counts(xl-x0, false) {
 			counts = append(counts, k.sweep)
 		}
 	}
@@ -284,7 +288,7 @@ func BenchmarkEnvelopeLargestTrain(b *testing.B) {
 				var c Calculator
 				var out []Extremes
 				for b.Loop() {
-					out = c.Envelope(l, ld, Options{}, out)
+					out, _ = c.Envelope(l, ld, Options{}, out)
 				}
 			})
 		}

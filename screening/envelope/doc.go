@@ -16,15 +16,17 @@
 // member. Parts applied only where unfavourable (Load Model 71) follow the positive or
 // negative part of each line; a part cut at the unfavourable length (Cooper's trailing load)
 // follows the running extreme of the line's integral. A variable consist is swept only at the
-// counts that show the bridge different loadings (only vehicles on the bridge matter), and a
-// uniform load of variable length is placed over its best feasible interval directly.
+// counts that show the bridge different loadings (only vehicles on the bridge matter: once
+// more vehicles can reach the bridge only behind everything but the repeated vehicle, more
+// change nothing), and a uniform load of variable length is placed over its best feasible
+// interval directly. A train too large to sweep (MaxEvents) is refused with ErrTooLarge.
 //
 // Typical use in a screening run:
 //
 //	lines, _ := envelope.NewLines(x, ordinates) // once per truss
 //	load, _ := envelope.Prepare(train)          // once per train
 //	var calc envelope.Calculator                // one per goroutine
-//	res = calc.Envelope(lines, load, envelope.Options{Share: 0.5}, res[:0])
+//	res, err = calc.Envelope(lines, load, envelope.Options{Share: 0.5}, res[:0])
 //
 // Values are in kN, multiplied by Options.Factor (share of the track load and dynamic
 // allowance). Inputs are never modified.

@@ -1,6 +1,8 @@
 package envelope
 
 import (
+	"errors"
+	"fmt"
 	"math"
 	"slices"
 
@@ -134,7 +136,21 @@ type plainSweeps struct {
 	// bothSweeps sweeps right to left also over a truss that is its own mirror image instead
 	// of taking those extremes from the mirror members' left-to-right sweeps.
 	bothSweeps bool
+	// allCounts sweeps every count of a variable consist from its min to its max instead of
+	// only those that show the bridge different loadings (Load.counts).
+	allCounts bool
 }
+
+// MaxEvents bounds the positions one sweep visits: the train's axles and part ends, at the
+// largest count of its last group that is swept, times the vertices of the influence lines.
+// It keeps every index of a sweep within 32 bits and its scratch space within about 512 MB
+// (two lists of 16-byte events). Trains read from input stay far below it (the limits of
+// screening/traffic: 2,000 axles; a long truss has a few hundred vertices).
+const MaxEvents = 1 << 24
+
+// ErrTooLarge is returned (wrapped, with the train and the counts) for a train that cannot
+// be swept within MaxEvents.
+var ErrTooLarge = errors.New("train too large to sweep")
 
 type runInfo struct {
 	dir int
@@ -151,16 +167,22 @@ type runInfo struct {
 // those positions and the stationary points between them. One sweep serves all members.
 // A variable consist is swept at every count that shows the bridge a different loading (see
 // Load); a uniform load of variable length is placed over the best feasible interval.
-func (c *Calculator) Envelope(l *Lines, ld *Load, opt Options, out []Extremes) []Extremes {
+//
+// A train that would need more than MaxEvents positions per sweep is refused with an error
+// wrapping ErrTooLarge; nothing is computed for it.
+func (c *Calculator) Envelope(l *Lines, ld *Load, opt Options, out []Extremes) ([]Extremes, error) {
 	return c.envelope(l, ld, opt, out, plainSweeps{})
 }
 
 // envelope is Envelope without the shortcuts that plain turns off.
-func (c *Calculator) envelope(l *Lines, ld *Load, opt Options, out []Extremes, plain plainSweeps) []Extremes {
+func (c *Calculator) envelope(l *Lines, ld *Load, opt Options, out []Extremes, plain plainSweeps) ([]Extremes, error) {
 	c.reset(l.m)
 	if ld.uniform != nil {
 		out = c.uniform(l, ld, out)
 	} else {
+		if err := ld.fits(l, plain.allCounts); err != nil {
+			return out[:0], err
+		}
 		out = c.train(l, ld, out, plain)
 	}
 	f := opt.Factor(l.SpanM())
@@ -170,7 +192,27 @@ func (c *Calculator) envelope(l *Lines, ld *Load, opt Options, out []Extremes, p
 			e.Train = ld.name
 		}
 	}
-	return out
+	return out, nil
+}
+
+// fits refuses a train whose sweeps over l would exceed MaxEvents. The count is taken in
+// floating point, which cannot overflow.
+func (ld *Load) fits(l *Lines, all bool) error {
+	n := ld.lastSwept(l.SpanM(), all)
+	items := float64(len(ld.fixed)) + float64(n)*float64(len(ld.unit))
+	gr := l.plainGrid(0)
+	if ld.hasUnfav || ld.hasCut {
+		gr = l.refinedGrid(0)
+		if r := l.refinedGrid(1); len(r.x) > len(gr.x) {
+			gr = r
+		}
+	}
+	vertices := len(gr.x)
+	if events := items * float64(vertices); events > MaxEvents {
+		return fmt.Errorf("train %q: sweeping %d vehicles in its last group (of %d to %d) over %d positions of the influence lines takes %.0f positions per sweep, more than the limit of %d: %w",
+			ld.name, n, ld.nMin, ld.nMax, vertices, events, MaxEvents, ErrTooLarge)
+	}
+	return nil
 }
 
 func (c *Calculator) reset(m int) {
@@ -193,7 +235,7 @@ func resize(s []float64, n int) []float64 {
 }
 
 func (c *Calculator) train(l *Lines, ld *Load, out []Extremes, plain plainSweeps) []Extremes {
-	counts := ld.counts(l.SpanM())
+	counts := ld.counts(l.SpanM(), plain.allCounts)
 	nItems := 0
 	for _, k := range counts {
 		nItems = max(nItems, k.sweep)
@@ -230,7 +272,7 @@ func (c *Calculator) train(l *Lines, ld *Load, out []Extremes, plain plainSweeps
 				c.ck.ok = false // no resuming: every count from the beginning
 			}
 			c.runs = append(c.runs, runInfo{dir: d, cnt: k})
-			c.sweep(gr, ld, k.sweep, int16(len(c.runs)-1))
+			c.sweep(gr, ld, k.sweep, int32(len(c.runs)-1))
 		}
 	}
 	out = slices.Grow(out[:0], c.m)[:c.m]
@@ -267,7 +309,7 @@ func (c *Calculator) mirrorSweeps(mirror []int32) {
 				continue
 			}
 			f := c.snapAt[j]
-			f.run += int16(n)
+			f.run += int32(n)
 			f.via = j + 1
 			sense.v[i], sense.at[i] = mv, f
 		}
@@ -386,5 +428,5 @@ func Compute(x []float64, ordinates [][]float64, t *traffic.Train, opt Options) 
 		return nil, err
 	}
 	var c Calculator
-	return c.Envelope(l, ld, opt, nil), nil
+	return c.Envelope(l, ld, opt, nil)
 }

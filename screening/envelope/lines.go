@@ -109,6 +109,15 @@ func NewLines(x []float64, ordinates [][]float64) (*Lines, error) {
 	if len(ordinates) == 0 {
 		return nil, errors.New("influence lines: no members")
 	}
+	// Members, vertices and kinks are indexed in 32 bits (the mirror table, the kink lists,
+	// the vertices attaining a running extreme), on the refined grid too, which adds at most
+	// one vertex per member and panel (a zero crossing): refuse lines whose worst case does
+	// not fit, rather than let an index wrap. Real trusses stay far below (a few hundred
+	// members and panel points give some 10^7).
+	m := float64(len(ordinates))
+	if worst := (float64(n) + m*float64(n-1)) * m; worst > math.MaxInt32 {
+		return nil, fmt.Errorf("influence lines: %d members at %d panel points could need %.0f entries on the refined grid, more than the limit of %d", len(ordinates), n, worst, math.MaxInt32)
+	}
 	for i, o := range ordinates {
 		if len(o) != n {
 			return nil, fmt.Errorf("influence lines: member %d has %d ordinates for %d panel points", i, len(o), n)

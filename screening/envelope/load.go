@@ -30,6 +30,9 @@ type Load struct {
 	hasUnfav bool
 	hasCut   bool
 	cutFrom  float64
+	// tailM is where the train becomes a plain repetition of its last vehicle: the largest
+	// of r0 and the finite ends of its distributed parts, m behind the front (see counts).
+	tailM float64
 	// initial value of each part reaching indefinitely ahead (it covers the whole bridge while
 	// the train approaches), by which area it multiplies.
 	ahead []aheadPart
@@ -80,6 +83,14 @@ func Prepare(t *traffic.Train) (*Load, error) {
 		}
 	}
 	ld.periodic = len(t.Parts) == 0
+	ld.tailM = ld.r0
+	for _, p := range t.Parts {
+		for _, e := range []float64{p.FromM, p.ToM} {
+			if !math.IsInf(e, 0) {
+				ld.tailM = max(ld.tailM, e)
+			}
+		}
+	}
 	for _, p := range t.Parts {
 		switch p.Mode {
 		case traffic.Whole, traffic.WhereUnfavourable:
@@ -116,7 +127,8 @@ func (ld *Load) Train() *traffic.Train { return ld.train }
 // window reaches the last swept vehicle move back by (report - sweep) vehicle lengths.
 type count struct{ sweep, report int }
 
-// counts lists the sweeps that cover every count from nMin to nMax on a span of spanM.
+// counts lists the sweeps that cover every count from nMin to nMax on a span of spanM; all
+// lists every count, for the tests that compare the shortcut with the full list.
 //
 // Only vehicles on the bridge matter. With no distributed parts, a window of the span's
 // length that sees the train's fixed front part cannot see beyond the first k = ceil(span /
@@ -125,26 +137,67 @@ type count struct{ sweep, report int }
 // repeat with the vehicle length. So any count of at least k + 1 = cMax shows the bridge the
 // same loadings as cMax itself, shifted along the train, and the sweeps are the counts below
 // cMax plus one at cMax standing for the rest.
-func (ld *Load) counts(spanM float64) []count {
-	if len(ld.unit) == 0 {
-		return []count{{ld.nMin, ld.nMin}}
-	}
-	if !ld.periodic {
-		out := make([]count, 0, ld.nMax-ld.nMin+1)
-		for n := ld.nMin; n <= ld.nMax; n++ {
+//
+// With distributed parts the counts up to steadyCount are swept, and no more: see there.
+func (ld *Load) counts(spanM float64, all bool) []count {
+	hi := ld.lastSwept(spanM, all)
+	if ld.periodic && !all && len(ld.unit) > 0 && hi < ld.nMax {
+		// hi = cMax: the counts below it, and cMax standing for every count from it on.
+		out := make([]count, 0, max(0, hi-ld.nMin)+1)
+		for n := ld.nMin; n < hi; n++ {
 			out = append(out, count{n, n})
 		}
-		return out
+		return append(out, count{hi, max(ld.nMin, hi)})
 	}
-	cMax := int(math.Ceil(spanM/ld.unitLen)) + 2
-	var out []count
-	for n := ld.nMin; n <= min(ld.nMax, cMax-1); n++ {
+	out := make([]count, 0, hi-ld.nMin+1)
+	for n := ld.nMin; n <= hi; n++ {
 		out = append(out, count{n, n})
 	}
-	if ld.nMax >= cMax {
-		out = append(out, count{cMax, max(ld.nMin, cMax)})
-	}
 	return out
+}
+
+// lastSwept is the largest count counts sweeps, computed without listing them, so that a
+// train too large to sweep is refused before anything is allocated for it.
+func (ld *Load) lastSwept(spanM float64, all bool) int {
+	switch {
+	case len(ld.unit) == 0:
+		return ld.nMin
+	case all:
+		return ld.nMax
+	case !ld.periodic:
+		return min(ld.nMax, max(ld.nMin, ld.steadyCount(spanM)))
+	}
+	// cMax = ceil(span / vehicle length) + 2, in floating point: it may exceed any int.
+	if k := math.Ceil(spanM/ld.unitLen) + 2; k < float64(ld.nMax) {
+		return int(k)
+	}
+	return ld.nMax
+}
+
+// steadyCount is a count c of the last group beyond which one more vehicle shows the bridge
+// no loading that c vehicles do not: every count above it gives the same envelope as c.
+//
+// Why. Measure offsets d behind the train's front; vehicle v of the last group covers
+// [F(v), F(v) + L], F(v) = r0 + (v-1) L, and beyond tailM (the largest of r0 and the finite
+// part ends) the train is its parts' constant loads (a part reaching indefinitely behind,
+// applied whole, where unfavourable or cut anywhere behind its start) plus a plain
+// repetition of the vehicle. So for d > tailM, the train with n vehicles loads d + L exactly
+// as the train with n - 1 loads d. A window of the bridge's length sees offsets [s - xl, s -
+// x0] with the front at s. The trains with n and n - 1 vehicles differ only where the window
+// meets vehicle n, and then the window starts at s - xl >= F(n) - span. If F(n-1) - span >
+// tailM, the window moved back by one vehicle (front at s - L) starts beyond tailM and shows
+// the train with n - 1 vehicles the same loading; the converse holds by the same shift. So
+// for every n with r0 + (n-2) L - span > tailM, counts n and n - 1 give the same extremes;
+// c is the largest n failing that, plus one for rounding. In words: once the extra vehicles
+// can stand on the bridge only where the locomotive and the parts' ends are entirely beyond
+// it, more vehicles change nothing. The result is at least 1 and at most nMax (computed in
+// floating point, which cannot overflow, before it is made an int).
+func (ld *Load) steadyCount(spanM float64) int {
+	c := math.Floor(2+(ld.tailM+spanM-ld.r0)/ld.unitLen) + 1
+	if !(c < float64(ld.nMax)) { // also NaN
+		return ld.nMax
+	}
+	return max(1, int(c))
 }
 
 // items lays out the train with n vehicles in its last group: fixed items, then the axles of

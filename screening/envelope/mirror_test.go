@@ -29,8 +29,14 @@ func TestMirroredSweepsEqualBothSweeps(t *testing.T) {
 			t.Fatalf("symmetric lines %v on %v: no mirror found", ord, x)
 		}
 		var mirrored, both Calculator
-		got := mirrored.Envelope(l, ld, Options{}, nil)
-		want := both.envelope(l, ld, Options{}, nil, plainSweeps{bothSweeps: true})
+		got, err := mirrored.Envelope(l, ld, Options{}, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want, err := both.envelope(l, ld, Options{}, nil, plainSweeps{bothSweeps: true})
+		if err != nil {
+			t.Fatal(err)
+		}
 		for i, eta := range ord {
 			scale := forceScale(x, eta, tr)
 			for _, c := range []struct {

@@ -16,8 +16,14 @@ func TestResumedSweepsEqualFullSweeps(t *testing.T) {
 		tr := genTrain(t)
 		l, ld := prepared(t, x, ord, tr)
 		var resumed, full Calculator
-		got := resumed.Envelope(l, ld, Options{}, nil)
-		want := full.envelope(l, ld, Options{}, nil, plainSweeps{fullSweeps: true})
+		got, err := resumed.Envelope(l, ld, Options{}, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want, err := full.envelope(l, ld, Options{}, nil, plainSweeps{fullSweeps: true})
+		if err != nil {
+			t.Fatal(err)
+		}
 		for i := range want {
 			if got[i] != want[i] {
 				t.Fatalf("member %d: resumed sweeps give %+v, full sweeps %+v", i, got[i], want[i])

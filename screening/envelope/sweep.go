@@ -32,7 +32,7 @@ type found struct {
 	s      float64
 	side   int8
 	stream int8
-	run    int16
+	run    int32
 	// via is 1 + the member whose left-to-right sweep found a right-to-left extreme over a
 	// truss that is its own mirror image (see mirrorSweeps); 0 for the member's own sweep.
 	via int32
@@ -123,7 +123,7 @@ func mergeEvents(dst, a, b []event) {
 // instead of from the beginning. The skipped positions give the same values, bit for bit, as
 // the earlier sweep already recorded, and the extremes keep the first sweep that reached
 // them, so the result is the same as sweeping every count in full.
-func (c *Calculator) sweep(gr *grid, ld *Load, n int, run int16) {
+func (c *Calculator) sweep(gr *grid, ld *Load, n int, run int32) {
 	m := c.m
 	nx := len(gr.x)
 	streams := c.streams
@@ -303,7 +303,7 @@ func (c *Calculator) sweep(gr *grid, ld *Load, n int, run int16) {
 //
 // It starts at event group start with sPrev the position of the last one applied, and saves
 // its state at group save for the next count (see sweep).
-func (c *Calculator) sweepLinear(gr *grid, n int, run int16, sPrev float64, start, save int) {
+func (c *Calculator) sweepLinear(gr *grid, n int, run int32, sPrev float64, start, save int) {
 	m := c.m
 	st := &c.state[0]
 	v, g, t := st.v, st.g, st.t
@@ -394,7 +394,7 @@ func (ck *checkpoint) restore(state []sweepState) (g0 int, sPrev float64) {
 // groupJumps applies the jumps at the bearings of the event group that starts at event g0,
 // if it has an axle of the first n vehicles at a bearing, bringing every member up to date
 // first.
-func (c *Calculator) groupJumps(gr *grid, g0, n int, run int16) (g1 int) {
+func (c *Calculator) groupJumps(gr *grid, g0, n int, run int32) (g1 int) {
 	ev, nx := c.events, len(gr.x)
 	s := ev[g0].s
 	g1, jumps := g0, false
@@ -418,7 +418,7 @@ func (c *Calculator) groupJumps(gr *grid, g0, n int, run int16) (g1 int) {
 // linearEvents applies events from to to (exclusive) of the items of the first n vehicles,
 // updating each member at its own kinks, and returns the position of the last one applied
 // (sPrev if none).
-func (c *Calculator) linearEvents(gr *grid, from, to, n int, run int16, sPrev float64) float64 {
+func (c *Calculator) linearEvents(gr *grid, from, to, n int, run int32, sPrev float64) float64 {
 	st := &c.state[0]
 	v, g, t := st.v, st.g, st.t
 	bmax, bmin := c.maxV, c.minV
@@ -454,7 +454,7 @@ func (c *Calculator) linearEvents(gr *grid, from, to, n int, run int16, sPrev fl
 // sweepJumps handles a group of events at s that includes an axle reaching a bearing where
 // some line has a non-zero ordinate: the left limit, the value at s (axle on the bridge) and
 // the right limit all count.
-func (c *Calculator) sweepJumps(gr *grid, group []event, n int, s float64, run int16) {
+func (c *Calculator) sweepJumps(gr *grid, group []event, n int, s float64, run int32) {
 	m, nx := c.m, len(gr.x)
 	v := c.state[0].v
 	c.offer(0, s, -1, run)
@@ -481,7 +481,7 @@ func (c *Calculator) sweepJumps(gr *grid, group []event, n int, s float64, run i
 }
 
 // advanceCurved moves stream si on by dt, offering any interior stationary point.
-func (c *Calculator) advanceCurved(si int, dt, sPrev float64, run int16) {
+func (c *Calculator) advanceCurved(si int, dt, sPrev float64, run int32) {
 	st := &c.state[si]
 	sm := c.streams[si]
 	for i := range c.m {
@@ -507,7 +507,7 @@ func (c *Calculator) advanceCurved(si int, dt, sPrev float64, run int16) {
 }
 
 // offer records stream si's current values where they beat the extremes so far.
-func (c *Calculator) offer(si int, s float64, side int8, run int16) {
+func (c *Calculator) offer(si int, s float64, side int8, run int32) {
 	sm := c.streams[si]
 	v := c.state[si].v
 	for i := range c.m {

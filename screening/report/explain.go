@@ -3,6 +3,7 @@ package report
 import (
 	"fmt"
 	"io"
+	"math"
 	"sort"
 	"strings"
 	"text/tabwriter"
@@ -24,10 +25,12 @@ func Explain(w io.Writer, run Run, b Bridge, member string) error {
 	if b.Row.Status == "failed" {
 		return fmt.Errorf("bridge %s was not screened in run %d: %s", safetext.Terminal(b.Row.BridgeID), run.ID, safetext.Terminal(b.Row.Error))
 	}
+	// Member labels are matched regardless of case, as the importers match them (l2-l3 is
+	// L2-L3); bridge ids exactly.
 	idx := -1
 	for i, m := range b.Members {
-		if m.Label == member {
-			idx = i
+		if strings.EqualFold(m.Label, member) {
+			idx, member = i, m.Label
 		}
 	}
 	t, err := truss.Build(b.Truss)
@@ -118,20 +121,27 @@ func Explain(w io.Writer, run Run, b Bridge, member string) error {
 			p(" (%s)", safetext.Terminal(strings.Join(names, ", ")))
 		}
 		p(": dynamic allowance %s gives 1 + I = %s\n", orDash(run.Dynamic), num(sc.s.Impact, 3))
-		explainTrains(ew, run, b, lines.X, eta, sc.name, sc.s)
-		for _, g := range []struct {
+		// One placement per extreme, placementOf's, in the governing line, the table of
+		// trains and the loads alike.
+		gov := []struct {
 			sense string
 			sign  float64
 			e     envelope.Extreme
 			tr    *traffic.Train
-		}{{"tension", 1, sc.s.Max, sc.s.MaxTrain}, {"compression", -1, sc.s.Min, sc.s.MinTrain}} {
+			ok    bool
+		}{{"tension", 1, sc.s.Max, sc.s.MaxTrain, false}, {"compression", -1, sc.s.Min, sc.s.MinTrain, false}}
+		for i := range gov {
+			gov[i].e, gov[i].ok = placementOf(gov[i].tr, gov[i].e, lines.X, eta, b.liveShare(), gov[i].sign)
+		}
+		explainTrains(ew, run, b, lines.X, eta, sc.name, gov[0].e, gov[1].e)
+		for _, g := range gov {
 			if !g.e.Loaded || g.e.Value == 0 {
 				continue
 			}
 			p("  governing %s: %s kN, %s, %s\n", g.sense, signed(g.e.Value, 1), safetext.Terminal(orDash(g.e.Train)), placementWords(g.e, g.tr))
 			if g.tr != nil && sc.name == "proposed" && g.sign == governing(m) {
-				if e, ok := placementOf(g.tr, g.e, lines.X, eta, b.liveShare(), g.sign); ok {
-					explainLoads(ew, g.tr, e, t.SpanM(), lines.X, eta, g.sign, b.liveShare())
+				if g.ok {
+					explainLoads(ew, g.tr, g.e, t.SpanM(), lines.X, eta, g.sign, b.liveShare())
 				} else {
 					p("    (train %s as now defined does not give this force: it has changed since the run)\n", safetext.Terminal(g.e.Train))
 				}
@@ -176,8 +186,10 @@ func Explain(w io.Writer, run Run, b Bridge, member string) error {
 }
 
 // explainTrains lists each train's extremes on the member, recomputed exactly from the
-// train definitions the run holds.
-func explainTrains(w io.Writer, run Run, b Bridge, xs, eta []float64, scenario string, s Scenario) {
+// train definitions the run holds; the governing train's row shows the governing extremes
+// govMax and govMin as given (placementOf's), so that an extreme reached at several
+// placements is shown at one.
+func explainTrains(w io.Writer, run Run, b Bridge, xs, eta []float64, scenario string, govMax, govMin envelope.Extreme) {
 	names := run.Scenarios[scenario]
 	var trains []*traffic.Train
 	for _, n := range names {
@@ -197,9 +209,23 @@ func explainTrains(w io.Writer, run Run, b Bridge, xs, eta []float64, scenario s
 			continue
 		}
 		e := ex[0]
+		e.Max = governingRow(e.Max, govMax, tr)
+		e.Min = governingRow(e.Min, govMin, tr)
 		fmt.Fprintf(tw, "  %s\t%s\t%s\t%s\t%s\t\n", safetext.Cell(tr.Name), signed(e.Max.Value, 1), placementWords(e.Max, tr), signed(e.Min.Value, 1), placementWords(e.Min, tr))
 	}
 	_ = tw.Flush()
+}
+
+// governingRow is the extreme e of train tr as its row shows it: gov, where tr is gov's train
+// and gives the same force.
+func governingRow(e, gov envelope.Extreme, tr *traffic.Train) envelope.Extreme {
+	if !gov.Loaded || (gov.Train != tr.Name && findTrain(map[string]*traffic.Train{tr.Name: tr}, gov.Train) == nil) {
+		return e
+	}
+	if math.Abs(e.Value-gov.Value) > 1e-6*math.Max(1, math.Abs(gov.Value)) {
+		return e
+	}
+	return gov
 }
 
 // findTrain looks a train up by its name or by the name it was configured with.

@@ -6,6 +6,9 @@ import (
 	"regexp"
 	"strings"
 	"testing"
+
+	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/traffic"
 )
 
 func TestExplain(t *testing.T) {
@@ -67,6 +70,13 @@ func TestExplain(t *testing.T) {
 		t.Error("a flagged member's explanation gives no reason")
 	}
 
+	// Member labels are matched regardless of case (as the importers match them): u1-l2 is
+	// U1-L2, explained word for word the same.
+	var lower strings.Builder
+	if err := Explain(&lower, f.Run, b, "u1-l2"); err != nil || lower.String() != out {
+		t.Errorf("explain u1-l2: %v; differs from U1-L2's explanation: %v", err, lower.String() != out)
+	}
+
 	err := Explain(&sb, f.Run, b, "U9-L9")
 	if err == nil || !strings.Contains(err.Error(), `"U9-L9"`) || !strings.Contains(err.Error(), "U1-L2") {
 		t.Errorf("unknown member: got %v, want an error naming it and the members", err)
@@ -80,4 +90,50 @@ func (b Bridge) indexOf(label string) int {
 		}
 	}
 	return -1
+}
+
+// TestExplainOnePlacement: an extreme that several placements reach (another count of the
+// long freight consist, the mirror image on the symmetric Pratt) is shown at one placement:
+// the governing line, the governing train's row in the table of trains and the loads summed
+// below it all stand the train where the run did (its stored placement), which gives the
+// stored force (reference: the loads at that placement summed by placeTrain, the influence
+// line read by interpolation).
+func TestExplainOnePlacement(t *testing.T) {
+	f := screenFleet(t, []invented{pratt48(t, "NER-90001", "Tarnbeck Viaduct", 0.95)})
+	b := f.Bridges["NER-90001"]
+	gov := regexp.MustCompile(`(?m)^  governing (tension|compression): (\S+) kN, (.+?), ((?:left-to-right|right-to-left), front at .+)$`)
+	checked := 0
+	for _, m := range b.Members {
+		var sb strings.Builder
+		if err := Explain(&sb, f.Run, b, m.Label); err != nil {
+			t.Fatal(err)
+		}
+		out := sb.String()
+		for _, g := range gov.FindAllStringSubmatch(out, -1) {
+			train, words := g[3], g[4]
+			// The train's row lists its max and min with their placements, tab-aligned.
+			row := regexp.MustCompile(`(?m)^  ` + regexp.QuoteMeta(train) + `\s.*$`).FindString(out)
+			if !strings.Contains(row, words) {
+				t.Errorf("%s governing %s: %q, but the row of %s reads %q", m.Label, g[1], words, train, row)
+			}
+			checked++
+		}
+		// Trains of axles only: the store keeps all of their placement.
+		for _, sc := range []Scenario{m.Existing, m.Proposed} {
+			for _, e := range []struct {
+				stored envelope.Extreme
+				tr     *traffic.Train
+			}{{sc.Max, sc.MaxTrain}, {sc.Min, sc.MinTrain}} {
+				if !e.stored.Loaded || e.tr == nil || e.tr.Uniform != nil || len(e.tr.Parts) > 0 {
+					continue
+				}
+				if w := placementWords(e.stored, e.tr); !strings.Contains(out, w) {
+					t.Errorf("%s: the run's placement %q of %s is not shown", m.Label, w, e.stored.Train)
+				}
+			}
+		}
+	}
+	if checked == 0 {
+		t.Fatal("no governing placement found in the explanations")
+	}
 }

@@ -158,14 +158,27 @@ func (o onBridge) effect(xs, eta []float64) float64 {
 // finite reports whether v is a number that can be drawn or printed as one.
 func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 
-// placementOf gives the full placement of a member's extreme under train t: the envelope is
-// recomputed for that one train on the member's line (exact and cheap), so that the drawing
-// does not depend on how much of the placement the store kept. ok is false when t is nil or
-// no longer gives the stored force (the train's definition has changed since the run); the
-// stored extreme is then returned as it is.
+// placementOf gives the one placement shown for a member's extreme under train t, in the
+// explanation and in the drawing alike. It is the run's own (stored), which the priority list
+// and the exports name, whenever placing t there gives the stored force: several placements
+// may give the same force (another count of a long consist, the mirror image on a symmetric
+// truss), and a recomputation for one member may find another of them. Otherwise (the store
+// keeps no trailing length of a part cut where unfavourable) the envelope is recomputed for
+// that one train on the member's line (exact and cheap), and its placement is used if it gives
+// the stored force. ok is false when t is nil or no longer gives the stored force (the train's
+// definition has changed since the run); the stored extreme is then returned as it is.
 func placementOf(t *traffic.Train, stored envelope.Extreme, xs, eta []float64, share, sign float64) (e envelope.Extreme, ok bool) {
-	if t == nil || !stored.Loaded {
+	if t == nil || !stored.Loaded || len(xs) < 2 {
 		return stored, false
+	}
+	// Same force to rounding of the sweep (the run stored it as a double).
+	same := func(v float64) bool { return math.Abs(v-stored.Value) <= 1e-6*math.Max(1, math.Abs(stored.Value)) }
+	if same(placeTrain(t, stored.Placement, xs[len(xs)-1]-xs[0], xs, eta, sign).effect(xs, eta) * share) {
+		e = stored
+		if t.Uniform == nil {
+			e.LengthM = t.LengthM(e.Count)
+		}
+		return e, true
 	}
 	ex, err := envelope.Compute(xs, [][]float64{eta}, t, envelope.Options{Share: share})
 	if err != nil {
@@ -175,8 +188,7 @@ func placementOf(t *traffic.Train, stored envelope.Extreme, xs, eta []float64, s
 	if sign < 0 {
 		e = ex[0].Min
 	}
-	// Same force to rounding of the sweep (the run stored it as a double).
-	if math.Abs(e.Value-stored.Value) > 1e-6*math.Max(1, math.Abs(stored.Value)) {
+	if !same(e.Value) {
 		return stored, false
 	}
 	e.Train = stored.Train

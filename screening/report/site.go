@@ -190,7 +190,7 @@ func writeFile(path string, render func(io.Writer) error) error {
 	if bytes.ContainsFunc(page, safetext.IsBidi) {
 		page = []byte(safetext.ShowBidi(string(page)))
 	}
-	return os.WriteFile(path, page, 0o644)
+	return os.WriteFile(path, page, 0o666) // as os.Create: the umask decides
 }
 
 // hasPage says whether a row gets a bridge page: screened, with a flag.

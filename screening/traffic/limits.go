@@ -25,8 +25,9 @@ import (
 // also bounds the axles per metre to two.
 //
 // A variable consist without distributed parts is swept at a few counts only, as many as
-// the span holds vehicles (screening/envelope), but one with distributed parts is swept at
-// every count from its min to its max: MaxCountsWithParts bounds those, and MaxParts the
+// the span holds vehicles (screening/envelope), and one with distributed parts at every count
+// until more vehicles can reach the bridge only behind its parts' ends (a few more than the
+// span holds): MaxCountsWithParts bounds those all the same, and MaxParts the
 // parts (the standard models have one or two). With these limits the costliest trains found
 // take a few seconds on the longest truss the geometry admits (BenchmarkEnvelopeLargestTrain
 // in screening/envelope), where 1 to 400 counts with a cut part took nearly two minutes.
