@@ -35,7 +35,7 @@ func (e *FieldError) Error() string {
 	if e.Field != "" {
 		fmt.Fprintf(&b, " (%s)", e.Field)
 	}
-	if e.Column > 0 || e.Field != "" {
+	if e.Field != "" || e.Value != "" {
 		fmt.Fprintf(&b, ", value %q", excerpt.Cut(e.Value))
 	}
 	b.WriteString(": ")
@@ -85,7 +85,9 @@ type errorList struct {
 }
 
 func (l *errorList) add(e *FieldError) {
-	e.File = l.file
+	if e.File == "" { // a directory's list names each error's own file
+		e.File = l.file
+	}
 	e.Value = excerpt.Cut(e.Value) // the list keeps no input longer than a message quotes
 	if len(l.errs) < MaxErrors {
 		l.errs = append(l.errs, e)
