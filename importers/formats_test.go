@@ -256,3 +256,61 @@ func TestNotACSV(t *testing.T) {
 		})
 	}
 }
+
+// TestWorkbookMembersAndLimits reads members from a workbook's first sheet, and holds a
+// sheet to the bounds of a CSV file.
+func TestWorkbookMembersAndLimits(t *testing.T) {
+	book := func(rows [][]any) []byte {
+		f := excelize.NewFile()
+		defer f.Close()
+		for i, r := range rows {
+			cell, _ := excelize.CoordinatesToCellName(1, i+1)
+			if err := f.SetSheetRow("Sheet1", cell, &r); err != nil {
+				t.Fatal(err)
+			}
+		}
+		var buf bytes.Buffer
+		if _, err := f.WriteTo(&buf); err != nil {
+			t.Fatal(err)
+		}
+		return buf.Bytes()
+	}
+	head := []any{"bridge_id", "member", "capacity_tension_kn", "capacity_compression_kn", "condition_factor"}
+	wide := make([]any, maxFields+1)
+	for i := range wide {
+		wide[i] = "x"
+	}
+	long := []any{"NME-1", strings.Repeat("L", maxIDChars+1), 100, 100, 1}
+	cases := []struct {
+		name string
+		rows [][]any
+		want string // the first error; "" for none
+		n    int    // rows passed on
+	}{
+		{"good rows, a note and an empty row skipped", [][]any{{"# stored capacities, invented"}, head, {"NME-1", "L0-L1", 1500.5, 1200, 0.9}, {}, {"NME-1", "U1-U2", 900, 850}}, "", 2},
+		{"a label beyond its length", [][]any{head, long}, `members.xlsx sheet "Sheet1" row 2, column B (member), value "` + strings.Repeat("L", 39) + `…": 65 characters; member takes at most 64`, 0},
+		{"a row of too many cells", [][]any{head, wide}, `members.xlsx sheet "Sheet1" row 2: 1001 cells; at most 1000 are read`, 0},
+		{"a bad value", [][]any{head, {"NME-1", "L0-L1", "lots", 100, 1}}, `members.xlsx sheet "Sheet1" row 2, column C (capacity_tension_kn), value "lots": not a number`, 0},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			n := 0
+			_, err := parseMembers("members.xlsx", bytes.NewReader(book(c.rows)), "", geometryStub{}, func(store.Staged[store.Member]) bool { n++; return true })
+			if n != c.n {
+				t.Errorf("%d rows passed on, want %d", n, c.n)
+			}
+			if c.want == "" {
+				if err != nil {
+					t.Fatal(err)
+				}
+				return
+			}
+			if err == nil {
+				t.Fatal("no error")
+			}
+			if got := fieldErrors(t, err)[0].Error(); !strings.HasPrefix(got, c.want) {
+				t.Errorf("got  %s\nwant %s", got, c.want)
+			}
+		})
+	}
+}
