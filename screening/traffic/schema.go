@@ -49,6 +49,20 @@ func shapeOf(n *yaml.Node, t reflect.Type, path string, fail func(at *yaml.Node,
 		keys := yamlKeys(t)
 		for i := 0; i+1 < len(n.Content); i += 2 {
 			k, v := n.Content[i], n.Content[i+1]
+			if k.Kind == yaml.ScalarNode && k.ShortTag() == "!!merge" {
+				// "<<: *base" merges another mapping's keys, or a list of mappings'.
+				for j := 0; v.Kind == yaml.AliasNode && v.Alias != nil && j < maxAliasDepth; j++ {
+					v = v.Alias
+				}
+				if v.Kind == yaml.SequenceNode {
+					for _, m := range v.Content {
+						shapeOf(m, t, path, fail)
+					}
+				} else {
+					shapeOf(v, t, path, fail)
+				}
+				continue
+			}
 			f, ok := keys[k.Value]
 			if !ok || k.Kind != yaml.ScalarNode {
 				msg := fmt.Sprintf("unknown key %q", excerpt.Cut(k.Value))

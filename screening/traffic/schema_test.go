@@ -61,6 +61,32 @@ consist:
 	}
 }
 
+// TestTrainFileAnchors checks that anchors, aliases and merged keys pass the shape check,
+// and that a misspelt key in a merged mapping is still found.
+func TestTrainFileAnchors(t *testing.T) {
+	good := `name: T
+vehicles:
+  - &wagon
+    id: w
+    length: 14
+    axles: [{at: 1.5, load: 200}, {at: 12.5, load: 200}]
+  - <<: *wagon
+    id: v
+consist:
+  - {vehicle: w, count: 1}
+  - {vehicle: v, count: 1}
+`
+	if _, err := ParseTrainFile("x.yaml", []byte(good)); err != nil {
+		t.Errorf("good file: %v", err)
+	}
+	bad := strings.Replace(good, "    length: 14", "    lenth: 14", 1)
+	_, err := ParseTrainFile("x.yaml", []byte(bad))
+	want := `x.yaml line 5, column 5: vehicles[0]: unknown key "lenth" (did you mean "length"?)`
+	if err == nil || !strings.HasPrefix(err.Error(), want) {
+		t.Errorf("error:\n got %v\nwant %s", err, want)
+	}
+}
+
 func TestEditDistance(t *testing.T) {
 	cases := []struct {
 		name, a, b string
