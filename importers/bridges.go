@@ -71,6 +71,12 @@ var trussColumn = map[string]column{
 type Report struct {
 	// Ignored lists columns the header has that trussfleet does not use.
 	Ignored []string
+	// Format says how the file was read when it is not UTF-8 text separated by commas:
+	// "semicolon-separated, decimal comma", "UTF-16 LE", "sheet \"Bridges\" of an .xlsx
+	// workbook"; "" otherwise.
+	Format string
+	// Sheet is the workbook's sheet read, "" for a text file.
+	Sheet string
 	// columns maps the header's names to their 1-based positions.
 	columns map[string]int
 }
@@ -80,7 +86,12 @@ type Report struct {
 // The error, if any, is a *FileErrors holding every problem found; a file with an error
 // must not be written.
 func ParseBridges(file string, r io.Reader, emit func(store.Staged[store.Bridge]) bool) (Report, error) {
-	return parseRows(file, r, bridgeColumns, func(rec bridgeRecord, p *row) bool {
+	return parseBridges(file, r, "", emit)
+}
+
+// parseBridges is ParseBridges reading the named sheet of a workbook ("": the first).
+func parseBridges(file string, r io.Reader, sheet string, emit func(store.Staged[store.Bridge]) bool) (Report, error) {
+	return parseRows(file, r, sheet, bridgeColumns, func(rec bridgeRecord, p *row) bool {
 		b, ok := parseBridge(rec, p)
 		return !ok || emit(store.Staged[store.Bridge]{Line: p.line, Row: b})
 	})
@@ -88,13 +99,14 @@ func ParseBridges(file string, r io.Reader, emit func(store.Staged[store.Bridge]
 
 // parseRows runs the shared part of every CSV parser: the header, the decoding, and the
 // gathering of errors.
-func parseRows[T record](file string, r io.Reader, known []column, f func(T, *row) bool) (Report, error) {
+func parseRows[T record](file string, r io.Reader, sheet string, known []column, f func(T, *row) bool) (Report, error) {
 	errs := &errorList{file: file}
-	src := newCSVSource(file, r, errs, known)
+	src := newCSVSource(file, r, sheet, errs, known)
 	if src == nil {
 		return Report{}, errs.err()
 	}
-	rep := Report{Ignored: src.unknown(known), columns: map[string]int{}}
+	defer src.close()
+	rep := Report{Ignored: src.unknown(known), Format: src.input.format, Sheet: src.input.sheet, columns: map[string]int{}}
 	for name := range src.index {
 		rep.columns[name] = src.col(name)
 	}

@@ -1,7 +1,6 @@
 package importers
 
 import (
-	"bufio"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -50,8 +49,9 @@ func (c column) limit() int {
 // the source keeps its errors apart (errs, read once decode has returned) and the stop flag
 // is atomic.
 type csvSource struct {
-	r       *csv.Reader
-	in      *boundedReader
+	r       records
+	in      *boundedReader // nil for a workbook's sheet
+	input   *input
 	errs    *errorList
 	header  []string       // normalised names
 	index   map[string]int // name -> 0-based position
@@ -61,30 +61,50 @@ type csvSource struct {
 	stopped atomic.Bool
 }
 
-// newCSVSource reads and checks the header against the known columns, recording problems
-// in errs. It returns nil when the header is unusable.
-func newCSVSource(file string, r io.Reader, errs *errorList, known []column) *csvSource {
-	in := newBoundedReader(r)
-	cr := csv.NewReader(bufio.NewReaderSize(in, csvBuffer))
-	cr.FieldsPerRecord = -1 // checked here, to report and go on
-	cr.ReuseRecord = false
-	cr.TrimLeadingSpace = true // so that ` "a, b"` is a quoted field
-	cr.Comment = '#'           // a line starting with # is a note, e.g. the caution of a listing
-	s := &csvSource{r: cr, in: in, errs: errs, index: map[string]int{}, nextRow: 1}
+// newCSVSource opens the file (openInput: text of any of the encodings and separators
+// recognised, or a sheet of a workbook, the first when sheet is ""), reads and checks the
+// header against the known columns, recording problems in errs. It returns nil when the
+// file or its header is unusable; otherwise the caller closes it.
+func newCSVSource(file string, r io.Reader, sheet string, errs *errorList, known []column) *csvSource {
+	in := openInput(r, sheet, errs)
+	if in == nil {
+		return nil
+	}
+	errs.sheet = in.sheet
+	s := &csvSource{r: in.recs, in: in.bounded, input: in, errs: errs, index: map[string]int{}, nextRow: 1}
 	// From here on the source's errors go in a list of its own (see csvSource).
-	defer func() { s.errs = &errorList{file: file} }()
+	defer func() { s.errs = &errorList{file: file, sheet: in.sheet} }()
+	ok := s.readHeader(errs, known)
+	if !ok {
+		if len(in.otherSheets) > 0 {
+			errs.add(&FieldError{Msg: fmt.Sprintf("the first sheet, %q, was read; the workbook's other sheets: %s (name the one to read)",
+				in.sheet, excerpt.List(in.otherSheets, 20))})
+			errs.sort()
+		}
+		in.close()
+		return nil
+	}
+	return s
+}
+
+// close releases what the source holds open (a workbook's parts).
+func (s *csvSource) close() { s.input.close() }
+
+// readHeader reads the header and checks it against the known columns.
+func (s *csvSource) readHeader(errs *errorList, known []column) bool {
 	head, err := s.read()
 	if errors.Is(err, io.EOF) {
 		errs.add(&FieldError{Line: 1, Msg: "the file is empty: a header row naming the columns is needed"})
-		return nil
+		return false
 	}
 	if err != nil {
-		s.parseError(err)
-		return nil
+		s.parseError(err) // s.errs is still errs
+		return false
 	}
+	hl, _ := s.r.FieldPos(0) // the header's line: blank lines and notes may come before it
 	if len(head) > maxFields {
-		errs.add(&FieldError{Line: 1, Msg: fmt.Sprintf("the header has %d columns; at most %d are read", len(head), maxFields)})
-		return nil
+		errs.add(&FieldError{Line: hl, Msg: fmt.Sprintf("the header has %d columns; at most %d are read", len(head), maxFields)})
+		return false
 	}
 	if len(head) > 0 {
 		head[0] = strings.TrimPrefix(head[0], "\ufeff")
@@ -95,19 +115,19 @@ func newCSVSource(file string, r io.Reader, errs *errorList, known []column) *cs
 		s.header = append(s.header, name)
 		switch {
 		case strings.IndexByte(h, 0) >= 0:
-			errs.add(&FieldError{Line: 1, Column: i + 1, Value: strings.ToValidUTF8(h, "\uFFFD"), Msg: nulMsg(h)})
+			errs.add(&FieldError{Line: hl, Column: i + 1, Value: strings.ToValidUTF8(h, "\uFFFD"), Msg: nulMsg(h)})
 			bad = true
 		case !utf8.ValidString(h):
-			errs.add(&FieldError{Line: 1, Column: i + 1, Value: strings.ToValidUTF8(h, "\uFFFD"), Msg: "header is not valid UTF-8 text (is this a CSV file?)"})
+			errs.add(&FieldError{Line: hl, Column: i + 1, Value: strings.ToValidUTF8(h, "\uFFFD"), Msg: "header is not valid UTF-8 text (is this a CSV file?)"})
 			bad = true
 		case name == "":
 			// A trailing separator gives an empty name; a column without a name is ignored.
 		case name == lineColumn:
-			errs.add(&FieldError{Line: 1, Column: i + 1, Value: h, Msg: "reserved column name"})
+			errs.add(&FieldError{Line: hl, Column: i + 1, Value: h, Msg: "reserved column name"})
 			bad = true
 		default:
 			if j, dup := s.index[name]; dup {
-				errs.add(&FieldError{Line: 1, Column: i + 1, Value: h, Msg: fmt.Sprintf("column named twice (also column %d)", j+1)})
+				errs.add(&FieldError{Line: hl, Column: i + 1, Value: h, Msg: fmt.Sprintf("column named twice (also column %d)", j+1)})
 				bad = true
 				continue
 			}
@@ -119,7 +139,7 @@ func newCSVSource(file string, r io.Reader, errs *errorList, known []column) *cs
 		_, hasAlt := s.index[c.alt]
 		switch {
 		case has && hasAlt:
-			errs.add(&FieldError{Line: 1, Column: s.index[c.alt] + 1, Value: c.alt,
+			errs.add(&FieldError{Line: hl, Column: s.index[c.alt] + 1, Value: c.alt,
 				Msg: fmt.Sprintf("give %s or %s, not both", c.name, c.alt)})
 			bad = true
 		case c.required && !has && !hasAlt:
@@ -127,12 +147,12 @@ func newCSVSource(file string, r io.Reader, errs *errorList, known []column) *cs
 			if c.alt != "" {
 				msg += " (or " + c.alt + ")"
 			}
-			errs.add(&FieldError{Line: 1, Msg: msg + "; the header has: " + excerpt.List(s.named(), 30)})
+			errs.add(&FieldError{Line: hl, Msg: msg + "; the header has: " + excerpt.List(s.named(), 30)})
 			bad = true
 		}
 	}
 	if bad {
-		return nil
+		return false
 	}
 	s.limits = make([]int, len(s.header))
 	for _, c := range known {
@@ -142,15 +162,18 @@ func newCSVSource(file string, r io.Reader, errs *errorList, known []column) *cs
 			}
 		}
 	}
-	return s
+	return true
 }
 
 // read reads one record and notes where it ended: the offset, for the row limit of the
 // bounded reader, and the line, for its message.
 func (s *csvSource) read() ([]string, error) {
 	rec, err := s.r.Read()
-	s.in.rowStart = s.r.InputOffset()
+	if cr, ok := s.r.(*csv.Reader); ok && s.in != nil {
+		s.in.rowStart = cr.InputOffset()
+	}
 	var pe *csv.ParseError
+	var se *sheetError
 	switch {
 	case err == nil && len(rec) > 0:
 		// The last field may be quoted over several lines; the CSV reader makes each line
@@ -159,6 +182,8 @@ func (s *csvSource) read() ([]string, error) {
 		s.nextRow = line + strings.Count(rec[len(rec)-1], "\n") + 1
 	case errors.As(err, &pe):
 		s.nextRow = pe.Line + 1
+	case errors.As(err, &se):
+		s.nextRow = se.row + 1
 	}
 	return rec, err
 }
@@ -234,7 +259,8 @@ func (s *csvSource) Read() ([]string, error) {
 		}
 		if err != nil {
 			var pe *csv.ParseError
-			if !errors.As(err, &pe) {
+			var se *sheetError
+			if !errors.As(err, &pe) && !errors.As(err, &se) {
 				return nil, err // the file could not be read
 			}
 			s.parseError(err)
@@ -328,6 +354,11 @@ func (s *csvSource) parseError(err error) {
 			return
 		}
 		s.errs.add(&FieldError{Line: le.line, Msg: le.msg()})
+		return
+	}
+	var se *sheetError
+	if errors.As(err, &se) {
+		s.errs.add(&FieldError{Line: se.row, Msg: se.msg})
 		return
 	}
 	if errors.As(err, &pe) {

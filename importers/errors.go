@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"github.com/trussfleet/trussfleet/internal/excerpt"
+	"github.com/xuri/excelize/v2"
 )
 
 // MaxErrors is how many errors of one file are kept; the rest are counted.
@@ -16,6 +17,7 @@ const MaxErrors = 200
 // (an excerpt of it, once the error is in a file's list).
 type FieldError struct {
 	File   string
+	Sheet  string // the sheet of a workbook; Line is then its row
 	Line   int
 	Column int    // 0 when the problem is the whole row or file
 	Field  string // column name, when known
@@ -26,16 +28,27 @@ type FieldError struct {
 func (e *FieldError) Error() string {
 	var b strings.Builder
 	b.WriteString(e.File)
-	if e.Line > 0 {
-		fmt.Fprintf(&b, " line %d", e.Line)
-	}
-	if e.Column > 0 {
-		fmt.Fprintf(&b, ", column %d", e.Column)
+	switch {
+	case e.Sheet != "":
+		fmt.Fprintf(&b, " sheet %q", e.Sheet)
+		if e.Line > 0 {
+			fmt.Fprintf(&b, " row %d", e.Line)
+		}
+		if name, err := excelize.ColumnNumberToName(e.Column); err == nil && e.Column > 0 {
+			fmt.Fprintf(&b, ", column %s", name)
+		}
+	default:
+		if e.Line > 0 {
+			fmt.Fprintf(&b, " line %d", e.Line)
+		}
+		if e.Column > 0 {
+			fmt.Fprintf(&b, ", column %d", e.Column)
+		}
 	}
 	if e.Field != "" {
 		fmt.Fprintf(&b, " (%s)", e.Field)
 	}
-	if e.Column > 0 || e.Field != "" {
+	if e.Field != "" || e.Value != "" {
 		fmt.Fprintf(&b, ", value %q", excerpt.Cut(e.Value))
 	}
 	b.WriteString(": ")
@@ -80,12 +93,18 @@ func (e *FileErrors) Unwrap() []error {
 // errorList collects a file's errors up to MaxErrors.
 type errorList struct {
 	file  string
+	sheet string // the workbook's sheet read, if any
 	errs  []*FieldError
 	extra int
 }
 
 func (l *errorList) add(e *FieldError) {
-	e.File = l.file
+	if e.File == "" { // a directory's list names each error's own file
+		e.File = l.file
+	}
+	if e.Sheet == "" {
+		e.Sheet = l.sheet
+	}
 	e.Value = excerpt.Cut(e.Value) // the list keeps no input longer than a message quotes
 	if len(l.errs) < MaxErrors {
 		l.errs = append(l.errs, e)
@@ -102,6 +121,11 @@ func (l *errorList) merge(o *errorList) {
 		l.add(e)
 	}
 	l.extra += o.extra
+	l.sort()
+}
+
+// sort orders the errors by line and column; the file's own errors (line 0) come first.
+func (l *errorList) sort() {
 	sort.SliceStable(l.errs, func(i, j int) bool {
 		a, b := l.errs[i], l.errs[j]
 		if a.Line != b.Line {

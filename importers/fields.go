@@ -6,6 +6,8 @@ import (
 	"strconv"
 	"strings"
 	"time"
+
+	"github.com/xuri/excelize/v2"
 )
 
 // Unit conversions for imperial columns (exact by definition for the foot; the kip is
@@ -54,16 +56,55 @@ func (p *row) number(name, v string, required bool) *float64 {
 		}
 		return nil
 	}
-	if !plainDecimal(v) {
-		p.fail(name, v, "not a number (use a decimal point, no thousands separators or units)")
+	text := v
+	if p.src.input.decimalComma {
+		var msg string
+		if text, msg = fromDecimalComma(v); msg != "" {
+			p.fail(name, v, "%s", msg)
+			return nil
+		}
+	}
+	if !plainDecimal(text) {
+		if p.src.input.decimalComma {
+			p.fail(name, v, "not a number (use a decimal comma or point, no thousands separators or units)")
+		} else {
+			p.fail(name, v, "not a number (use a decimal point, no thousands separators or units)")
+		}
 		return nil
 	}
-	f, err := strconv.ParseFloat(v, 64)
+	f, err := strconv.ParseFloat(text, 64)
 	if err != nil || math.IsInf(f, 0) || math.IsNaN(f) {
 		p.fail(name, v, "not a finite number")
 		return nil
 	}
 	return &f
+}
+
+// fromDecimalComma reads a number of a file written with decimal commas ("48,5") as one
+// with a decimal point ("48.5"), or says why it cannot: a thousands separator would make a
+// value mean one of two numbers, so none is read.
+func fromDecimalComma(v string) (string, string) {
+	commas, points := strings.Count(v, ","), strings.Count(v, ".")
+	switch {
+	case commas > 0 && points > 0:
+		return "", "both a point and a comma: thousands separators are not read; write the number without them (1234,5)"
+	case commas > 1:
+		return "", "more than one comma: thousands separators are not read; write the number without them (1234,5)"
+	case commas == 1:
+		return strings.Replace(v, ",", ".", 1), ""
+	case points == 1 && thousandsLike(v):
+		return "", "ambiguous in a file with decimal commas: the point may separate thousands; write it with a decimal comma (12,5) or without a separator (12500)"
+	}
+	return v, ""
+}
+
+// thousandsLike reports whether v reads as a whole number with a point between thousands:
+// one to three digits, not starting with 0, a point, three digits ("12.500").
+func thousandsLike(v string) bool {
+	v = strings.TrimLeft(v, "+-")
+	whole, frac, _ := strings.Cut(v, ".")
+	digits := func(s string) bool { return strings.Trim(s, "0123456789") == "" }
+	return len(whole) >= 1 && len(whole) <= 3 && whole[0] != '0' && digits(whole) && len(frac) == 3 && digits(frac)
 }
 
 func plainDecimal(v string) bool {
@@ -128,6 +169,15 @@ func (p *row) integer(name, v string, required bool, def int) int {
 func (p *row) date(name, v string) *time.Time {
 	if v == "" {
 		return nil
+	}
+	if p.src.input.sheet != "" {
+		// A workbook keeps a date as a serial number of days; its raw value is that number.
+		if serial, err := strconv.ParseFloat(v, 64); err == nil && serial >= 1 && serial < 2958466 {
+			if d, err := excelize.ExcelDateToTime(serial, false); err == nil {
+				d = time.Date(d.Year(), d.Month(), d.Day(), 0, 0, 0, 0, time.UTC)
+				return &d
+			}
+		}
 	}
 	d, err := time.Parse(time.DateOnly, v)
 	if err != nil {

@@ -21,6 +21,8 @@ func FuzzParseBridges(f *testing.F) {
 	}
 	f.Add([]byte(bridgeHeader + "A,\"x, y\",Main,1,pratt,48,8,6,through,15\r\n\r\n"))
 	f.Add([]byte("\ufeffbridge_id,truss_type\n\"unterminated\n"))
+	f.Add(semicolonFile)
+	f.Add(utf16File(string(semicolonFile), true))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		_, err := ParseBridges("fuzz.csv", bytes.NewReader(data), func(r store.Staged[store.Bridge]) bool {
 			b := r.Row

@@ -18,6 +18,8 @@ type Options struct {
 	// Check validates the file and computes the counts an import would give, inside a
 	// transaction that is rolled back: nothing is written.
 	Check bool
+	// Sheet names the sheet of an .xlsx workbook to read; "" reads the first.
+	Sheet string
 }
 
 // Result says what an import did (or, with Options.Check, would do).
@@ -26,6 +28,7 @@ type Result struct {
 	Kind    store.Kind
 	Counts  store.Counts
 	Ignored []string // columns of the file that trussfleet does not use
+	Format  string   // how the file was read, when not UTF-8 with commas (Report.Format)
 	Checked bool     // Options.Check: nothing was written
 	BatchID int64    // the import_batches row, 0 when nothing was written
 	SHA256  string   // of the file as read
@@ -55,7 +58,7 @@ func withFile(path string, f func(*os.File) (Result, error)) (Result, error) {
 func ImportBridges(ctx context.Context, db *store.DB, file string, r io.Reader, opts Options) (Result, error) {
 	return load(ctx, db, store.KindBridges, file, r, opts, []string{"bridge_id"},
 		func(r io.Reader, emit func(store.Staged[store.Bridge]) bool) (Report, error) {
-			return ParseBridges(file, r, emit)
+			return parseBridges(file, r, opts.Sheet, emit)
 		})
 }
 
@@ -73,7 +76,7 @@ func ImportMembers(ctx context.Context, db *store.DB, file string, r io.Reader, 
 	geom := NewStoredGeometry(bridges).WithTrains(trains)
 	return load(ctx, db, store.KindMembers, file, r, opts, []string{"bridge_id", "member"},
 		func(r io.Reader, emit func(store.Staged[store.Member]) bool) (Report, error) {
-			return ParseMembers(file, r, geom, emit)
+			return parseMembers(file, r, opts.Sheet, geom, emit)
 		})
 }
 
@@ -93,7 +96,7 @@ func load[T store.Row](ctx context.Context, db *store.DB, kind store.Kind, file 
 	_, err = store.Stage(ctx, im, func(yield func(store.Staged[T]) bool) {
 		rep, perr = parse(io.TeeReader(r, h), yield)
 	})
-	res.Ignored = rep.Ignored
+	res.Ignored, res.Format = rep.Ignored, rep.Format
 	if perr != nil {
 		return res, perr
 	}
@@ -123,7 +126,7 @@ func duplicateErrors(ctx context.Context, im *store.Import, file string, key []s
 	if err != nil || len(dups) == 0 {
 		return err
 	}
-	errs := &errorList{file: file}
+	errs := &errorList{file: file, sheet: rep.Sheet}
 	last := key[len(key)-1]
 	for _, d := range dups {
 		for _, line := range d.Lines[1:] {

@@ -185,6 +185,18 @@ func TestImportTrains(t *testing.T) {
 			t.Errorf("error %v: want one naming b.yaml", err)
 		}
 	})
+	t.Run("a misspelt key is named once with its file and line", func(t *testing.T) {
+		dir := t.TempDir()
+		good, _ := os.ReadFile(files[0])
+		os.WriteFile(filepath.Join(dir, "a.yaml"), good, 0o644)
+		f := filepath.Join(dir, "x.yaml")
+		os.WriteFile(f, []byte("name: X\nvehicles:\n  - id: w\n    lenght: 14\n    axles: [{at: 1, load: 100}]\nconsist:\n  - {vehicle: w, count: 1}\n"), 0o644)
+		_, err := ImportTrains(ctx, db, dir, Options{})
+		want := dir + ": 1 error, nothing written\n  " + f + ` line 4, column 5: vehicles[0]: unknown key "lenght" (did you mean "length"?)`
+		if err == nil || err.Error() != want {
+			t.Errorf("error:\n got %v\nwant %s", err, want)
+		}
+	})
 	t.Run("a train beyond the limits writes nothing", func(t *testing.T) {
 		before, _ := db.Trains(ctx)
 		dir := t.TempDir()

@@ -130,7 +130,12 @@ func (g *StoredGeometry) Labels(bridgeID string) (map[string]string, []string, s
 // ParseMembers reads a members CSV file from r, checking every row against the stored
 // bridges' geometry, and calls emit with each good row, as ParseBridges does.
 func ParseMembers(file string, r io.Reader, geom Geometry, emit func(store.Staged[store.Member]) bool) (Report, error) {
-	return parseRows(file, r, memberColumns, func(rec memberRecord, p *row) bool {
+	return parseMembers(file, r, "", geom, emit)
+}
+
+// parseMembers is ParseMembers reading the named sheet of a workbook ("": the first).
+func parseMembers(file string, r io.Reader, sheet string, geom Geometry, emit func(store.Staged[store.Member]) bool) (Report, error) {
+	return parseRows(file, r, sheet, memberColumns, func(rec memberRecord, p *row) bool {
 		m, ok := parseMember(rec, p, geom)
 		return !ok || emit(store.Staged[store.Member]{Line: p.line, Row: m})
 	})

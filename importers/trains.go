@@ -4,6 +4,7 @@ import (
 	"context"
 	"crypto/sha256"
 	"encoding/hex"
+	"errors"
 	"fmt"
 	"io"
 	"os"
@@ -37,11 +38,11 @@ func ImportTrains(ctx context.Context, db *store.DB, path string, opts Options) 
 	for i, f := range files {
 		t, err := readTrain(f)
 		if err != nil {
-			errs.add(&FieldError{Msg: err.Error()})
+			addTrainErrors(errs, f, err)
 			continue
 		}
 		if first, dup := seen[t.Name]; dup {
-			errs.add(&FieldError{Msg: fmt.Sprintf("%s: train name %q is also the name of the train in %s", f, excerpt.Cut(t.Name), first)})
+			errs.add(&FieldError{File: f, Msg: fmt.Sprintf("train name %q is also the name of the train in %s", excerpt.Cut(t.Name), first)})
 			continue
 		}
 		seen[t.Name] = f
@@ -134,4 +135,29 @@ func readTrain(path string) (store.Train, error) {
 	}
 	sum := sha256.Sum256(data)
 	return store.Train{Name: t.Name, FileName: filepath.Base(path), Source: string(data), SHA256: hex.EncodeToString(sum[:])}, nil
+}
+
+// addTrainErrors adds a train file's errors to errs, each naming the file once with its line
+// and the key at fault.
+func addTrainErrors(errs *errorList, file string, err error) {
+	for _, e := range unjoin(err) {
+		var fe *traffic.FileError
+		if !errors.As(e, &fe) {
+			errs.add(&FieldError{File: file, Msg: strings.TrimPrefix(e.Error(), file+": ")})
+			continue
+		}
+		msg := fe.Msg
+		if fe.Field != "" {
+			msg = fe.Field + ": " + msg
+		}
+		errs.add(&FieldError{File: file, Line: fe.Line, Column: fe.Column, Msg: msg})
+	}
+}
+
+// unjoin lists the errors of an errors.Join, or err alone.
+func unjoin(err error) []error {
+	if j, ok := err.(interface{ Unwrap() []error }); ok {
+		return j.Unwrap()
+	}
+	return []error{err}
 }

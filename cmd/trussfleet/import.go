@@ -25,6 +25,7 @@ natural key (bridge_id; bridge_id and member; train name): new rows are inserted
 updated, and re-importing the same file changes nothing.`,
 	}
 	cmd.PersistentFlags().BoolVar(&check, "check", false, "check the file and show what would change; write nothing")
+	var sheet string
 	sub := func(use, short string, run func(ctx context.Context, db *store.DB, path string, o importers.Options) (importers.Result, error)) *cobra.Command {
 		return &cobra.Command{Use: use, Short: short, Args: cobra.ExactArgs(1),
 			RunE: func(cmd *cobra.Command, args []string) error {
@@ -33,7 +34,7 @@ updated, and re-importing the same file changes nothing.`,
 					return err
 				}
 				defer db.Close()
-				res, err := run(cmd.Context(), db, args[0], importers.Options{Check: check})
+				res, err := run(cmd.Context(), db, args[0], importers.Options{Check: check, Sheet: sheet})
 				if err != nil {
 					return err
 				}
@@ -41,9 +42,12 @@ updated, and re-importing the same file changes nothing.`,
 				return nil
 			}}
 	}
-	cmd.AddCommand(
-		sub("bridges FILE", "Import bridges.csv: one row per span", importers.ImportBridgesFile),
-		sub("members FILE", "Import members.csv: members' stored capacities (the bridges must be imported first)", importers.ImportMembersFile),
+	bridges := sub("bridges FILE", "Import bridges.csv (or a sheet of an .xlsx workbook): one row per span", importers.ImportBridgesFile)
+	members := sub("members FILE", "Import members.csv (or a sheet of an .xlsx workbook): members' stored capacities (the bridges must be imported first)", importers.ImportMembersFile)
+	for _, c := range []*cobra.Command{bridges, members} {
+		c.Flags().StringVar(&sheet, "sheet", "", "the sheet of an .xlsx workbook to read (default: the first)")
+	}
+	cmd.AddCommand(bridges, members,
 		sub("trains FILE|DIR", "Import a train file, or every .yaml train file of a directory", importers.ImportTrains),
 	)
 	return cmd
@@ -57,6 +61,10 @@ func printImport(w io.Writer, r importers.Result) {
 	} else {
 		fmt.Fprintf(w, "%s: %s: %d inserted, %d updated, %d unchanged (import %d, sha256 %s)\n",
 			r.File, plural(c.Rows, "row"), c.Inserted, c.Updated, c.Unchanged, r.BatchID, r.SHA256)
+	}
+	if r.Format != "" {
+		// A sheet's name is the workbook's own text.
+		fmt.Fprintf(w, "  read as %s\n", safetext.Terminal(r.Format))
 	}
 	if len(r.Ignored) > 0 {
 		// The names are the file's own header text.

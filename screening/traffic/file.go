@@ -1,11 +1,9 @@
 package traffic
 
 import (
-	"bytes"
 	"cmp"
 	"errors"
 	"fmt"
-	"io"
 	"math"
 	"slices"
 	"strconv"
@@ -50,12 +48,6 @@ type partFile struct {
 	To   *float64 `yaml:"to"`
 	Q    *float64 `yaml:"q"`
 	Mode string   `yaml:"mode"`
-}
-
-// fileTypes names the parts of a train file for messages, by the type that decodes them.
-var fileTypes = map[string]string{
-	"traffic.trainFile": "train", "traffic.vehicleFile": "vehicle", "traffic.axleFile": "axle",
-	"traffic.groupFile": "consist entry", "traffic.partFile": "distributed part",
 }
 
 // units converts a file's lengths, loads and distributed loads to m, kN and kN/m.
@@ -105,29 +97,24 @@ func ParseTrainFile(filename string, data []byte) (*Train, error) {
 	if err := checkText(filename, data); err != nil {
 		return nil, err
 	}
-	var f trainFile
-	dec := yaml.NewDecoder(bytes.NewReader(data))
-	dec.KnownFields(true)
-	if err := dec.Decode(&f); err != nil {
-		if errors.Is(err, io.EOF) {
-			return nil, fmt.Errorf("%s: empty train file", filename)
-		}
-		var te *yaml.TypeError
-		if errors.As(err, &te) {
-			// An unknown field's name is quoted whole by the decoder: quote an excerpt.
-			for i, m := range te.Errors {
-				if pre, rest, ok := strings.Cut(m, ": field "); ok {
-					if name, typ, ok := strings.Cut(rest, " not found in type "); ok {
-						te.Errors[i] = fmt.Sprintf("%s: unknown field %q (the fields of a %s are in docs/trains.md)", pre, excerpt.Cut(name), fileTypes[typ])
-					}
-				}
-			}
-		}
-		return nil, fmt.Errorf("%s: %w", filename, err)
-	}
-	// The same text once more as a tree of nodes, for the line and column of each field.
+	// The text first as a tree of nodes: its shape is checked against the format, with the
+	// line and column of each key, before it is decoded.
 	var root yaml.Node
-	_ = yaml.Unmarshal(data, &root)
+	if err := yaml.Unmarshal(data, &root); err != nil {
+		return nil, &FileError{File: filename, Line: syntaxLine(err), Msg: syntaxMsg(err)}
+	}
+	if len(root.Content) == 0 {
+		return nil, &FileError{File: filename, Msg: "empty train file"}
+	}
+	if fes := checkShape(filename, &root); len(fes) > 0 {
+		return nil, joinFileErrors(fes)
+	}
+	var f trainFile
+	if err := root.Decode(&f); err != nil {
+		// checkShape has let through something the decoder refuses: say it without the
+		// decoder's type names.
+		return nil, &FileError{File: filename, Msg: "cannot be read as a train file: " + syntaxMsg(err)}
+	}
 	t, probs := f.train()
 	if len(probs) == 0 {
 		// The file's own checks cover the train's invariants; this is their last word.
@@ -142,14 +129,43 @@ func ParseTrainFile(filename string, data []byte) (*Train, error) {
 			line, col := locate(&root, p.field)
 			fes[i] = &FileError{File: filename, Line: line, Column: col, Field: p.field, Msg: p.msg}
 		}
-		slices.SortStableFunc(fes, func(a, b *FileError) int { return cmp.Or(a.Line-b.Line, a.Column-b.Column) })
-		errs := make([]error, len(fes))
-		for i, fe := range fes {
-			errs[i] = fe
-		}
-		return nil, errors.Join(errs...)
+		return nil, joinFileErrors(fes)
 	}
 	return t, nil
+}
+
+// joinFileErrors sorts a file's errors by line and column and joins them.
+func joinFileErrors(fes []*FileError) error {
+	slices.SortStableFunc(fes, func(a, b *FileError) int { return cmp.Or(a.Line-b.Line, a.Column-b.Column) })
+	errs := make([]error, len(fes))
+	for i, fe := range fes {
+		errs[i] = fe
+	}
+	return errors.Join(errs...)
+}
+
+// syntaxLine is the line a YAML syntax error names ("yaml: line 3: ..."), 0 when none.
+func syntaxLine(err error) int {
+	_, rest, ok := strings.Cut(err.Error(), "line ")
+	if !ok {
+		return 0
+	}
+	end := strings.IndexFunc(rest, func(r rune) bool { return r < '0' || r > '9' })
+	if end < 0 {
+		end = len(rest)
+	}
+	n, _ := strconv.Atoi(rest[:end])
+	return n
+}
+
+// syntaxMsg is a YAML error's message without the decoder's prefix and line.
+func syntaxMsg(err error) string {
+	m := strings.TrimPrefix(err.Error(), "yaml: ")
+	m = strings.TrimPrefix(m, "unmarshal errors:\n  ")
+	if pre, rest, ok := strings.Cut(m, ": "); ok && strings.HasPrefix(pre, "line ") {
+		m = rest
+	}
+	return "not YAML as docs/trains.md describes it: " + m
 }
 
 // checkText refuses a file that is not text, at the line and column of the first NUL byte
