@@ -260,6 +260,7 @@ type rowView struct {
 	Rank, RankKey, Km, KmKey, Span, SpanKey string
 	RFEx, RFExKey, RFPr, RFPrKey, RFClass   string
 	Change, ChangeKey, Rise, RiseKey        string
+	Unrated, UnratedKey                     string
 	Flags                                   []string
 	Governing, GovSense, Inspected, Error   string
 }
@@ -362,6 +363,7 @@ func rowOf(run Run, r BridgeRow, href string) rowView {
 		Change: pctText(r.Change), ChangeKey: sortKey(r.Change),
 		Rise: pctText(&r.DemandIncrease), RiseKey: sortKey(&r.DemandIncrease),
 		Flags: r.Flags, Inspected: orDash(r.LastInspected), Error: r.Error,
+		Unrated: strconv.Itoa(r.Unrated), UnratedKey: strconv.Itoa(r.Unrated),
 	}
 	if r.Rank == 0 {
 		v.Rank, v.RankKey = dash, ""
@@ -373,6 +375,18 @@ func rowOf(run Run, r BridgeRow, href string) rowView {
 		v.Governing, v.GovSense = r.GoverningTrain, r.GoverningSense
 	}
 	return v
+}
+
+// unratedFact is the bridge page's line on its unrated members.
+func unratedFact(run Run, n int) string {
+	if n == 0 {
+		return "none"
+	}
+	s := fmt.Sprintf("%d loaded in a sense with no capacity and no stored RF rated in that sense", n)
+	if !run.FlagUnrated {
+		s += " (not flagged: thresholds.flag_unrated is off)"
+	}
+	return s
 }
 
 func rfClass(run Run, rf *float64) string {
@@ -449,6 +463,7 @@ func bridgePage(run Run, b Bridge) bridgeView {
 		{"worst member", orDash(r.WorstMember)},
 		{"RF existing → proposed", rfText(r.RFExisting) + " → " + rfText(r.RFProposed)},
 		{"headroom", optNum(r.Headroom, 2) + " × proposed"},
+		{"unrated members", unratedFact(run, r.Unrated)},
 		{"inspected", orDash(r.LastInspected)},
 	}
 	byLabel := map[string]Member{}
@@ -466,7 +481,10 @@ func bridgePage(run Run, b Bridge) bridgeView {
 		e := drawElevation(t, run, byLabel)
 		v.Elevation = &e
 	}
-	for i, m := range b.Members {
+	// Most severe first: the member that matters is not to be found 24th in the geometry's
+	// order.
+	for _, i := range severityOrder(b.Members) {
+		m := b.Members[i]
 		anchor := ""
 		if len(m.Flags) > 0 {
 			anchor = fmt.Sprintf("m-%d", i)
@@ -493,8 +511,8 @@ func memberSection(run Run, b Bridge, t *truss.Truss, lines *analysis.Lines, i i
 	for _, c := range append(senses(m, "existing", m.Existing), senses(m, "proposed", m.Proposed)...) {
 		s.Calc = append(s.Calc, calcOf(c))
 	}
-	if m.StoredRF != nil {
-		s.Notes = append(s.Notes, fmt.Sprintf("Rated by the load-effect ratio from the stored RF %s for %s: RF = RF_ref · L_ref(1 + I) / (L(1 + I)).", num(*m.StoredRF, 2), orDash(m.ReferenceTrain)))
+	if n := storedNote(m, m.ReferenceTrain); n != "" {
+		s.Notes = append(s.Notes, n)
 	}
 	if lines == nil {
 		return s
