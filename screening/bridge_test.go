@@ -65,11 +65,13 @@ func TestSingleAxleClosedForm(t *testing.T) {
 	if !near(a.WorstEx.RF, rfEx) || !near(a.WorstPr.RF, rfPr) || !a.Has(rating.Exceeds) || !a.Has(rating.Worse) {
 		t.Errorf("RF %g → %g, flags %v; want %g → %g, exceeds and worse", a.WorstEx.RF, a.WorstPr.RF, a.Flags, rfEx, rfPr)
 	}
-	// The other members hold no capacity: each one the axle loads is unrated, counted in the
-	// summary and not flagged (thresholds.flag_unrated off). Counted here from the envelopes.
+	// The other members hold no capacity: each one whose dead plus live force acts in a sense
+	// the axle loads is unrated, counted in the summary and not flagged
+	// (thresholds.flag_unrated off). Counted here from the envelopes and the dead loads.
 	loaded := 0
 	for _, r := range res.Members {
-		if r.Label != "L2-L3" && (r.Proposed.Max.Value > 0 || r.Proposed.Min.Value < 0) {
+		p := r.Proposed
+		if r.Label != "L2-L3" && (p.Max.Value > 0 && r.Dead+p.Max.Value*p.Impact > 0 || p.Min.Value < 0 && r.Dead+p.Min.Value*p.Impact < 0) {
 			loaded++
 		}
 	}

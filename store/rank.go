@@ -116,6 +116,14 @@ func (db *DB) FlagTotals(ctx context.Context, runID int64) (members map[string]i
 	return members, bridgesFlagged, err
 }
 
+// UnratedTotals counts a run's unrated members (run_bridges.unrated_members, migration 011)
+// and the bridges that hold any.
+func (db *DB) UnratedTotals(ctx context.Context, runID int64) (members, bridges int, err error) {
+	err = db.Pool.QueryRow(ctx, `SELECT coalesce(sum(unrated_members), 0)::bigint, count(*) FILTER (WHERE unrated_members > 0)
+		FROM run_picture($1)`, runID).Scan(&members, &bridges)
+	return members, bridges, err
+}
+
 // FlaggedMember is one member of the member-level priority list.
 type FlaggedMember struct {
 	BridgeRank     int

@@ -61,8 +61,13 @@ type Assessment struct {
 // Rate gives a member's factors under one loading, sense by sense: from the capacity where it
 // holds one in that sense, otherwise from its stored rating factor where that was rated in
 // that sense, otherwise none (the sense is missing: unrated).
+//
+// A sense without a rating counts as missing only where the dead plus live force acts in it:
+// a member whose force stays in tension needs no compression rating, however much live
+// compression relieves it (common practice).
 func Rate(m Member, l Loading, meth Method) ([]Factor, []Sense) {
 	rfs, missing := FromCapacities(m, l.Demand, meth)
+	missing = actingOnly(l.Demand, missing)
 	if len(missing) == 0 || !m.HasStoredRating() || l.Reference == nil {
 		return rfs, missing
 	}
@@ -112,6 +117,17 @@ func Assess(m Member, existing, proposed Loading, meth Method, th Thresholds) As
 		a.Flags = append(a.Flags, NoCapacity)
 	}
 	return a
+}
+
+// actingOnly keeps the senses in which D + L(1 + I) acts.
+func actingOnly(d Demand, senses []Sense) []Sense {
+	var out []Sense
+	for _, s := range senses {
+		if d.dead(s)+d.live(s) > 0 {
+			out = append(out, s)
+		}
+	}
+	return out
 }
 
 // reverses says whether a reversal counts: a change of sign whose reversed force is at least

@@ -150,12 +150,12 @@ func TestSummariseAndRank(t *testing.T) {
 // sense only; the other sense comes from a capacity where one is held, or is unrated.
 func TestStoredRatingOneSense(t *testing.T) {
 	comp := Compression
-	// A Howe diagonal governing in compression under its reference train: D = −150,
-	// reference L_c = −400, L_t = +160 (I = 0 throughout). Governing sense by the larger total
-	// force: |−150 − 400| = 550 against −150 + 160 = 10: compression.
-	howeRef := Demand{Dead: -150, LiveMax: 160, LiveMin: -400, Impact: 1}
-	// Proposed: L_c = −450, L_t = +187 (a tension reversal: −150 + 187 = +37 kN).
-	howeNew := Demand{Dead: -150, LiveMax: 187, LiveMin: -450, Impact: 1}
+	// The reported Howe diagonal, governing in compression under its reference train:
+	// D = −150, reference L_c = −400, L_t = +171.7 (I = 0 throughout). Governing sense by the
+	// larger total force: |−150 − 400| = 550 against −150 + 171.7 = 21.7: compression.
+	howeRef := Demand{Dead: -150, LiveMax: 171.7, LiveMin: -400, Impact: 1}
+	// Proposed: L_c = −450, L_t = +187.0 (a tension reversal: −150 + 187 = +37 kN).
+	howeNew := Demand{Dead: -150, LiveMax: 187.0, LiveMin: -450, Impact: 1}
 	cases := []struct {
 		name        string
 		m           Member
@@ -164,7 +164,7 @@ func TestStoredRatingOneSense(t *testing.T) {
 		wantMissing []Sense
 	}{
 		// Compression: 1.02·400/450 = 0.9067. Before the fix tension was rated too, as
-		// 1.02·160/187 = 0.873 (exceeds), from a factor that says nothing of tension.
+		// 1.02·171.7/187.0 = 0.94 (exceeds), from a factor that says nothing of tension.
 		{"governing sense from the reference loading, other sense unrated",
 			Member{RatingFactor: 1.02, ReferenceTrain: "r"}, howeRef, howeNew,
 			map[Sense]float64{Compression: 1.02 * 400 / 450}, []Sense{Tension}},
@@ -183,9 +183,14 @@ func TestStoredRatingOneSense(t *testing.T) {
 			map[Sense]float64{Tension: 1.1 * 600 / 750}, nil},
 		// Dead load decides the sense: D = −300, L_t = 250, L_c = −100: tension total −50,
 		// compression total 400: compression governs though the live tension is larger.
-		// New: L_t = 260, L_c = −120: compression 1.0·100/120; tension unrated.
+		// New: L_t = 260, L_c = −120: compression 1.0·100/120. D + L_t = −40 kN: the member
+		// stays in compression, so no tension rating is needed: not unrated.
 		{"dead load governs the sense",
 			Member{RatingFactor: 1.0, ReferenceTrain: "r"}, Demand{Dead: -300, LiveMax: 250, LiveMin: -100, Impact: 1}, Demand{Dead: -300, LiveMax: 260, LiveMin: -120, Impact: 1},
+			map[Sense]float64{Compression: 100.0 / 120}, nil},
+		// The same with L_t = 320: D + L_t = +20 kN, tension acts: unrated in tension.
+		{"small tension acts: unrated",
+			Member{RatingFactor: 1.0, ReferenceTrain: "r"}, Demand{Dead: -300, LiveMax: 250, LiveMin: -100, Impact: 1}, Demand{Dead: -300, LiveMax: 320, LiveMin: -120, Impact: 1},
 			map[Sense]float64{Compression: 100.0 / 120}, []Sense{Tension}},
 		// Given as tension, but the reference train loads no tension: no ratio can be formed.
 		{"given sense the reference does not load",

@@ -382,7 +382,7 @@ func unratedFact(run Run, n int) string {
 	if n == 0 {
 		return "none"
 	}
-	s := fmt.Sprintf("%d loaded in a sense with no capacity and no stored RF rated in that sense", n)
+	s := fmt.Sprintf("%d with dead plus live force acting in a sense with no capacity and no stored RF rated in it", n)
 	if !run.FlagUnrated {
 		s += " (not flagged: thresholds.flag_unrated is off)"
 	}
@@ -596,8 +596,8 @@ func calcOf(c senseCalc) calcView {
 		v.Cond = dash
 	}
 	if c.RF == nil {
+		// Basis says whether the sense is unrated or needs no rating.
 		v.RF = "none held"
-		v.Basis = dash
 	}
 	return v
 }

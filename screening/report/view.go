@@ -133,8 +133,10 @@ func senses(m Member, name string, s Scenario) []senseCalc {
 		case held != nil:
 		case rf != nil:
 			basis = rating.FromRatio
+		case dead+live*s.Impact > 0:
+			basis = "unrated"
 		default:
-			basis = "none: unrated"
+			basis = "not needed: D + L keeps the other sense"
 		}
 		c := senseCalc{Scenario: name, Sense: sense, HeldKN: held, Condition: cond, DKN: dead, LKN: live, Impact: s.Impact, RF: rf, Basis: basis}
 		if held != nil {
@@ -180,13 +182,7 @@ func reasons(run Run, m Member) []string {
 			r = fmt.Sprintf("new-reversal: under the proposed traffic D + L(1 + I) ranges from %s to %s kN and so changes sign, the reversed force %s %% of the larger (at least the %s %% set), which it does not under the existing traffic; both senses and fatigue need checking.",
 				signed(lo, 1), signed(hi, 1), num(100*share, 0), num(100*run.ReversalFraction, 0))
 		case rating.NoCapacity:
-			var missing []string
-			for _, c := range senses(m, "proposed", m.Proposed) {
-				if c.RF == nil {
-					missing = append(missing, c.Sense)
-				}
-			}
-			what := strings.Join(missing, " and ")
+			what := strings.Join(unratedSenses(m), " and ")
 			if what == "" {
 				what = "a sense"
 			}
@@ -199,11 +195,12 @@ func reasons(run Run, m Member) []string {
 	return out
 }
 
-// unratedSenses lists the senses the proposed traffic loads a member in with no RF.
+// unratedSenses lists the senses the proposed traffic loads a member in with no RF, where
+// the dead plus live force acts in them (rating.Rate).
 func unratedSenses(m Member) []string {
 	var out []string
 	for _, c := range senses(m, "proposed", m.Proposed) {
-		if c.RF == nil {
+		if c.RF == nil && c.DKN+c.LKN*c.Impact > 0 {
 			out = append(out, c.Sense)
 		}
 	}
