@@ -309,7 +309,8 @@ func runConfig(run Run) []keyValue {
 		keyValue{"dynamic allowance", orDash(run.Dynamic)},
 		keyValue{"rating method", orDash(run.Method)},
 		keyValue{"equation", equation(run)},
-		keyValue{"thresholds", fmt.Sprintf("exceeds below %s, review below %s, worse when more than %s %% below existing", num(flag, 2), num(review, 2), num(100*run.WorseFraction, 0))},
+		keyValue{"thresholds", fmt.Sprintf("exceeds below %s, review below %s, worse when more than %s %% below existing, new-reversal when the reversed force is at least %s %% of the larger, unrated members %s",
+			num(flag, 2), num(review, 2), num(100*run.WorseFraction, 0), num(100*run.ReversalFraction, 0), map[bool]string{true: "flagged", false: "counted, not flagged"}[run.FlagUnrated])},
 		keyValue{"program", orDash(run.ProgramVersion)},
 		keyValue{"configuration hash", orDash(shortHash(run.ConfigHash))},
 	)

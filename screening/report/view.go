@@ -71,7 +71,7 @@ var flagMeaning = map[string]string{
 	string(rating.Review):      "proposed RF at or above the flag threshold but below the review threshold",
 	string(rating.Worse):       "proposed RF below the existing RF by more than the set fraction",
 	string(rating.NewReversal): "dead plus live force changes sign under the proposed traffic only, by at least the set share of the larger force",
-	string(rating.NoCapacity):  "unrated: loaded in a sense with no capacity and no stored RF rated in that sense (flagged only where the settings ask)",
+	string(rating.NoCapacity):  "unrated: D + L acts in a sense with no capacity and no stored RF rated in it (flagged only where the settings ask)",
 }
 
 // flagOrder lists the known flags in report order, then any others in the order met.
