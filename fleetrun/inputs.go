@@ -61,6 +61,12 @@ func RatingMember(m store.Member) rating.Member {
 	}
 	if m.RatingFactor != nil && m.ReferenceTrain != nil {
 		r.RatingFactor, r.ReferenceTrain = *m.RatingFactor, *m.ReferenceTrain
+		if m.RatingSense != nil {
+			// The importer and the table's CHECK admit only the two senses.
+			if s, err := rating.ParseSense(*m.RatingSense); err == nil {
+				r.RatingSense, r.RatingSenseGiven = s, true
+			}
+		}
 	}
 	return r
 }

@@ -274,6 +274,8 @@ func outcome(r screening.Result, hash string, set *int64) store.BridgeOutcome {
 	o.RFProposed = rfOrNil(s.WorstPr, s.Worst >= 0)
 	o.DemandIncrease, o.Headroom = num(s.DemandIncrease), num(s.Headroom)
 	o.FlagCounts = map[string]int{}
+	unrated := int32(s.Unrated)
+	o.UnratedMembers = &unrated
 	for _, f := range rating.Flags {
 		if n := s.FlagCounts[f]; n > 0 {
 			o.Flags = append(o.Flags, string(f))

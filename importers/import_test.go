@@ -148,6 +148,23 @@ func TestImportMembers(t *testing.T) {
 	if err != nil || res.Counts != (store.Counts{Rows: 12, Unchanged: 12}) {
 		t.Errorf("re-import: %+v, %v", res.Counts, err)
 	}
+	// rating_sense (migration 011) is stored, and a change of it alone is a change.
+	text := "bridge_id,member,rating_factor,reference_train,rating_sense\n" +
+		"NME-0102," + ms[0].Member + ",1.02," + *ms[0].ReferenceTrain + ",compression\n"
+	res, err = ImportMembers(ctx, db, "members.csv", strings.NewReader(text), Options{})
+	if err != nil || res.Counts.Updated != 1 {
+		t.Fatalf("import with rating_sense: %+v, %v", res.Counts, err)
+	}
+	after, err := db.Members(ctx, "NME-0102")
+	if err != nil || after[0].RatingSense == nil || *after[0].RatingSense != "compression" || after[1].RatingSense != nil {
+		t.Errorf("rating_sense not stored: %+v, %v", after, err)
+	}
+	// The table refuses a sense without a stored rating factor, whatever writes it.
+	_, err = db.Pool.Exec(ctx, `UPDATE members SET capacity_tension_kn = 100, rating_factor = NULL, reference_train = NULL
+		WHERE bridge_id = 'NME-0102' AND member = $1`, ms[0].Member)
+	if err == nil || !strings.Contains(err.Error(), "members_rating_sense_needs_factor") {
+		t.Errorf("a rating_sense without its rating_factor: %v", err)
+	}
 }
 
 func TestImportTrains(t *testing.T) {

@@ -23,6 +23,7 @@ type memberRecord struct {
 	CapacityCompressionKip string `csv:"capacity_compression_kip"`
 	RatingFactor           string `csv:"rating_factor"`
 	ReferenceTrain         string `csv:"reference_train"`
+	RatingSense            string `csv:"rating_sense"`
 	ConditionFactor        string `csv:"condition_factor"`
 	AreaMM2                string `csv:"area_mm2"`
 	AreaIn2                string `csv:"area_in2"`
@@ -40,7 +41,7 @@ var (
 	memberColumns = []column{
 		{name: "bridge_id", required: true, maxChars: maxIDChars}, {name: "member", required: true, maxChars: maxIDChars},
 		colTension, colCompression, {name: "rating_factor"}, {name: "reference_train", maxChars: maxNameChars},
-		{name: "condition_factor"}, colArea, {name: "fatigue_category", maxChars: maxFatigueCategory},
+		{name: "rating_sense", maxChars: maxNameChars}, {name: "condition_factor"}, colArea, {name: "fatigue_category", maxChars: maxFatigueCategory},
 	}
 )
 
@@ -168,6 +169,17 @@ func parseMember(r memberRecord, p *row, geom Geometry) (store.Member, bool) {
 		p.fail("reference_train", r.ReferenceTrain, "a rating_factor needs the reference_train it was rated for")
 	case r.RatingFactor == "" && r.ReferenceTrain != "":
 		p.fail("rating_factor", r.RatingFactor, "reference_train %q is given without a rating_factor", excerpt.Cut(r.ReferenceTrain))
+	}
+	if r.RatingSense != "" {
+		sense := strings.ToLower(strings.TrimSpace(r.RatingSense))
+		switch {
+		case sense != "tension" && sense != "compression":
+			p.fail("rating_sense", r.RatingSense, "must be tension or compression: the sense the rating_factor was rated in (leave it empty to take the sense its reference_train governs)")
+		case r.RatingFactor == "":
+			p.fail("rating_sense", r.RatingSense, "is given without a rating_factor")
+		default:
+			m.RatingSense = &sense
+		}
 	}
 	if tc, ok := geom.(TrainChecker); ok && r.ReferenceTrain != "" && !tc.KnownTrain(r.ReferenceTrain) {
 		p.fail("reference_train", r.ReferenceTrain, "not a stored train (import the train files first: trussfleet import trains DIR) nor a built-in model")

@@ -292,10 +292,33 @@ func TestBadMembers(t *testing.T) {
 		{"rating factor without its train", "NME-1,L0-L1,,,1.2,,1", 6, "", "reference_train"},
 		{"non-numeric rating factor", "NME-1,L0-L1,,,high,E80,1", 5, "high", "not a number"},
 	}
+	// rating_sense: the sense a stored rating factor was rated in (docs/inventory.md); these
+	// rows are read under senseHead.
+	senseHead := "bridge_id,member,capacity_tension_kn,capacity_compression_kn,rating_factor,reference_train,rating_sense\n"
+	tests = append(tests,
+		struct {
+			name   string
+			row    string
+			column int
+			value  string
+			msg    string
+		}{"rating sense not a sense", "NME-1,L0-L1,,,1.2,E80,shear", 7, "shear", "tension or compression"},
+		struct {
+			name   string
+			row    string
+			column int
+			value  string
+			msg    string
+		}{"rating sense without a rating factor", "NME-1,L0-L1,100,,,,tension", 7, "tension", "without a rating_factor"},
+	)
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
 			n := 0
-			_, err := ParseMembers("members.csv", strings.NewReader(head+tc.row+"\n"), geometryStub{}, func(store.Staged[store.Member]) bool { n++; return true })
+			h := head
+			if strings.HasPrefix(tc.name, "rating sense") {
+				h = senseHead
+			}
+			_, err := ParseMembers("members.csv", strings.NewReader(h+tc.row+"\n"), geometryStub{}, func(store.Staged[store.Member]) bool { n++; return true })
 			if n != 0 {
 				t.Error("a bad row was passed on")
 			}
@@ -305,6 +328,16 @@ func TestBadMembers(t *testing.T) {
 			}
 		})
 	}
+	t.Run("rating sense read in either case", func(t *testing.T) {
+		var got []store.Member
+		_, err := ParseMembers("members.csv", strings.NewReader(senseHead+"NME-1,U1-L2,,,1.02,E80,Compression\nNME-1,L0-L1,,,1.1,E80,\n"), geometryStub{}, func(r store.Staged[store.Member]) bool {
+			got = append(got, r.Row)
+			return true
+		})
+		if err != nil || len(got) != 2 || got[0].RatingSense == nil || *got[0].RatingSense != "compression" || got[1].RatingSense != nil {
+			t.Errorf("got %+v, %v", got, err)
+		}
+	})
 	t.Run("label case does not matter", func(t *testing.T) {
 		var got []string
 		_, err := ParseMembers("members.csv", strings.NewReader(head+"NME-1,u1-l2,100,,,,1\n"), geometryStub{}, func(r store.Staged[store.Member]) bool {

@@ -28,6 +28,7 @@ func Run(ctx context.Context, db *store.DB, runID int64) (report.Run, error) {
 		ID: r.ID, Status: r.Status, StartedAt: r.StartedAt, ProgramVersion: r.ProgramVersion, ConfigHash: r.ConfigHash,
 		Scenarios: map[string][]string{"existing": screening.TrainNames(plan.Existing), "proposed": screening.TrainNames(plan.Proposed)},
 		Dynamic:   plan.Dynamic, Method: plan.Method, Flag: plan.Flag, Review: plan.Review, WorseFraction: plan.Worse,
+		ReversalFraction: plan.Reversal, FlagUnrated: plan.FlagUnrated,
 		Trains: map[string]*traffic.Train{},
 	}
 	if r.FinishedAt != nil {
@@ -100,6 +101,9 @@ func Bridge(ctx context.Context, db *store.DB, run report.Run, bridgeID string) 
 			m.ConditionFactor = h.ConditionFactor
 			if h.RatingFactor != nil && h.ReferenceTrain != nil {
 				m.StoredRF, m.ReferenceTrain = h.RatingFactor, *h.ReferenceTrain
+				if h.RatingSense != nil {
+					m.RatingSense = *h.RatingSense
+				}
 			}
 		} else {
 			m.ConditionFactor = 1

@@ -290,7 +290,9 @@ func (w *Screener) scenarioEnvelope(l *envelope.Lines, trains []*envelope.Load, 
 func (w *Screener) referenceEnvelopes(b Bridge, s *Settings, l *envelope.Lines, share, impact float64) (map[string][]Envelope, error) {
 	names := map[string]bool{}
 	for _, m := range b.Members {
-		if m.HasStoredRating() && !m.HasCapacity(rating.Tension) && !m.HasCapacity(rating.Compression) {
+		// A stored rating factor rates a sense without a capacity; one with both capacities
+		// never uses it.
+		if m.HasStoredRating() && !(m.HasCapacity(rating.Tension) && m.HasCapacity(rating.Compression)) {
 			names[m.ReferenceTrain] = true
 		}
 	}

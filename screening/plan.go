@@ -53,6 +53,10 @@ type Plan struct {
 	Flag       float64    `json:"flag"`
 	Review     float64    `json:"review"`
 	Worse      float64    `json:"worse_fraction"`
+	// Reversal is the share of a member's larger force its reversed force must reach for a
+	// reversal to count; FlagUnrated flags unrated members.
+	Reversal    float64 `json:"reversal_fraction"`
+	FlagUnrated bool    `json:"flag_unrated"`
 }
 
 // Hash is a stable digest of the plan.
@@ -118,7 +122,8 @@ func (p Plan) Settings() (*Settings, error) {
 	default:
 		return nil, fmt.Errorf("rating method %q: allowed working-stress, factored", p.Method)
 	}
-	s.Thresholds = rating.Thresholds{Flag: p.Flag, Review: p.Review, WorseFraction: p.Worse}
+	s.Thresholds = rating.Thresholds{Flag: p.Flag, Review: p.Review, WorseFraction: p.Worse,
+		ReversalFraction: p.Reversal, FlagUnrated: p.FlagUnrated}
 	return s, nil
 }
 

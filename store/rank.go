@@ -37,13 +37,13 @@ func (db *DB) RankedBridge(ctx context.Context, runID int64, bridgeID string) (r
 
 func (db *DB) ranked(ctx context.Context, runID int64, limit int, only string) ([]ranking.Row, error) {
 	q := `SELECT rank, bridge_id, name, line, chainage_km, truss_type, span_m, panels, worst_member, rf_existing, rf_proposed,
-		demand_increase, headroom, flags, flag_counts, governing_train, governing_sense, governing_head_m,
+		demand_increase, headroom, flags, flag_counts, unrated, governing_train, governing_sense, governing_head_m,
 		governing_direction, governing_from_m, governing_to_m, last_inspected, status, error
 		FROM (SELECT row_number() OVER (ORDER BY ` + rankOrder + `) AS rank, r.bridge_id, coalesce(b.name, '') AS name,
 		coalesce(b.line, '') AS line, b.chainage_km, coalesce(b.truss_type, '') AS truss_type, coalesce(b.span_m, 0) AS span_m,
 		coalesce(b.panels, 0) AS panels, coalesce(r.worst_member, '') AS worst_member,
 		r.rf_existing, r.rf_proposed, r.demand_increase, r.headroom, r.flags, r.flag_counts,
-		coalesce(r.governing_train, '') AS governing_train, coalesce(r.governing_sense, '') AS governing_sense, r.governing_head_m,
+		coalesce(r.unrated_members, 0) AS unrated, coalesce(r.governing_train, '') AS governing_train, coalesce(r.governing_sense, '') AS governing_sense, r.governing_head_m,
 		coalesce(r.governing_direction, '') AS governing_direction, r.governing_from_m, r.governing_to_m,
 		coalesce(to_char(b.last_inspected, 'YYYY-MM-DD'), '') AS last_inspected, r.status, r.error
 		FROM run_picture($1) r LEFT JOIN bridges b ON b.bridge_id = r.bridge_id
@@ -65,7 +65,7 @@ func (db *DB) ranked(ctx context.Context, runID int64, limit int, only string) (
 		var counts []byte
 		err := row.Scan(&b.Rank, &b.BridgeID, &b.Name, &b.Line, &b.ChainageKm, &b.TrussType, &b.SpanM, &b.Panels,
 			&b.WorstMember, &b.RFExisting, &b.RFProposed, &inc, &b.Headroom, &b.Flags, &counts,
-			&b.GoverningTrain, &b.GoverningSense, &b.GoverningHeadM, &b.GoverningDirection, &b.GoverningFromM,
+			&b.Unrated, &b.GoverningTrain, &b.GoverningSense, &b.GoverningHeadM, &b.GoverningDirection, &b.GoverningFromM,
 			&b.GoverningToM, &b.LastInspected, &b.Status, &b.Error)
 		if err != nil {
 			return b, err
@@ -114,6 +114,14 @@ func (db *DB) FlagTotals(ctx context.Context, runID int64) (members map[string]i
 		return nil
 	})
 	return members, bridgesFlagged, err
+}
+
+// UnratedTotals counts a run's unrated members (run_bridges.unrated_members, migration 011)
+// and the bridges that hold any.
+func (db *DB) UnratedTotals(ctx context.Context, runID int64) (members, bridges int, err error) {
+	err = db.Pool.QueryRow(ctx, `SELECT coalesce(sum(unrated_members), 0)::bigint, count(*) FILTER (WHERE unrated_members > 0)
+		FROM run_picture($1)`, runID).Scan(&members, &bridges)
+	return members, bridges, err
 }
 
 // FlaggedMember is one member of the member-level priority list.

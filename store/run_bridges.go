@@ -170,10 +170,13 @@ type BridgeOutcome struct {
 	RFExisting, RFProposed, DemandIncrease, Headroom *float64
 	Flags                                            []string
 	FlagCounts                                       map[string]int
-	GoverningTrain, GoverningSense                   string
-	GoverningHeadM                                   *float64
-	GoverningDirection                               string
-	GoverningFromM, GoverningToM                     *float64
+	// UnratedMembers counts the members the proposed traffic loads in a sense they hold no
+	// rating for (migration 011); nil for a failed bridge.
+	UnratedMembers                 *int32
+	GoverningTrain, GoverningSense string
+	GoverningHeadM                 *float64
+	GoverningDirection             string
+	GoverningFromM, GoverningToM   *float64
 	// InputHash is the hash of the inputs screened; "" keeps the hash the run was created
 	// with.
 	InputHash string
@@ -212,6 +215,7 @@ var outcomeColumns = []outcomeColumn{
 	{"headroom", "float8[]", "u.headroom", each(func(o *BridgeOutcome) *float64 { return o.Headroom })},
 	{"flags", "text[]", "string_to_array(u.flags, ',')", each(func(o *BridgeOutcome) string { return strings.Join(o.Flags, ",") })},
 	{"flag_counts", "text[]", "u.flag_counts::jsonb", each(flagCountsJSON)},
+	{"unrated_members", "int4[]", "u.unrated_members", each(func(o *BridgeOutcome) *int32 { return o.UnratedMembers })},
 	{"governing_train", "text[]", "u.governing_train", each(func(o *BridgeOutcome) string { return o.GoverningTrain })},
 	{"governing_sense", "text[]", "u.governing_sense", each(func(o *BridgeOutcome) string { return o.GoverningSense })},
 	{"governing_head_m", "float8[]", "u.governing_head_m", each(func(o *BridgeOutcome) *float64 { return o.GoverningHeadM })},
@@ -266,7 +270,7 @@ func SetOutcomes(ctx context.Context, tx pgx.Tx, runID int64, outcomes []BridgeO
 // carriedColumns are the run_bridges columns a pruned run's picture passes on, unchanged, to
 // a run that depends on it (run_id, status and source_run_id are set apart).
 var carriedColumns = []string{"bridge_id", "input_hash", "error", "worst_member", "rf_existing", "rf_proposed",
-	"demand_increase", "headroom", "flags", "flag_counts", "governing_train", "governing_sense", "governing_head_m",
+	"demand_increase", "headroom", "flags", "flag_counts", "unrated_members", "governing_train", "governing_sense", "governing_head_m",
 	"governing_direction", "governing_from_m", "governing_to_m", "screened_at", "requeues", "set_id"}
 
 // squashStatement copies the picture of run $1 into run $2 as carried rows, for every bridge

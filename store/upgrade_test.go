@@ -49,7 +49,7 @@ func TestOldRunsReadableAfterUpgrade(t *testing.T) {
 		if err != nil {
 			t.Fatalf("%s: %v", when, err)
 		}
-		if len(ranked) != 3 || ranked[0].BridgeID != "NER-1" || *ranked[0].RFProposed != 0.92 || ranked[2].Status != "failed" {
+		if len(ranked) != 3 || ranked[0].BridgeID != "NER-1" || *ranked[0].RFProposed != 0.92 || ranked[2].Status != "failed" || ranked[0].Unrated != 0 {
 			t.Errorf("%s: priority list %+v; want NER-1 (RF 0.92) first and NER-3 failed last", when, ranked)
 		}
 		members, flagged, err := db.FlagTotals(ctx, 41)
@@ -65,7 +65,9 @@ func TestOldRunsReadableAfterUpgrade(t *testing.T) {
 			t.Errorf("%s: progress %+v (%v); want 3 bridges, 2 done, 1 failed", when, p, err)
 		}
 	}
-	if err := db.MigrateTo(ctx, 10); err != nil {
+	// The current schema: the queries read columns of later migrations too (011's
+	// unrated_members, NULL in old rows, read as 0).
+	if _, err := db.Migrate(ctx); err != nil {
 		t.Fatal(err)
 	}
 	check("after the upgrade")

@@ -42,6 +42,10 @@ type ThresholdConfig struct {
 	Flag          float64 `mapstructure:"flag"`
 	Review        float64 `mapstructure:"review"`
 	WorseFraction float64 `mapstructure:"worse_fraction"`
+	// ReversalFraction: the reversed force's least share of the larger force for new-reversal.
+	ReversalFraction float64 `mapstructure:"reversal_fraction"`
+	// FlagUnrated flags members (and bridges) that are unrated in a loaded sense.
+	FlagUnrated bool `mapstructure:"flag_unrated"`
 }
 
 // The two scenarios every run compares.
@@ -64,6 +68,8 @@ func setScreenDefaults(v *viper.Viper) {
 	v.SetDefault("thresholds.flag", 1.0)
 	v.SetDefault("thresholds.review", 1.1)
 	v.SetDefault("thresholds.worse_fraction", 0.20)
+	v.SetDefault("thresholds.reversal_fraction", 0.10)
+	v.SetDefault("thresholds.flag_unrated", false)
 	v.SetDefault("chunk_size", 50)
 	v.SetDefault("jobs", 4)
 	v.SetDefault("job_timeout", "2m")
@@ -104,6 +110,9 @@ func (s ScreenConfig) validate() []error {
 	}
 	if !(s.Thresholds.WorseFraction >= 0 && s.Thresholds.WorseFraction < 1) {
 		bad("thresholds.worse_fraction", "must be from 0 to below 1, got %v", s.Thresholds.WorseFraction)
+	}
+	if !(s.Thresholds.ReversalFraction >= 0 && s.Thresholds.ReversalFraction <= 1) {
+		bad("thresholds.reversal_fraction", "must be from 0 (any change of sign) to 1 (reversed force as large as the other), got %v", s.Thresholds.ReversalFraction)
 	}
 	if s.Jobs < 1 || s.Jobs > 64 {
 		bad("jobs", "must be from 1 to 64 jobs at once, got %d", s.Jobs)

@@ -131,3 +131,30 @@ func TestConfigFileSearch(t *testing.T) {
 		}
 	}
 }
+
+// TestReversalFractionChecked: thresholds.reversal_fraction is a share of the member's
+// larger force (configs/default.yaml), so only 0 to 1 makes sense.
+func TestReversalFractionChecked(t *testing.T) {
+	cases := []struct {
+		name, value string
+		ok          bool
+	}{
+		{"default share", "0.10", true},
+		{"any change of sign", "0", true},
+		{"percent written as a number", "10", false},
+		{"negative", "-0.1", false},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			t.Chdir(t.TempDir())
+			file := filepath.Join(t.TempDir(), "c.yaml")
+			if err := os.WriteFile(file, []byte("thresholds:\n  reversal_fraction: "+c.value+"\n"), 0o600); err != nil {
+				t.Fatal(err)
+			}
+			_, err := loadConfig(file, pflag.NewFlagSet("x", pflag.ContinueOnError))
+			if c.ok != (err == nil) || err != nil && !strings.Contains(err.Error(), "thresholds.reversal_fraction") {
+				t.Errorf("reversal_fraction %s: got %v", c.value, err)
+			}
+		})
+	}
+}

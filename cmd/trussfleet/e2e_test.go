@@ -142,6 +142,24 @@ func TestEndToEnd(t *testing.T) {
 	if reversals != 3 {
 		t.Errorf("%d L3-U3 reversals in the member list, want 3", reversals)
 	}
+	// Every member of T-1 and T-2 holds both capacities: none is unrated. T-3 has at least
+	// L3-U3 unrated (below), and no-capacity is not among its flags (flag_unrated is off).
+	for _, r := range rows {
+		n, err := strconv.Atoi(r["unrated_members"])
+		if err != nil || (r["bridge_id"] == "T-3") != (n > 0) {
+			t.Errorf("%s unrated_members %q", r["bridge_id"], r["unrated_members"])
+		}
+	}
+	// T-3's L3-U3 holds only a stored RF (50) for the existing axle. Under that axle
+	// D + L_t = −30 + 18.75 = −11.25 kN and D − L_c = −30 − 0.5·100·0.5 = −55 kN: compression
+	// governs, so the stored RF rates compression only, 50·25/100 = 12.5 under the proposed
+	// axle; the proposed tension (75 kN, D + L = +45) is unrated, not rated from a factor
+	// that says nothing of tension.
+	out, err = runCmd(t, "--database-url", url, "--config", cfg, "explain", "T-3", "L3-U3")
+	if err != nil || !strings.Contains(out, "rated in compression (not given in the inventory") || !strings.Contains(out, "unrated in tension") ||
+		!strings.Contains(out, "12.50") || !strings.Contains(out, "CAUTION") {
+		t.Errorf("explain T-3 L3-U3: %v\n%s", err, out)
+	}
 	// explain shows the hand-worked arithmetic of T-1's L2-L3: D = 360, L = 300, RF = 0.80.
 	out, err = runCmd(t, "--database-url", url, "--config", cfg, "explain", "T-1", "L2-L3")
 	if err != nil || !strings.Contains(out, "+360.0") || !strings.Contains(out, "300.0") || !strings.Contains(out, "0.80") || !strings.Contains(out, "CAUTION") {

@@ -49,8 +49,8 @@ folder (--out, default trussfleet-out). Columns are described in the README.`,
 }
 
 var bridgeExportHeader = []string{"rank", "bridge_id", "name", "line", "chainage_km", "truss_type", "span_m", "panels",
-	"worst_member", "rf_existing", "rf_proposed", "rf_change_pct", "demand_increase_pct", "flags", "headroom",
-	"governing_train", "governing_sense", "governing_head_m", "governing_direction", "loaded_from_m", "loaded_to_m",
+	"worst_member", "rf_existing", "rf_proposed", "rf_change_pct", "demand_increase_pct", "flags", "unrated_members",
+	"headroom", "governing_train", "governing_sense", "governing_head_m", "governing_direction", "loaded_from_m", "loaded_to_m",
 	"last_inspected", "status", "error"}
 
 var memberExportHeader = []string{"bridge_rank", "bridge_id", "name", "member", "kind", "rf_existing", "rf_proposed",
@@ -110,7 +110,7 @@ func exportRun(ctx context.Context, db *store.DB, run store.Run, dir, format str
 // numericColumns are the export columns that JSON writes as numbers (null when empty).
 var numericColumns = map[string]bool{"rank": true, "bridge_rank": true, "chainage_km": true, "span_m": true,
 	"panels": true, "rf_existing": true, "rf_proposed": true, "rf_change_pct": true, "demand_increase_pct": true,
-	"headroom": true, "governing_head_m": true, "loaded_from_m": true, "loaded_to_m": true, "dead_kn": true,
+	"unrated_members": true, "headroom": true, "governing_head_m": true, "loaded_from_m": true, "loaded_to_m": true, "dead_kn": true,
 	"live_max_kn": true, "live_min_kn": true, "impact": true, "head_m": true}
 
 // recordObject turns an export record into a JSON object with the CSV's column names; flags
@@ -178,7 +178,7 @@ func bridgeRecord(r report.BridgeRow, d digits) []string {
 	return []string{strconv.Itoa(r.Rank), r.BridgeID, r.Name, r.Line, d.opt(r.ChainageKm, 3), r.TrussType,
 		strconv.FormatFloat(r.SpanM, 'f', -1, 64), strconv.Itoa(r.Panels), r.WorstMember, d.opt(r.RFExisting, 4),
 		d.opt(r.RFProposed, 4), d.opt(change, 1), d.num(100*r.DemandIncrease, 1),
-		strings.Join(r.Flags, ";"), d.opt(r.Headroom, 4), r.GoverningTrain, r.GoverningSense, d.opt(r.GoverningHeadM, 3),
+		strings.Join(r.Flags, ";"), strconv.Itoa(r.Unrated), d.opt(r.Headroom, 4), r.GoverningTrain, r.GoverningSense, d.opt(r.GoverningHeadM, 3),
 		r.GoverningDirection, d.opt(r.GoverningFromM, 3), d.opt(r.GoverningToM, 3), r.LastInspected, r.Status, r.Error}
 }
 

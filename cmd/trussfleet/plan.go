@@ -18,6 +18,7 @@ func buildPlan(ctx context.Context, db *store.DB, c Config) (screening.Plan, err
 		Dynamic: s.Dynamic, Method: s.Rating.Method, Phi: s.Rating.Phi, GammaD: s.Rating.GammaD,
 		GammaL: s.Rating.GammaL, GammaDFav: s.Rating.GammaDFavourable,
 		Flag: s.Thresholds.Flag, Review: s.Thresholds.Review, Worse: s.Thresholds.WorseFraction,
+		Reversal: s.Thresholds.ReversalFraction, FlagUnrated: s.Thresholds.FlagUnrated,
 	}
 	if _, err := traffic.ParseDynamic(s.Dynamic); err != nil {
 		return p, fmt.Errorf("configuration key dynamic: %w", err)

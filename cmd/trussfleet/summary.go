@@ -33,16 +33,24 @@ func (a *app) printSummary(ctx context.Context, db *store.DB, w io.Writer, id in
 		fmt.Fprintf(w, "  %s %d", f, counts[string(f)])
 	}
 	fmt.Fprintln(w)
+	unrated, onBridges, err := db.UnratedTotals(ctx, id)
+	if err != nil {
+		return err
+	}
+	if unrated > 0 {
+		// The run's own settings decide whether they were flagged (the counts above).
+		fmt.Fprintf(w, "Members unrated (dead plus live force acting in a sense with no capacity and no stored RF rated in it): %d on %d bridges; flagged no-capacity only with thresholds.flag_unrated.\n", unrated, onBridges)
+	}
 	rows, err := db.Ranked(ctx, id, 10)
 	if err != nil {
 		return err
 	}
 	fmt.Fprintln(w, "\nTop of the priority list:")
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-	fmt.Fprintln(tw, "rank\tbridge\tname\tworst member\tRF existing\tRF proposed\tflags")
+	fmt.Fprintln(tw, "rank\tbridge\tname\tworst member\tRF existing\tRF proposed\tflags\tunrated")
 	cell := safetext.Cell
 	for _, r := range rows {
-		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%s\n", r.Rank, cell(r.BridgeID), cell(r.Name), cell(r.WorstMember), fmtRF(r.RFExisting), fmtRF(r.RFProposed), flagsText(r))
+		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%s\t%d\n", r.Rank, cell(r.BridgeID), cell(r.Name), cell(r.WorstMember), fmtRF(r.RFExisting), fmtRF(r.RFProposed), flagsText(r), r.Unrated)
 	}
 	if err := tw.Flush(); err != nil {
 		return err

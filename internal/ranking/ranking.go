@@ -21,6 +21,9 @@ type Row struct {
 	Headroom       *float64 // multiple of the proposed traffic carried at RF = 1
 	Flags          []string // distinct flags of the bridge's members, in report order
 	FlagCounts     map[string]int
+	// Unrated counts the members the proposed traffic loads in a sense they hold no rating
+	// for (no capacity, no stored rating factor rated in that sense).
+	Unrated int
 	// Governing train of the worst member and where it stood.
 	GoverningTrain     string
 	GoverningSense     string // tension or compression

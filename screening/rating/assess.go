@@ -16,10 +16,12 @@ const (
 	Review Flag = "review"
 	// Worse: the proposed RF is below the existing RF by more than the set fraction.
 	Worse Flag = "worse"
-	// NewReversal: D + L changes sign under the proposed traffic but not under the existing.
+	// NewReversal: D + L changes sign under the proposed traffic by a reversed force of at
+	// least the set share of the larger force, and not so under the existing traffic.
 	NewReversal Flag = "new-reversal"
 	// NoCapacity: the live load acts in a sense for which the member holds no capacity and no
-	// stored rating factor that covers it.
+	// stored rating factor rated in that sense (the member is unrated). Set only where
+	// Thresholds.FlagUnrated asks for it; unrated members are counted per bridge either way.
 	NoCapacity Flag = "no-capacity"
 )
 
@@ -31,6 +33,11 @@ type Thresholds struct {
 	Flag          float64 // RF below this: exceeds (1.00)
 	Review        float64 // RF below this: review (e.g. 1.10)
 	WorseFraction float64 // proposed RF below existing RF by more than this share: worse (e.g. 0.10)
+	// ReversalFraction: a reversal counts where the reversed force is at least this share of
+	// the member's larger force (Demand.ReversalShare; 0: any change of sign).
+	ReversalFraction float64
+	// FlagUnrated flags unrated members no-capacity (and so their bridges).
+	FlagUnrated bool
 }
 
 // Loading is a member's demand under one scenario, with the reference train's demand where
@@ -51,22 +58,34 @@ type Assessment struct {
 	Flags                  []Flag
 }
 
-// Rate gives a member's factors under one loading: from capacities where it holds them,
-// otherwise from its stored rating factor, otherwise none (and every loaded sense missing).
+// Rate gives a member's factors under one loading, sense by sense: from the capacity where it
+// holds one in that sense, otherwise from its stored rating factor where that was rated in
+// that sense, otherwise none (the sense is missing: unrated).
+//
+// A sense without a rating counts as missing only where the dead plus live force acts in it:
+// a member whose force stays in tension needs no compression rating, however much live
+// compression relieves it (common practice).
 func Rate(m Member, l Loading, meth Method) ([]Factor, []Sense) {
-	if m.HasCapacity(Tension) || m.HasCapacity(Compression) {
-		return FromCapacities(m, l.Demand, meth)
+	rfs, missing := FromCapacities(m, l.Demand, meth)
+	missing = actingOnly(l.Demand, missing)
+	if len(missing) == 0 || !m.HasStoredRating() || l.Reference == nil {
+		return rfs, missing
 	}
-	if m.HasStoredRating() && l.Reference != nil {
-		return FromStoredRating(m, *l.Reference, l.Demand)
-	}
-	var missing []Sense
-	for _, s := range [...]Sense{Tension, Compression} {
-		if l.Demand.live(s) > 0 {
-			missing = append(missing, s)
+	stored, _ := FromStoredRating(m, *l.Reference, l.Demand)
+	var still []Sense
+	for _, s := range missing {
+		found := false
+		for _, f := range stored {
+			if f.Sense == s {
+				rfs, found = append(rfs, f), true
+			}
+		}
+		if !found {
+			still = append(still, s)
 		}
 	}
-	return nil, missing
+	sort.SliceStable(rfs, func(i, j int) bool { return rfs[i].Sense < rfs[j].Sense })
+	return rfs, still
 }
 
 // Assess rates a member under both scenarios and sets its flags.
@@ -76,7 +95,8 @@ func Assess(m Member, existing, proposed Loading, meth Method, th Thresholds) As
 	a.Proposed, a.MissingPr = Rate(m, proposed, meth)
 	a.WorstEx, a.HasEx = Worst(a.Existing)
 	a.WorstPr, a.HasPr = Worst(a.Proposed)
-	a.ReversesEx, a.ReversesPr = existing.Demand.Reverses(), proposed.Demand.Reverses()
+	a.ReversesEx = reverses(existing.Demand, th.ReversalFraction)
+	a.ReversesPr = reverses(proposed.Demand, th.ReversalFraction)
 	a.DemandIncrease = demandIncrease(existing.Demand, proposed.Demand)
 	if a.HasPr {
 		switch {
@@ -93,11 +113,33 @@ func Assess(m Member, existing, proposed Loading, meth Method, th Thresholds) As
 	if a.ReversesPr && !a.ReversesEx {
 		a.Flags = append(a.Flags, NewReversal)
 	}
-	if len(a.MissingPr) > 0 {
+	if a.Unrated() && th.FlagUnrated {
 		a.Flags = append(a.Flags, NoCapacity)
 	}
 	return a
 }
+
+// actingOnly keeps the senses in which D + L(1 + I) acts.
+func actingOnly(d Demand, senses []Sense) []Sense {
+	var out []Sense
+	for _, s := range senses {
+		if d.dead(s)+d.live(s) > 0 {
+			out = append(out, s)
+		}
+	}
+	return out
+}
+
+// reverses says whether a reversal counts: a change of sign whose reversed force is at least
+// the fraction of the larger force.
+func reverses(d Demand, fraction float64) bool {
+	share := d.ReversalShare()
+	return share > 0 && share >= fraction
+}
+
+// Unrated says whether the proposed traffic loads the member in a sense that it has no
+// rating for (no capacity and no stored rating factor in that sense).
+func (a Assessment) Unrated() bool { return len(a.MissingPr) > 0 }
 
 func demandIncrease(ex, pr Demand) float64 {
 	inc := 0.0
@@ -131,6 +173,9 @@ type Bridge struct {
 	// effects are linear in the train's loads, so it is the lowest proposed RF.
 	Headroom   float64
 	FlagCounts map[Flag]int
+	// Unrated counts the members the proposed traffic loads in a sense they have no rating
+	// for (Assessment.Unrated).
+	Unrated int
 }
 
 // Summarise finds a bridge's worst member and counts its flags.
@@ -139,6 +184,9 @@ func Summarise(members []Assessment) Bridge {
 	for i, a := range members {
 		for _, f := range a.Flags {
 			b.FlagCounts[f]++
+		}
+		if a.Unrated() {
+			b.Unrated++
 		}
 		b.DemandIncrease = math.Max(b.DemandIncrease, a.DemandIncrease)
 		if a.HasPr && (b.Worst < 0 || a.WorstPr.RF < b.WorstPr.RF) {

@@ -49,9 +49,40 @@ type Member struct {
 	CapacityTension, CapacityCompression float64
 	// ConditionFactor scales the capacities (0 < f ≤ 1); zero means 1.
 	ConditionFactor float64
-	// RatingFactor is a stored rating factor for ReferenceTrain, used where no capacity is held.
-	RatingFactor   float64
-	ReferenceTrain string
+	// RatingFactor is a stored rating factor for ReferenceTrain. It rates one sense only, the
+	// sense it was rated in: RatingSense where RatingSenseGiven, otherwise the sense in which
+	// the reference loading's dead plus live force governs (StoredSense). It is used in that
+	// sense where the member holds no capacity in it.
+	RatingFactor     float64
+	ReferenceTrain   string
+	RatingSense      Sense
+	RatingSenseGiven bool
+}
+
+// StoredSense is the sense a member's stored rating factor rates: the one the inventory
+// gives, or else the one in which the reference loading ref governs, that is the sense of the
+// larger of |D + L_t(1 + I)| and |D − L_c(1 + I)| (a stored rating factor is the lowest over
+// the senses its rating checked, and with one capacity per sense the sense of the larger total
+// force is the one that governed; common practice). given says whether the inventory gave it.
+func (m Member) StoredSense(ref Demand) (s Sense, given bool) {
+	if m.RatingSenseGiven {
+		return m.RatingSense, true
+	}
+	if ref.live(Compression)-ref.Dead > ref.Dead+ref.live(Tension) {
+		return Compression, false
+	}
+	return Tension, false
+}
+
+// ParseSense reads "tension" or "compression".
+func ParseSense(s string) (Sense, error) {
+	switch s {
+	case "tension":
+		return Tension, nil
+	case "compression":
+		return Compression, nil
+	}
+	return Tension, fmt.Errorf("sense %q: allowed tension, compression", s)
 }
 
 // HasCapacity says whether the member holds a capacity in the sense.
@@ -97,6 +128,17 @@ func (d Demand) dead(s Sense) float64 {
 // and compression).
 func (d Demand) Reverses() bool {
 	return d.Dead+d.live(Tension) > 0 && d.Dead-d.live(Compression) < 0
+}
+
+// ReversalShare is the reversed force as a share of the member's larger force: with
+// D + L(1 + I) ranging from a < 0 to b > 0, min(|a|, b) / max(|a|, b); 0 where the force keeps
+// its sign.
+func (d Demand) ReversalShare() float64 {
+	if !d.Reverses() {
+		return 0
+	}
+	t, c := d.Dead+d.live(Tension), d.live(Compression)-d.Dead
+	return math.Min(t, c) / math.Max(t, c)
 }
 
 // Factor is a rating factor in one sense, with where it came from.
@@ -149,36 +191,25 @@ func FromCapacities(m Member, d Demand, meth Method) (rfs []Factor, missing []Se
 	return rfs, missing
 }
 
-// FromStoredRating rates a member by the load-effect ratio against its reference train:
-// RF = RF_ref · L_ref(1 + I_ref) / (L (1 + I)), in each sense the reference train loads.
-// A stored rating factor is the lowest over the senses the reference loading checked, so in
-// the sense it did not govern it understates that sense's own factor: the ratio is then
-// conservative. A sense the reference train hardly loads (below minorShare of its larger
-// effect) is not covered by the stored rating: where the new loading acts in it by more than
-// that share of its own larger effect, it is reported as missing.
+// FromStoredRating rates a member by the load-effect ratio against its reference train,
+// RF = RF_ref · L_ref(1 + I_ref) / (L (1 + I)), in the one sense the stored rating factor
+// rates (Member.StoredSense). A stored rating factor says nothing of the other sense: that is
+// left to FromCapacities, or unrated. The sense is reported as missing where the new loading
+// acts in it but the reference train does not load it at all (no ratio can be formed).
 func FromStoredRating(m Member, ref, d Demand) (rfs []Factor, missing []Sense) {
-	refScale := math.Max(ref.live(Tension), ref.live(Compression))
+	s, _ := m.StoredSense(ref)
 	scale := math.Max(d.live(Tension), d.live(Compression))
-	for _, s := range [...]Sense{Tension, Compression} {
-		l := d.live(s)
-		if l <= negligible*scale || l <= 0 {
-			continue
-		}
-		lref := ref.live(s)
-		if !(refScale > 0) || lref < minorShare*refScale {
-			if l >= minorShare*scale {
-				missing = append(missing, s)
-			}
-			continue
-		}
-		rfs = append(rfs, Factor{Sense: s, RF: m.RatingFactor * lref / l, Basis: FromRatio})
+	l := d.live(s)
+	if l <= negligible*scale || l <= 0 {
+		return nil, nil
 	}
-	return rfs, missing
+	refScale := math.Max(ref.live(Tension), ref.live(Compression))
+	lref := ref.live(s)
+	if lref <= negligible*refScale || lref <= 0 {
+		return nil, []Sense{s}
+	}
+	return []Factor{{Sense: s, RF: m.RatingFactor * lref / l, Basis: FromRatio}}, nil
 }
-
-// minorShare is the share of a loading's larger live effect below which its other sense is
-// taken as not checked by a stored rating.
-const minorShare = 0.05
 
 // Worst gives the smallest of the factors (RF +Inf and ok false when there are none).
 func Worst(rfs []Factor) (Factor, bool) {

@@ -38,9 +38,10 @@ func Explain(w io.Writer, run Run, b Bridge, member string) error {
 		return fmt.Errorf("bridge %s: rebuilding its %s geometry: %w", safetext.Terminal(b.Row.BridgeID), safetext.Terminal(b.Truss.Type), err)
 	}
 	if idx < 0 {
-		labels := make([]string, len(b.Members))
-		for i, m := range b.Members {
-			labels[i] = m.Label
+		// Most severe first (lowest proposed RF, unrated last).
+		labels := make([]string, 0, len(b.Members))
+		for _, i := range severityOrder(b.Members) {
+			labels = append(labels, b.Members[i].Label)
 		}
 		if len(labels) == 0 {
 			labels = t.Labels()
@@ -162,8 +163,15 @@ func Explain(w io.Writer, run Run, b Bridge, member string) error {
 	}
 	_ = tw.Flush()
 	p("  * the lowest RF of the traffic\n")
-	if m.StoredRF != nil {
-		p("  rated by the load-effect ratio from the stored RF %s for %s: RF = RF_ref x L_ref(1 + I) / (L(1 + I))\n", num(*m.StoredRF, 2), safetext.Terminal(orDash(m.ReferenceTrain)))
+	if n := storedNote(m, safetext.Terminal(m.ReferenceTrain)); n != "" {
+		p("  %s\n", n)
+	}
+	if u := unratedSenses(m); len(u) > 0 {
+		p("  unrated in %s: no capacity and no stored RF rated in that sense; counted in the bridge's unrated members", strings.Join(u, " and "))
+		if !run.FlagUnrated {
+			p(", not flagged (thresholds.flag_unrated is off)")
+		}
+		p("\n")
 	}
 	p("  existing RF %s, proposed RF %s", rfText(m.RFExisting), rfText(m.RFProposed))
 	if m.SenseProposed != "" {

@@ -88,7 +88,7 @@ func screenFleet(t testing.TB, bridges []invented, refs ...*traffic.Train) *fixt
 		References: map[string]*envelope.Load{},
 		Dynamic:    traffic.Dynamic{Kind: traffic.Phi3},
 		Method:     rating.WorkingStress,
-		Thresholds: rating.Thresholds{Flag: 1, Review: 1.1, WorseFraction: 0.2},
+		Thresholds: rating.Thresholds{Flag: 1, Review: 1.1, WorseFraction: 0.2, ReversalFraction: 0.1},
 	}
 	for _, r := range refs {
 		ld, err := envelope.Prepare(r)
@@ -104,7 +104,7 @@ func screenFleet(t testing.TB, bridges []invented, refs ...*traffic.Train) *fixt
 		FinishedAt: time.Date(2031, 3, 4, 1, 2, 0, 0, time.UTC),
 		ConfigHash: "c0ffee12", Scenarios: demoTrains, Dynamic: "phi3", Method: "working-stress",
 		Factors: rating.WorkingStress, Trains: byName,
-		Flag: 1, Review: 1.1, WorseFraction: 0.2, FlagCounts: map[string]int{},
+		Flag: 1, Review: 1.1, WorseFraction: 0.2, ReversalFraction: 0.1, FlagCounts: map[string]int{},
 	}
 	results := make([]screening.Result, len(bridges))
 	for i, b := range bridges {
@@ -168,7 +168,7 @@ func convert(b invented, res screening.Result, trains map[string]*traffic.Train)
 		row.FlagCounts[string(fl)] = n
 	}
 	s := res.Summary
-	row.DemandIncrease = s.DemandIncrease
+	row.DemandIncrease, row.Unrated = s.DemandIncrease, s.Unrated
 	if s.Worst >= 0 {
 		row.WorstMember = res.Members[s.Worst].Label
 		row.RFProposed = ptr(s.WorstPr.RF)

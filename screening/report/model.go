@@ -31,6 +31,10 @@ type Run struct {
 	Trains map[string]*traffic.Train
 	// Thresholds: RF below Flag is "exceeds", below Review is "review"; WorseFraction for "worse".
 	Flag, Review, WorseFraction float64
+	// ReversalFraction: the reversed force's least share of the larger force for
+	// "new-reversal"; FlagUnrated: unrated members are flagged "no-capacity".
+	ReversalFraction float64
+	FlagUnrated      bool
 	// FlagCounts counts members per flag over the run; BridgesFlagged the bridges with any flag.
 	FlagCounts     map[string]int
 	BridgesTotal   int
@@ -68,8 +72,11 @@ type Member struct {
 	ConditionFactor                          float64
 	// Stored rating factor and its reference train, when the member is rated by the
 	// load-effect ratio.
-	StoredRF           *float64
-	ReferenceTrain     string
+	StoredRF       *float64
+	ReferenceTrain string
+	// RatingSense is the sense the inventory says the stored RF was rated in ("" when not
+	// given: the run took the sense the reference train governs).
+	RatingSense        string
 	Existing, Proposed Scenario
 }
 

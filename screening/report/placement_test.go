@@ -1,6 +1,7 @@
 package report
 
 import (
+	"fmt"
 	"math"
 	"testing"
 
@@ -133,5 +134,34 @@ func TestPlacementOfCompletesStoredExtreme(t *testing.T) {
 				t.Errorf("%s %s: a train 10 %% heavier passes for the one the run used", spec, m.Label)
 			}
 		}
+	}
+}
+
+// TestSeverityOrder: member lists put the lowest proposed RF first and members without a
+// proposed RF (unrated, or not loaded) last, keeping the geometry's order among equals
+// (common practice: the worst member is read first).
+func TestSeverityOrder(t *testing.T) {
+	rf := func(v float64) *float64 { return &v }
+	cases := []struct {
+		name string
+		rfs  []*float64
+		want []int
+	}{
+		// The reported page: an exceeds member (0.94) behind unrated ones in the geometry.
+		{"exceeds before unrated", []*float64{nil, nil, rf(1.4), rf(0.94)}, []int{3, 2, 0, 1}},
+		{"ties keep the geometry's order", []*float64{rf(1.2), rf(1.1), rf(1.2)}, []int{1, 0, 2}},
+		{"none rated", []*float64{nil, nil}, []int{0, 1}},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			ms := make([]Member, len(c.rfs))
+			for i, r := range c.rfs {
+				ms[i] = Member{Label: fmt.Sprint(i), RFProposed: r}
+			}
+			got := severityOrder(ms)
+			if fmt.Sprint(got) != fmt.Sprint(c.want) {
+				t.Errorf("order %v, want %v", got, c.want)
+			}
+		})
 	}
 }

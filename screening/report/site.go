@@ -260,6 +260,7 @@ type rowView struct {
 	Rank, RankKey, Km, KmKey, Span, SpanKey string
 	RFEx, RFExKey, RFPr, RFPrKey, RFClass   string
 	Change, ChangeKey, Rise, RiseKey        string
+	Unrated, UnratedKey                     string
 	Flags                                   []string
 	Governing, GovSense, Inspected, Error   string
 }
@@ -308,7 +309,8 @@ func runConfig(run Run) []keyValue {
 		keyValue{"dynamic allowance", orDash(run.Dynamic)},
 		keyValue{"rating method", orDash(run.Method)},
 		keyValue{"equation", equation(run)},
-		keyValue{"thresholds", fmt.Sprintf("exceeds below %s, review below %s, worse when more than %s %% below existing", num(flag, 2), num(review, 2), num(100*run.WorseFraction, 0))},
+		keyValue{"thresholds", fmt.Sprintf("exceeds below %s, review below %s, worse when more than %s %% below existing, new-reversal when the reversed force is at least %s %% of the larger, unrated members %s",
+			num(flag, 2), num(review, 2), num(100*run.WorseFraction, 0), num(100*run.ReversalFraction, 0), map[bool]string{true: "flagged", false: "counted, not flagged"}[run.FlagUnrated])},
 		keyValue{"program", orDash(run.ProgramVersion)},
 		keyValue{"configuration hash", orDash(shortHash(run.ConfigHash))},
 	)
@@ -362,6 +364,7 @@ func rowOf(run Run, r BridgeRow, href string) rowView {
 		Change: pctText(r.Change), ChangeKey: sortKey(r.Change),
 		Rise: pctText(&r.DemandIncrease), RiseKey: sortKey(&r.DemandIncrease),
 		Flags: r.Flags, Inspected: orDash(r.LastInspected), Error: r.Error,
+		Unrated: strconv.Itoa(r.Unrated), UnratedKey: strconv.Itoa(r.Unrated),
 	}
 	if r.Rank == 0 {
 		v.Rank, v.RankKey = dash, ""
@@ -373,6 +376,18 @@ func rowOf(run Run, r BridgeRow, href string) rowView {
 		v.Governing, v.GovSense = r.GoverningTrain, r.GoverningSense
 	}
 	return v
+}
+
+// unratedFact is the bridge page's line on its unrated members.
+func unratedFact(run Run, n int) string {
+	if n == 0 {
+		return "none"
+	}
+	s := fmt.Sprintf("%d with dead plus live force acting in a sense with no capacity and no stored RF rated in it", n)
+	if !run.FlagUnrated {
+		s += " (not flagged: thresholds.flag_unrated is off)"
+	}
+	return s
 }
 
 func rfClass(run Run, rf *float64) string {
@@ -449,6 +464,7 @@ func bridgePage(run Run, b Bridge) bridgeView {
 		{"worst member", orDash(r.WorstMember)},
 		{"RF existing → proposed", rfText(r.RFExisting) + " → " + rfText(r.RFProposed)},
 		{"headroom", optNum(r.Headroom, 2) + " × proposed"},
+		{"unrated members", unratedFact(run, r.Unrated)},
 		{"inspected", orDash(r.LastInspected)},
 	}
 	byLabel := map[string]Member{}
@@ -466,7 +482,10 @@ func bridgePage(run Run, b Bridge) bridgeView {
 		e := drawElevation(t, run, byLabel)
 		v.Elevation = &e
 	}
-	for i, m := range b.Members {
+	// Most severe first: the member that matters is not to be found 24th in the geometry's
+	// order.
+	for _, i := range severityOrder(b.Members) {
+		m := b.Members[i]
 		anchor := ""
 		if len(m.Flags) > 0 {
 			anchor = fmt.Sprintf("m-%d", i)
@@ -493,8 +512,8 @@ func memberSection(run Run, b Bridge, t *truss.Truss, lines *analysis.Lines, i i
 	for _, c := range append(senses(m, "existing", m.Existing), senses(m, "proposed", m.Proposed)...) {
 		s.Calc = append(s.Calc, calcOf(c))
 	}
-	if m.StoredRF != nil {
-		s.Notes = append(s.Notes, fmt.Sprintf("Rated by the load-effect ratio from the stored RF %s for %s: RF = RF_ref · L_ref(1 + I) / (L(1 + I)).", num(*m.StoredRF, 2), orDash(m.ReferenceTrain)))
+	if n := storedNote(m, m.ReferenceTrain); n != "" {
+		s.Notes = append(s.Notes, n)
 	}
 	if lines == nil {
 		return s
@@ -578,8 +597,8 @@ func calcOf(c senseCalc) calcView {
 		v.Cond = dash
 	}
 	if c.RF == nil {
+		// Basis says whether the sense is unrated or needs no rating.
 		v.RF = "none held"
-		v.Basis = dash
 	}
 	return v
 }

@@ -3,6 +3,7 @@ package report
 import (
 	"fmt"
 	"math"
+	"sort"
 	"strings"
 
 	"github.com/trussfleet/trussfleet/screening/rating"
@@ -69,8 +70,8 @@ var flagMeaning = map[string]string{
 	string(rating.Exceeds):     "proposed RF below the flag threshold",
 	string(rating.Review):      "proposed RF at or above the flag threshold but below the review threshold",
 	string(rating.Worse):       "proposed RF below the existing RF by more than the set fraction",
-	string(rating.NewReversal): "dead plus live force changes sign under the proposed traffic only",
-	string(rating.NoCapacity):  "loaded in a sense for which no capacity or covering stored RF is held",
+	string(rating.NewReversal): "dead plus live force changes sign under the proposed traffic only, by at least the set share of the larger force",
+	string(rating.NoCapacity):  "unrated: D + L acts in a sense with no capacity and no stored RF rated in it (flagged only where the settings ask)",
 }
 
 // flagOrder lists the known flags in report order, then any others in the order met.
@@ -125,7 +126,19 @@ func senses(m Member, name string, s Scenario) []senseCalc {
 		if !(live > negligibleShare*scale) {
 			return
 		}
-		c := senseCalc{Scenario: name, Sense: sense, HeldKN: held, Condition: cond, DKN: dead, LKN: live, Impact: s.Impact, RF: rf, Basis: s.Basis}
+		// A sense rests on its held capacity, else on the stored RF rated in it, else on
+		// nothing (rating.Rate).
+		basis := rating.FromCapacity
+		switch {
+		case held != nil:
+		case rf != nil:
+			basis = rating.FromRatio
+		case dead+live*s.Impact > 0:
+			basis = "unrated"
+		default:
+			basis = "not needed: D + L keeps the other sense"
+		}
+		c := senseCalc{Scenario: name, Sense: sense, HeldKN: held, Condition: cond, DKN: dead, LKN: live, Impact: s.Impact, RF: rf, Basis: basis}
 		if held != nil {
 			c.CKN = ptr(*held * cond)
 		}
@@ -164,26 +177,73 @@ func reasons(run Run, m Member) []string {
 			r += fmt.Sprintf(", more than the %s %% allowed.", num(100*run.WorseFraction, 0))
 		case rating.NewReversal:
 			p := m.Proposed
-			r = fmt.Sprintf("new-reversal: under the proposed traffic D + L(1 + I) ranges from %s to %s kN and so changes sign, which it does not under the existing traffic; both senses and fatigue need checking.",
-				signed(m.DeadKN+p.LiveMinKN*p.Impact, 1), signed(m.DeadKN+p.LiveMaxKN*p.Impact, 1))
+			lo, hi := m.DeadKN+p.LiveMinKN*p.Impact, m.DeadKN+p.LiveMaxKN*p.Impact
+			share := math.Min(-lo, hi) / math.Max(-lo, hi)
+			r = fmt.Sprintf("new-reversal: under the proposed traffic D + L(1 + I) ranges from %s to %s kN and so changes sign, the reversed force %s %% of the larger (at least the %s %% set), which it does not under the existing traffic; both senses and fatigue need checking.",
+				signed(lo, 1), signed(hi, 1), num(100*share, 0), num(100*run.ReversalFraction, 0))
 		case rating.NoCapacity:
-			var missing []string
-			for _, c := range senses(m, "proposed", m.Proposed) {
-				if c.RF == nil {
-					missing = append(missing, c.Sense)
-				}
-			}
-			what := strings.Join(missing, " and ")
+			what := strings.Join(unratedSenses(m), " and ")
 			if what == "" {
 				what = "a sense"
 			}
-			r = fmt.Sprintf("no-capacity: the proposed traffic loads the member in %s, for which it holds no capacity and no stored rating factor that covers that sense.", what)
+			r = fmt.Sprintf("no-capacity: the proposed traffic loads the member in %s, for which it holds no capacity and no stored rating factor rated in that sense (unrated).", what)
 		default:
 			r = fmt.Sprintf("%s: flagged by the screening run.", f)
 		}
 		out = append(out, r)
 	}
 	return out
+}
+
+// unratedSenses lists the senses the proposed traffic loads a member in with no RF, where
+// the dead plus live force acts in them (rating.Rate).
+func unratedSenses(m Member) []string {
+	var out []string
+	for _, c := range senses(m, "proposed", m.Proposed) {
+		if c.RF == nil && c.DKN+c.LKN*c.Impact > 0 {
+			out = append(out, c.Sense)
+		}
+	}
+	return out
+}
+
+// storedNote says how a member's stored RF was applied: to one sense only, and which.
+// train is the reference train's name as the output may show it.
+func storedNote(m Member, train string) string {
+	if m.StoredRF == nil {
+		return ""
+	}
+	var sense string
+	for _, c := range senses(m, "proposed", m.Proposed) {
+		if c.Basis == rating.FromRatio {
+			sense = c.Sense
+		}
+	}
+	how := "rated in " + orText(sense, "a sense the proposed traffic does not load or that has a held capacity")
+	if m.RatingSense != "" {
+		how += " (the sense the inventory gives)"
+	} else {
+		how += " (not given in the inventory: taken as the sense in which the reference train's dead plus live force governs)"
+	}
+	return fmt.Sprintf("Stored RF %s for %s, %s: RF = RF_ref x L_ref(1 + I_ref) / (L(1 + I)) in that sense only; the other sense is rated from its held capacity, or is unrated.",
+		num(*m.StoredRF, 2), orDash(train), how)
+}
+
+// severityOrder gives the indices of members in order of severity: lowest proposed RF first,
+// members with no proposed RF (unrated or unloaded) last, in the geometry's order otherwise.
+func severityOrder(ms []Member) []int {
+	idx := make([]int, len(ms))
+	for i := range idx {
+		idx[i] = i
+	}
+	sort.SliceStable(idx, func(a, b int) bool {
+		ra, rb := ms[idx[a]].RFProposed, ms[idx[b]].RFProposed
+		if ra == nil || rb == nil {
+			return ra != nil && rb == nil
+		}
+		return *ra < *rb
+	})
+	return idx
 }
 
 // governing is the proposed extreme to draw for a member: in the sense of its proposed RF,
