@@ -2,9 +2,12 @@ package report
 
 import (
 	"fmt"
+	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 
+	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/truss"
 )
 
@@ -137,5 +140,47 @@ func TestInfluenceLineAxisLabels(t *testing.T) {
 	// Below the tick values and inside the drawing.
 	if c.XLabel.Y <= c.Ticks[0].Y || c.XLabel.Y > c.H {
 		t.Errorf("x axis label at y = %g, ticks at %g, drawing %g high", c.XLabel.Y, c.Ticks[0].Y, c.H)
+	}
+}
+
+// TestCrowdedPageKey renders the page of a 16-panel truss whose every member is weak: the
+// labels that find no room are listed in the key below the drawing, each once, numbered as in
+// the drawing.
+func TestCrowdedPageKey(t *testing.T) {
+	b := withCapacities(t, invented{
+		Bridge: screening.Bridge{ID: "NER-90016", Truss: truss.Params{Type: "pratt", SpanM: 96, Panels: 16, DepthM: 10}, TrussShare: 0.5, Tracks: 1, DeadLoadKNPerM: 20},
+		Name:   "Hollin Gill Viaduct", Line: "Northmoor Main Line", ChainageKm: 40.1,
+	}, 0.9)
+	f := screenFleet(t, []invented{b})
+	dir := filepath.Join(t.TempDir(), "report")
+	if err := WriteSite(dir, f.Run, f.Rows, f.bridge); err != nil {
+		t.Fatal(err)
+	}
+	page := readFile(t, filepath.Join(dir, "bridge-NER-90016.html"))
+	key := regexp.MustCompile(`(?s)<ol class="label-key"[^>]*>(.*?)</ol>`).FindStringSubmatch(page)
+	if key == nil {
+		t.Fatal("no key below the crowded drawing")
+	}
+	entries := regexp.MustCompile(`<li>(?:<b>(\d+)</b> )?(\S+) \d+\.\d\d</li>`).FindAllStringSubmatch(key[1], -1)
+	labels := regexp.MustCompile(`<text class="mlabel"[^>]*>([^<]*)</text>`).FindAllStringSubmatch(page, -1)
+	inDrawing := map[string]bool{}
+	for _, l := range labels {
+		inDrawing[l[1]] = true
+	}
+	if len(entries) == 0 {
+		t.Fatalf("key %q lists no member", key[1])
+	}
+	for _, e := range entries {
+		if e[1] != "" && !inDrawing[e[1]] {
+			t.Errorf("key entry %s for %s: no number %s in the drawing", e[1], e[2], e[1])
+		}
+		for l := range inDrawing {
+			if strings.HasPrefix(l, e[2]+" ") {
+				t.Errorf("%s is both labelled (%q) and in the key", e[2], l)
+			}
+		}
+	}
+	if !strings.Contains(page, "the member is listed below the drawing") {
+		t.Error("the caption does not explain the numbers")
 	}
 }
