@@ -196,6 +196,7 @@ func TestReportInBrowser(t *testing.T) {
 	printFits(t, b, "index", true)
 
 	var first string
+	labels := 0
 	for _, r := range f.Rows {
 		if !hasPage(r) {
 			continue
@@ -214,6 +215,22 @@ func TestReportInBrowser(t *testing.T) {
 		if n := eval[int](t, b, `document.querySelectorAll("section.member svg.il").length`); n != flagged {
 			t.Errorf("%s: %d influence-line drawings for %d flagged members", r.BridgeID, n, flagged)
 		}
+		// The labels as the browser sets them: no two meet, and none meets a joint name.
+		labels += eval[int](t, b, `document.querySelectorAll("svg.elevation text.mlabel").length`)
+		if hits := eval[[]string](t, b, `(() => {
+			const ls = Array.from(document.querySelectorAll("svg.elevation text.mlabel"));
+			const all = ls.concat(Array.from(document.querySelectorAll("svg.elevation text.joint")));
+			const bb = all.map(e => e.getBBox());
+			const out = [];
+			for (let i = 0; i < ls.length; i++) for (let k = i + 1; k < all.length; k++) {
+				const a = bb[i], c = bb[k];
+				if (a.x < c.x + c.width && c.x < a.x + a.width && a.y < c.y + c.height && c.y < a.y + a.height)
+					out.push(all[i].textContent + " / " + all[k].textContent);
+			}
+			return out;
+		})()`); len(hits) > 0 {
+			t.Errorf("%s: elevation texts overlap: %v", r.BridgeID, hits)
+		}
 		if first == "" {
 			first = r.BridgeID
 			screenshot(t, b, "report-bridge.png")
@@ -222,6 +239,9 @@ func TestReportInBrowser(t *testing.T) {
 	}
 	if first == "" {
 		t.Fatal("the demo fleet flags no bridge")
+	}
+	if labels == 0 {
+		t.Error("no elevation carries a member label: the overlap check above checked nothing")
 	}
 	b.checkConsole(t)
 }

@@ -3,7 +3,9 @@
 //
 // The site is an index page (the ranked priority list, flag counts, the run's configuration
 // and the cautions) and one page per flagged bridge: an elevation of the truss with every
-// member drawn by its proposed rating factor, and for each flagged member its influence line
+// member drawn by its proposed rating factor (flagged members with a proposed RF labelled,
+// the labels placed clear of each other and of the joint names, or numbered in a key below
+// the drawing where a crowded joint leaves no room), and for each flagged member its influence line
 // with the governing train standing where it causes the extreme, and the rating arithmetic
 // C, D, L, 1 + I and RF under the existing and the proposed traffic. Pages carry their styles
 // and their one small sorting script inline, load nothing, and open from disk.

@@ -3,6 +3,7 @@ package report
 import (
 	"fmt"
 	"math"
+	"sort"
 	"strings"
 
 	"github.com/trussfleet/trussfleet/screening/analysis"
@@ -17,10 +18,12 @@ const svgWidth = 960
 
 // elevation is the drawing of a truss in elevation.
 type elevation struct {
-	W, H     float64
-	Members  []elevMember
-	Joints   []elevText
-	Labels   []elevText
+	W, H    float64
+	Members []elevMember
+	Joints  []elevText
+	Labels  []elevText
+	// Key lists the flagged members whose labels found no room in the drawing.
+	Key      []keyEntry
 	Supports []string // polygon points
 	Rollers  []circle
 	Deck     line
@@ -76,6 +79,8 @@ func drawElevation(t *truss.Truss, run Run, members map[string]Member) elevation
 		}
 		e.Joints = append(e.Joints, elevText{X: px(j.X) + dx, Y: py(j.Y) + dy, Anchor: anchor, Text: j.Name})
 	}
+	var ws []wanted
+	var rfs []float64
 	for _, mb := range t.Members {
 		a, b := t.Joints[mb.A], t.Joints[mb.B]
 		m, held := members[mb.Label]
@@ -95,19 +100,41 @@ func drawElevation(t *truss.Truss, run Run, members map[string]Member) elevation
 			Flagged: len(m.Flags) > 0,
 		}
 		e.Members = append(e.Members, em)
-		if em.Flagged {
-			text := mb.Label + " " + rfText(rf)
-			switch {
-			case a.Y == b.Y && a.Y >= depth/2:
-				// Chord labels sit beyond the row of joint names.
-				e.Labels = append(e.Labels, elevText{X: (px(a.X) + px(b.X)) / 2, Y: py(a.Y) - 26, Anchor: "middle", Text: text})
-			case a.Y == b.Y:
-				e.Labels = append(e.Labels, elevText{X: (px(a.X) + px(b.X)) / 2, Y: py(a.Y) + 36, Anchor: "middle", Text: text})
-			default:
-				e.Labels = append(e.Labels, memberLabel(px(a.X), py(a.Y), px(b.X), py(b.Y), text))
-			}
+		// Unrated members are told apart by their line style (the legend's last entry),
+		// not by a label of "—".
+		if em.Flagged && rf != nil && finite(*rf) {
+			ws = append(ws, wanted{Text: mb.Label + " " + rfText(rf), X1: px(a.X), Y1: py(a.Y), X2: px(b.X), Y2: py(b.Y)})
+			rfs = append(rfs, *rf)
 		}
 	}
+	// Most severe first, so that the worst members get the places nearest their middles.
+	order := make([]int, len(ws))
+	for i := range order {
+		order[i] = i
+	}
+	sort.SliceStable(order, func(i, k int) bool { return rfs[order[i]] < rfs[order[k]] })
+	byRF := make([]wanted, len(ws))
+	for i, k := range order {
+		byRF[i] = ws[k]
+	}
+	var taken []box
+	for _, j := range e.Joints {
+		taken = append(taken, textBox(j, jointFont, 1))
+	}
+	for _, j := range t.Joints {
+		taken = append(taken, box{px(j.X) - 4, py(j.Y) - 4, px(j.X) + 4, py(j.Y) + 4})
+	}
+	for _, sp := range t.Supports {
+		j := t.Joints[sp.Joint]
+		taken = append(taken, box{px(j.X) - 12, py(j.Y), px(j.X) + 12, py(j.Y) + 32})
+	}
+	// Clear of the drawing's edges and of the span line at its foot.
+	var lines []line
+	for _, mb := range t.Members {
+		a, b := t.Joints[mb.A], t.Joints[mb.B]
+		lines = append(lines, line{px(a.X), py(a.Y), px(b.X), py(b.Y)})
+	}
+	e.Labels, e.Key = placeLabels(byRF, taken, lines, box{2, 2, e.W - 2, e.H - 22})
 	for _, sp := range t.Supports {
 		j := t.Joints[sp.Joint]
 		x, y := px(j.X), py(j.Y)
@@ -123,22 +150,6 @@ func drawElevation(t *truss.Truss, run Run, members map[string]Member) elevation
 	}
 	e.Span = elevText{X: svgWidth / 2, Y: e.H - 8, Anchor: "middle", Text: fmt.Sprintf("span %s m, %d panels, depth %s m", num(span, 2), t.Params.Panels, num(t.Params.DepthM, 2))}
 	return e
-}
-
-// memberLabel places a member's label beside its middle, along the member, on its upper side.
-func memberLabel(x1, y1, x2, y2 float64, text string) elevText {
-	mx, my := (x1+x2)/2, (y1+y2)/2
-	ang := math.Atan2(y2-y1, x2-x1) * 180 / math.Pi
-	if ang > 90 {
-		ang -= 180
-	} else if ang <= -90 {
-		ang += 180
-	}
-	// Normal pointing "up" on the page for the text's baseline.
-	r := ang * math.Pi / 180
-	nx, ny := math.Sin(r), -math.Cos(r)
-	const off = 8.0
-	return elevText{X: mx + off*nx, Y: my + off*ny, Rotate: ang, Anchor: "middle", Text: text}
 }
 
 // ilChart is a member's influence line with the governing train placed on it.
@@ -162,6 +173,7 @@ type ilChart struct {
 	DirHead     string // polygon points
 	Front       *line
 	YLabel      elevText
+	XLabel      elevText
 }
 
 type arrow struct {
@@ -217,6 +229,8 @@ func drawIL(id, label string, spanM float64, xs, eta []float64, ob onBridge, lef
 	last := xs[len(xs)-1]
 	pos, neg = append(pos, pt(last, 0)), append(neg, pt(last, 0))
 	c.Line, c.PosArea, c.NegArea = strings.Join(pts, " "), strings.Join(pos, " "), strings.Join(neg, " ")
+	// The x axis: distance from the left bearing, in the unit of the tick values.
+	c.XLabel = elevText{X: (c.Left + c.Right) / 2, Y: plotTop + plotH + 34, Anchor: "middle", Text: "position from left bearing x (m)"}
 	c.YLabel = elevText{X: 14, Y: plotTop + plotH/2, Rotate: -90, Anchor: "middle", Text: "η (kN/kN)"}
 
 	pmax := 0.0
