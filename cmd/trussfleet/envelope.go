@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"encoding/csv"
 	"encoding/json"
 	"fmt"
@@ -12,10 +13,12 @@ import (
 
 	"github.com/spf13/cobra"
 	"github.com/trussfleet/trussfleet/configs"
+	"github.com/trussfleet/trussfleet/fleetrun"
 	"github.com/trussfleet/trussfleet/internal/safetext"
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/traffic"
+	"github.com/trussfleet/trussfleet/screening/truss"
 )
 
 func init() { commands = append(commands, newEnvelopeCmd) }
@@ -25,27 +28,30 @@ func newEnvelopeCmd(a *app) *cobra.Command {
 	var specs []string
 	var share float64
 	var dynamic, format string
+	var bridgeID string
 	cmd := &cobra.Command{
 		Use:   "envelope",
 		Short: "Print every member's largest tension and compression under one or more trains",
 		Example: "  trussfleet envelope --type pratt --span 60 --panels 12 --depth 7.5 --train lm71:alpha=1.33\n" +
-			"  trussfleet envelope --type pratt --span 60 --panels 12 --depth 7.5 --train northmoor-freight-proposed --train uniform:q=80,min=12,max=48 --dynamic phi3 --format json",
+			"  trussfleet envelope --type pratt --span 60 --panels 12 --depth 7.5 --train northmoor-freight-proposed --train uniform:q=80,min=12,max=48 --dynamic phi3 --format json\n" +
+			"  trussfleet envelope --bridge NER-00002 --train cooper:e=80",
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
+			ctx := cmd.Context()
 			if err := outputFormat(format, "table", "csv", "json"); err != nil {
 				return err
 			}
 			if len(specs) == 0 {
-				return fmt.Errorf("--train: give at least one train; built-in: %s; named trains are train files in configs/trains", strings.Join(traffic.BuiltinNames(), "; "))
-			}
-			if !(share > 0) || share > 1 {
-				return fmt.Errorf("--share: must lie in (0, 1], got %v", share)
+				return fmt.Errorf("--train: give at least one train; built-in: %s; named trains are train files in configs/trains or stored trains", strings.Join(traffic.BuiltinNames(), "; "))
 			}
 			dyn, err := traffic.ParseDynamic(dynamic)
 			if err != nil {
 				return fmt.Errorf("--dynamic: %w", err)
 			}
-			t, err := g.build()
+			// The database is opened only for a stored bridge or train.
+			look := fleetrun.Lookup{Examples: configs.Trains(), Open: a.openDatabase}
+			defer look.Close()
+			t, share, err := envelopeTruss(ctx, cmd, &look, &g, bridgeID, share)
 			if err != nil {
 				return err
 			}
@@ -66,7 +72,7 @@ func newEnvelopeCmd(a *app) *cobra.Command {
 			var all, one []envelope.Extremes
 			var names []string
 			for _, spec := range specs {
-				tr, err := traffic.ParseSpec(spec, configs.Trains())
+				tr, err := look.Train(ctx, spec)
 				if err != nil {
 					return fmt.Errorf("--train: %w", err)
 				}
@@ -86,7 +92,7 @@ func newEnvelopeCmd(a *app) *cobra.Command {
 				}
 			}
 			doc := envelopeDoc{
-				Caution: caution, Trains: names, Share: share, Dynamic: dyn.String(),
+				Caution: caution, Bridge: bridgeID, Trains: names, Share: share, Dynamic: dyn.String(),
 				DynamicFactor: dyn.Factor(lines.SpanM()),
 			}
 			for i, m := range il.Members {
@@ -106,17 +112,57 @@ func newEnvelopeCmd(a *app) *cobra.Command {
 			return envelopeTable(w, t.Params.Type, lines.SpanM(), doc)
 		},
 	}
-	g.add(cmd)
+	g.add(cmd, false)
 	f := cmd.Flags()
-	f.StringArrayVar(&specs, "train", nil, "train: a built-in model (lm71:alpha=1, sw0, sw2, unloaded, cooper:e=80, cooper-alt:e=80, uniform:q=Q,min=M,max=M), a train file, or a named train; repeat for several")
+	f.StringVar(&bridgeID, "bridge", "", "a stored bridge's id: its geometry and live-load share (truss share × tracks) instead of the geometry flags and --share")
+	f.StringArrayVar(&specs, "train", nil, "train: a built-in model (lm71:alpha=1, sw0, sw2, unloaded, cooper:e=80, cooper-alt:e=80, uniform:q=Q,min=M,max=M), a train file, a shipped example train or a stored train by name; repeat for several")
 	f.Float64Var(&share, "share", 0.5, "share of the track load carried by one truss (0.5: one track centred between two trusses)")
 	f.StringVar(&dynamic, "dynamic", "none", "dynamic allowance: none, fixed:0.2, phi2, phi3, arema (optionally :l=M determinant length, arema :s=M truss spacing)")
 	f.StringVar(&format, "format", "table", "output: table, csv or json")
 	return cmd
 }
 
+// envelopeTruss lays out the truss and gives the share of a track's load it carries: the
+// stored bridge's (screening.Bridge.LiveShare) with --bridge, else the flags'.
+func envelopeTruss(ctx context.Context, cmd *cobra.Command, look *fleetrun.Lookup, g *geometryFlags, bridgeID string, share float64) (*truss.Truss, float64, error) {
+	if bridgeID == "" {
+		if miss := g.missing(cmd); len(miss) > 0 {
+			return nil, 0, fmt.Errorf("%s not set: give the truss geometry (--type, --span, --panels, --depth, --deck, --end-posts) or a stored bridge (--bridge ID)", strings.Join(miss, ", "))
+		}
+		if !(share > 0) || share > 1 {
+			return nil, 0, fmt.Errorf("--share: must lie in (0, 1], got %v", share)
+		}
+		t, err := g.build()
+		return t, share, err
+	}
+	given := g.given(cmd)
+	if cmd.Flags().Changed("share") {
+		given = append(given, "--share")
+	}
+	if len(given) > 0 {
+		return nil, 0, fmt.Errorf("--bridge %s and %s: the stored bridge gives the geometry and the share; give either --bridge or the flags",
+			safetext.Terminal(bridgeID), strings.Join(given, ", "))
+	}
+	b, err := look.Bridge(ctx, bridgeID)
+	if err != nil {
+		if db, derr := look.DB(ctx); derr == nil {
+			err = withBridgeHint(ctx, db, bridgeID, err)
+		}
+		return nil, 0, fmt.Errorf("--bridge: %w", err)
+	}
+	t, err := truss.Build(b.Truss)
+	if err != nil {
+		return nil, 0, fmt.Errorf("--bridge %s: truss geometry: %w", safetext.Terminal(bridgeID), err)
+	}
+	if !(b.LiveShare() > 0) {
+		return nil, 0, fmt.Errorf("--bridge %s: truss share %v × tracks %d: must be positive", safetext.Terminal(bridgeID), b.TrussShare, b.Tracks)
+	}
+	return t, b.LiveShare(), nil
+}
+
 type envelopeDoc struct {
 	Caution       string           `json:"caution"`
+	Bridge        string           `json:"bridge,omitempty"`
 	Trains        []string         `json:"trains"`
 	Share         float64          `json:"share"`
 	Dynamic       string           `json:"dynamic"`
@@ -186,6 +232,9 @@ func (e extremeJSON) cells() []string {
 }
 
 func envelopeTable(w io.Writer, typ string, span float64, doc envelopeDoc) error {
+	if doc.Bridge != "" {
+		fmt.Fprintf(w, "Bridge %s: ", safetext.Terminal(doc.Bridge))
+	}
 	fmt.Fprintf(w, "%s truss, span %g m. Member forces in kN (tension +), share %g, dynamic %s (factor %.3f).\n", typ, span, doc.Share, doc.Dynamic, doc.DynamicFactor)
 	fmt.Fprintf(w, "Trains: %s. Head: position of the train's front (m), arrow: direction of travel.\n\n", safetext.Terminal(strings.Join(doc.Trains, "; ")))
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)

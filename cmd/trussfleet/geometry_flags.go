@@ -16,7 +16,9 @@ type geometryFlags struct {
 	p truss.Params
 }
 
-func (g *geometryFlags) add(cmd *cobra.Command) {
+// add defines the flags; span, panels and depth are required unless the command takes the
+// geometry from elsewhere as well (envelope --bridge), in which case it calls missing itself.
+func (g *geometryFlags) add(cmd *cobra.Command, required bool) {
 	f := cmd.Flags()
 	f.StringVar(&g.p.Type, "type", "pratt", "truss type: "+strings.Join(truss.TypeNames(), ", "))
 	f.Float64Var(&g.p.SpanM, "span", 0, "span between bearings, m")
@@ -24,9 +26,37 @@ func (g *geometryFlags) add(cmd *cobra.Command) {
 	f.Float64Var(&g.p.DepthM, "depth", 0, "depth between chord centre lines, m")
 	f.StringVar(&g.p.Deck, "deck", "through", "deck position: through (deck at the bottom chord) or deck (at the top)")
 	f.StringVar(&g.p.EndPosts, "end-posts", "", "pratt and howe: inclined or vertical (default inclined for through, vertical for deck)")
-	for _, name := range []string{"span", "panels", "depth"} {
+	if !required {
+		return
+	}
+	for _, name := range geometryRequired {
 		_ = cmd.MarkFlagRequired(name)
 	}
+}
+
+// geometryRequired are the geometry flags without a default.
+var geometryRequired = []string{"span", "panels", "depth"}
+
+// given lists the geometry flags set on the command line, as "--name".
+func (g *geometryFlags) given(cmd *cobra.Command) []string {
+	var out []string
+	for _, name := range []string{"type", "span", "panels", "depth", "deck", "end-posts"} {
+		if cmd.Flags().Changed(name) {
+			out = append(out, "--"+name)
+		}
+	}
+	return out
+}
+
+// missing lists the required geometry flags not set on the command line, as "--name".
+func (g *geometryFlags) missing(cmd *cobra.Command) []string {
+	var out []string
+	for _, name := range geometryRequired {
+		if !cmd.Flags().Changed(name) {
+			out = append(out, "--"+name)
+		}
+	}
+	return out
 }
 
 // build lays out the truss, naming the flag at fault when the parameters are bad.

@@ -50,7 +50,7 @@ func newLinesCmd(a *app) *cobra.Command {
 			return linesTable(w, t, l)
 		},
 	}
-	g.add(cmd)
+	g.add(cmd, true)
 	cmd.Flags().StringVar(&format, "format", "table", "output: table, csv or json")
 	return cmd
 }

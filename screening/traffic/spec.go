@@ -45,14 +45,24 @@ func ParseSpec(spec string, trains fs.FS) (*Train, error) {
 		}
 	}
 	if strings.ContainsRune(spec, '/') || strings.HasSuffix(spec, ".yaml") || strings.HasSuffix(spec, ".yml") {
-		return nil, fmt.Errorf("train file %s: not found", spec)
+		return nil, unknownTrain("train file " + spec + ": not found")
 	}
 	msg := fmt.Sprintf("train %q: no built-in model, train file or named train of that name; built-in: %s", spec, strings.Join(BuiltinNames(), "; "))
 	if files := trainFiles(trains); len(files) > 0 {
 		msg += "; named trains: " + strings.Join(files, ", ")
 	}
-	return nil, errors.New(msg)
+	return nil, unknownTrain(msg)
 }
+
+// ErrUnknownTrain is returned (wrapped) by ParseSpec when a spec names no built-in model, no
+// train file and no named train, so that a caller may look further (a stored train).
+var ErrUnknownTrain = errors.New("unknown train")
+
+// unknownTrain is ParseSpec's message for a spec it cannot find; it is ErrUnknownTrain.
+type unknownTrain string
+
+func (e unknownTrain) Error() string        { return string(e) }
+func (e unknownTrain) Is(target error) bool { return target == ErrUnknownTrain }
 
 // readFile reads a train file, no more of it than ParseTrainFile takes.
 func readFile(name string) ([]byte, error) {

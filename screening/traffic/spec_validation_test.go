@@ -1,6 +1,7 @@
 package traffic
 
 import (
+	"errors"
 	"strings"
 	"testing"
 )
@@ -19,8 +20,13 @@ func TestBadSpecs(t *testing.T) {
 		"configs/trains/nope.yaml": "not found",
 	}
 	for spec, says := range trains {
-		if _, err := ParseSpec(spec, nil); err == nil || !strings.Contains(err.Error(), says) {
+		_, err := ParseSpec(spec, nil)
+		if err == nil || !strings.Contains(err.Error(), says) {
 			t.Errorf("%s: got %v, want an error saying %q", spec, err, says)
+		}
+		// Only a name found nowhere lets a caller look further (a stored train).
+		if unknown := spec == "nosuch" || spec == "configs/trains/nope.yaml"; errors.Is(err, ErrUnknownTrain) != unknown {
+			t.Errorf("%s: errors.Is(err, ErrUnknownTrain) = %v, want %v", spec, !unknown, unknown)
 		}
 	}
 	for spec, says := range map[string]string{"fixed:NaN": "from 0 to 2", "fixed:1e308": "from 0 to 2", "fixed:-0.1": "from 0 to 2", "phi9": "unknown", "phi2:l=-3": "positive length"} {
