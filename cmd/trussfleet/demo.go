@@ -71,7 +71,7 @@ Running it again re-imports (nothing changes) and screens again as a new run.`,
 				return err
 			}
 			for _, format := range []string{"csv", "json"} {
-				paths, err := exportRun(ctx, db, run, a.cfg.Output, format)
+				paths, err := exportRun(ctx, db, run, a.cfg.Output, format, a.cfg.units())
 				if err != nil {
 					return err
 				}

@@ -18,6 +18,7 @@ import (
 	"strings"
 
 	"github.com/trussfleet/trussfleet/internal/safetext"
+	"github.com/trussfleet/trussfleet/internal/units"
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/envelope"
@@ -510,7 +511,7 @@ func memberSection(run Run, b Bridge, t *truss.Truss, lines *analysis.Lines, i i
 	m := b.Members[i]
 	s := section{Label: m.Label, Kind: m.Kind, Anchor: anchor, Flags: m.Flags, Reasons: reasons(run, m)}
 	for _, c := range append(senses(m, "existing", m.Existing), senses(m, "proposed", m.Proposed)...) {
-		s.Calc = append(s.Calc, calcOf(c))
+		s.Calc = append(s.Calc, calcOf(c, units.SI))
 	}
 	if n := storedNote(m, m.ReferenceTrain); n != "" {
 		s.Notes = append(s.Notes, n)
@@ -590,9 +591,11 @@ func placementText(ex envelope.Extreme, tr *traffic.Train, ob onBridge, xs, eta 
 	return s
 }
 
-func calcOf(c senseCalc) calcView {
-	v := calcView{Scenario: c.Scenario, Sense: c.Sense, Basis: orDash(c.Basis), Held: optNum(c.HeldKN, 1), Cond: num(c.Condition, 2), C: optNum(c.CKN, 1),
-		D: signed(c.DKN, 1), L: num(c.LKN, 1), Impact: num(c.Impact, 3), RF: rfText(c.RF), Governs: c.Governs}
+// calcOf is the arithmetic of one sense as shown, forces in units u.
+func calcOf(c senseCalc, u units.System) calcView {
+	f := units.Force
+	v := calcView{Scenario: c.Scenario, Sense: c.Sense, Basis: orDash(c.Basis), Held: optQty(u, f, c.HeldKN), Cond: num(c.Condition, 2), C: optQty(u, f, c.CKN),
+		D: signedQty(u, f, c.DKN), L: qty(u, f, c.LKN), Impact: num(c.Impact, 3), RF: rfText(c.RF), Governs: c.Governs}
 	if c.HeldKN == nil {
 		v.Cond = dash
 	}
