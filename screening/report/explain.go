@@ -191,7 +191,7 @@ func ExplainIn(w io.Writer, run Run, b Bridge, member string, u units.System) er
 		p(" (%s)", m.SenseProposed)
 	}
 	p("\n\nWhy flagged\n")
-	if rs := reasons(run, m); len(rs) > 0 {
+	if rs := reasons(run, m, u); len(rs) > 0 {
 		for _, s := range rs {
 			p("  - %s\n", s)
 		}
