@@ -7,16 +7,17 @@ import (
 	"strings"
 	"time"
 
+	"github.com/trussfleet/trussfleet/internal/units"
 	"github.com/xuri/excelize/v2"
 )
 
-// Unit conversions for imperial columns (exact by definition for the foot; the kip is
-// 1000 lbf with the standard acceleration, to the precision the domain brief gives).
+// Unit conversions for imperial columns: the foot and the kip from internal/units, where
+// the outputs take them too; the mile and the square inch exact by definition.
 const (
-	metresPerFoot  = 0.3048
+	metresPerFoot  = units.MPerFt
 	kmPerMile      = 1.609344
-	kNPerKip       = 4.4482216
-	kNPerMPerKipFt = kNPerKip / metresPerFoot // kip/ft -> kN/m
+	kNPerKip       = units.KNPerKip
+	kNPerMPerKipFt = units.KNPerMPerKipPerFt // kip/ft -> kN/m
 	mm2PerIn2      = 645.16
 )
 

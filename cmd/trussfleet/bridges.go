@@ -10,6 +10,7 @@ import (
 
 	"github.com/spf13/cobra"
 	"github.com/trussfleet/trussfleet/internal/safetext"
+	"github.com/trussfleet/trussfleet/internal/units"
 	"github.com/trussfleet/trussfleet/store"
 )
 
@@ -40,28 +41,32 @@ count, which an import ignores), so the list can be edited and imported again.`,
 			w := cmd.OutOrStdout()
 			switch format {
 			case "csv":
-				return bridgesCSV(w, bs)
+				return bridgesCSV(w, bs, a.cfg.units())
 			case "json":
 				enc := json.NewEncoder(w)
 				enc.SetIndent("", "  ")
 				return enc.Encode(map[string]any{"caution": caution, "bridges": bs})
 			}
-			return bridgesTable(w, bs)
+			return bridgesTable(w, bs, a.cfg.units())
 		},
 	}
 	list.Flags().StringVar(&format, "format", "table", "output: table, csv or json")
+	addUnitsFlag(list)
 	cmd.AddCommand(list)
 	return cmd
 }
 
-// bridgesTable prints the bridges for a person, their text through safetext.Cell.
-func bridgesTable(w io.Writer, bs []store.BridgeSummary) error {
+// bridgesTable prints the bridges for a person in units u, rounded (internal/units), their
+// text through safetext.Cell.
+func bridgesTable(w io.Writer, bs []store.BridgeSummary, u units.System) error {
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-	fmt.Fprintln(tw, "bridge_id\tname\tline\tkm\ttype\tdeck\tspan m\tpanels\tdepth m\tdead kN/m/truss\tbuilt\tinspected\tmembers")
+	fmt.Fprintf(tw, "bridge_id\tname\tline\tkm\ttype\tdeck\tspan %[1]s\tpanels\tdepth %[1]s\tdead %[2]s/truss\tbuilt\tinspected\tmembers\n",
+		u.Name(units.Length), u.Name(units.PerLength))
 	cell := safetext.Cell
 	for _, b := range bs {
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\t%g\t%d\t%g\t%g\t%s\t%s\t%d\n", cell(b.BridgeID), cell(b.Name), cell(b.Line), optFloat(b.ChainageKM),
-			cell(b.TrussType), cell(b.Deck), b.SpanM, b.Panels, b.DepthM, b.DeadLoadKNPerM, optInt(b.YearBuilt), optDate(b), b.Members)
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\t%s\t%d\t%s\t%s\t%s\t%s\t%d\n", cell(b.BridgeID), cell(b.Name), cell(b.Line), optFixed(b.ChainageKM, 3),
+			cell(b.TrussType), cell(b.Deck), u.Format(units.Length, b.SpanM), b.Panels, u.Format(units.Length, b.DepthM),
+			u.Format(units.PerLength, b.DeadLoadKNPerM), optInt(b.YearBuilt), optDate(b), b.Members)
 	}
 	if err := tw.Flush(); err != nil {
 		return err
@@ -74,16 +79,20 @@ func bridgesTable(w io.Writer, bs []store.BridgeSummary) error {
 // bridgesCSV writes the bridges.csv columns, so the output imports again; the first line
 // is the caution as a comment, which the importer skips. Text cells go through
 // safetext.CSVCell: a name a spreadsheet would run as a formula is written after a quote.
-func bridgesCSV(w io.Writer, bs []store.BridgeSummary) error {
+// Lengths and loads are in units u, under the importer's column names for them (span_m or
+// span_ft), written by units.Exact: without floating-point noise, yet not rounded to display
+// precision, so that importing the list again leaves the bridges as they were.
+func bridgesCSV(w io.Writer, bs []store.BridgeSummary, u units.System) error {
 	fmt.Fprintf(w, "# %s\n", caution)
 	cw := csv.NewWriter(w)
-	cw.Write([]string{"bridge_id", "name", "line", "chainage_km", "truss_type", "span_m", "panels", "depth_m", "deck", "end_posts",
-		"trusses", "truss_share", "tracks", "dead_load_kn_per_m", "year_built", "latitude", "longitude", "last_inspected", "members"})
+	length := u.Column(units.Length)
+	cw.Write([]string{"bridge_id", "name", "line", "chainage_km", "truss_type", "span_" + length, "panels", "depth_" + length, "deck", "end_posts",
+		"trusses", "truss_share", "tracks", "dead_load_" + u.Column(units.PerLength), "year_built", "latitude", "longitude", "last_inspected", "members"})
 	text := safetext.CSVCell
 	for _, b := range bs {
-		f := func(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) }
-		cw.Write([]string{text(b.BridgeID), text(b.Name), text(b.Line), optFloat(b.ChainageKM), text(b.TrussType), f(b.SpanM), strconv.Itoa(b.Panels), f(b.DepthM),
-			text(b.Deck), text(b.EndPosts), strconv.Itoa(b.Trusses), f(b.TrussShare), strconv.Itoa(b.Tracks), f(b.DeadLoadKNPerM),
+		f := func(v float64) string { return units.SI.Exact(units.Length, v) } // a plain number, noise removed
+		cw.Write([]string{text(b.BridgeID), text(b.Name), text(b.Line), optFloat(b.ChainageKM), text(b.TrussType), u.Exact(units.Length, b.SpanM), strconv.Itoa(b.Panels),
+			u.Exact(units.Length, b.DepthM), text(b.Deck), text(b.EndPosts), strconv.Itoa(b.Trusses), f(b.TrussShare), strconv.Itoa(b.Tracks), u.Exact(units.PerLength, b.DeadLoadKNPerM),
 			optInt(b.YearBuilt), optFloat(b.Latitude), optFloat(b.Longitude), optDate(b), strconv.Itoa(b.Members)})
 	}
 	cw.Flush()
@@ -95,6 +104,14 @@ func optFloat(p *float64) string {
 		return ""
 	}
 	return strconv.FormatFloat(*p, 'f', -1, 64)
+}
+
+// optFixed writes an optional value with the given decimals; "" for none.
+func optFixed(p *float64, decimals int) string {
+	if p == nil {
+		return ""
+	}
+	return units.Fixed(*p, decimals)
 }
 
 func optInt(p *int) string {

@@ -10,8 +10,10 @@ import (
 	"strings"
 	"time"
 
+	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
 	"github.com/spf13/viper"
+	"github.com/trussfleet/trussfleet/internal/units"
 	"github.com/trussfleet/trussfleet/store"
 )
 
@@ -20,6 +22,8 @@ type Config struct {
 	Database DatabaseConfig `mapstructure:"database"`
 	Workers  int            `mapstructure:"workers"`
 	Output   string         `mapstructure:"output"`
+	// Units of what is printed for people: si or imperial (internal/units). JSON is SI always.
+	Units string `mapstructure:"units"`
 	// Screening settings live in config_screen.go.
 	Screen ScreenConfig `mapstructure:",squash"`
 	// Retention prunes old runs after each completed screen (runs prune does it by hand).
@@ -90,6 +94,7 @@ var flagKeys = map[string]string{
 	"data-dir":     "database.data_dir",
 	"workers":      "workers",
 	"out":          "output",
+	"units":        "units",
 }
 
 func setDefaults(v *viper.Viper) {
@@ -97,6 +102,7 @@ func setDefaults(v *viper.Viper) {
 	v.SetDefault("database.data_dir", "")
 	v.SetDefault("workers", runtime.NumCPU())
 	v.SetDefault("output", "trussfleet-out")
+	v.SetDefault("units", "si")
 	setScreenDefaults(v)
 	v.SetDefault("retention.keep", 0)
 	v.SetDefault("retention.older_than", "")
@@ -166,6 +172,9 @@ func (c Config) validate() error {
 	if c.Workers < 1 {
 		errs = append(errs, fmt.Errorf("configuration key workers: must be at least 1, got %d", c.Workers))
 	}
+	if _, err := units.Parse(c.Units); err != nil {
+		errs = append(errs, fmt.Errorf("configuration key units: %w", err))
+	}
 	errs = append(errs, c.Screen.validate()...)
 	if c.Retention.Keep < 0 {
 		errs = append(errs, fmt.Errorf("configuration key retention.keep: must not be negative, got %d", c.Retention.Keep))
@@ -174,4 +183,16 @@ func (c Config) validate() error {
 		errs = append(errs, err)
 	}
 	return errors.Join(errs...)
+}
+
+// units is the resolved system of units for people's outputs (validated by loadConfig).
+func (c Config) units() units.System {
+	u, _ := units.Parse(c.Units)
+	return u
+}
+
+// addUnitsFlag gives a command that prints for people the --units flag (configuration key
+// units).
+func addUnitsFlag(cmd *cobra.Command) {
+	cmd.Flags().String("units", "", "units of the output for people: si (m, kN) or imperial (ft, kip); default: the units setting, si. JSON stays SI")
 }

@@ -71,7 +71,7 @@ Running it again re-imports (nothing changes) and screens again as a new run.`,
 				return err
 			}
 			for _, format := range []string{"csv", "json"} {
-				paths, err := exportRun(ctx, db, run, a.cfg.Output, format)
+				paths, err := exportRun(ctx, db, run, a.cfg.Output, format, a.cfg.units())
 				if err != nil {
 					return err
 				}
@@ -80,7 +80,7 @@ Running it again re-imports (nothing changes) and screens again as a new run.`,
 				}
 			}
 			site := filepath.Join(a.cfg.Output, "report")
-			if err := writeReport(ctx, db, run.ID, site); err != nil {
+			if err := writeReport(ctx, db, run.ID, site, a.cfg.units()); err != nil {
 				return err
 			}
 			fmt.Fprintf(out, "wrote %s (open it in a browser)\n", filepath.Join(site, "index.html"))

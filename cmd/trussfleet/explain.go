@@ -33,11 +33,12 @@ func newExplainCmd(a *app) *cobra.Command {
 				if err != nil {
 					return withBridgeHint(ctx, db, args[0], err)
 				}
-				return report.Explain(cmd.OutOrStdout(), run, b, args[1])
+				return report.ExplainIn(cmd.OutOrStdout(), run, b, args[1], a.cfg.units())
 			})
 		},
 	}
 	cmd.Flags().Int64Var(&runID, "run", 0, "run id (default: the latest completed run)")
+	addUnitsFlag(cmd)
 	return cmd
 }
 

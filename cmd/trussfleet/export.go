@@ -13,6 +13,7 @@ import (
 
 	"github.com/spf13/cobra"
 	"github.com/trussfleet/trussfleet/internal/safetext"
+	"github.com/trussfleet/trussfleet/internal/units"
 	"github.com/trussfleet/trussfleet/screening/report"
 	"github.com/trussfleet/trussfleet/store"
 )
@@ -26,7 +27,9 @@ func newExportCmd(a *app) *cobra.Command {
 		Use:   "export",
 		Short: "Write the priority list (bridges and flagged members) for inspectors",
 		Long: `export writes priority-bridges.{csv,json} and priority-members.{csv,json} into the output
-folder (--out, default trussfleet-out). Columns are described in the README.`,
+folder (--out, default trussfleet-out). Columns are described in the README. CSV is for
+people: rounded, and with --units imperial in ft and kip under unit-suffixed column names
+(span_ft, dead_kip); JSON is for programs: full precision and SI always.`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
 			if err := outputFormat(format, "csv", "json"); err != nil {
@@ -34,7 +37,7 @@ folder (--out, default trussfleet-out). Columns are described in the README.`,
 			}
 			ctx := cmd.Context()
 			return a.withRun(ctx, runID, func(db *store.DB, run store.Run) error {
-				paths, err := exportRun(ctx, db, run, a.cfg.Output, format)
+				paths, err := exportRun(ctx, db, run, a.cfg.Output, format, a.cfg.units())
 				for _, p := range paths {
 					fmt.Fprintln(cmd.OutOrStdout(), "wrote", p)
 				}
@@ -45,20 +48,32 @@ folder (--out, default trussfleet-out). Columns are described in the README.`,
 	cmd.Flags().Int64Var(&runID, "run", 0, "run id (default: the latest completed run)")
 	cmd.Flags().StringVar(&format, "format", "csv", "csv or json")
 	cmd.Flags().String("out", "", "output folder (default: the output setting, trussfleet-out)")
+	addUnitsFlag(cmd)
 	return cmd
 }
 
-var bridgeExportHeader = []string{"rank", "bridge_id", "name", "line", "chainage_km", "truss_type", "span_m", "panels",
-	"worst_member", "rf_existing", "rf_proposed", "rf_change_pct", "demand_increase_pct", "flags", "unrated_members",
-	"headroom", "governing_train", "governing_sense", "governing_head_m", "governing_direction", "loaded_from_m", "loaded_to_m",
-	"last_inspected", "status", "error"}
+// bridgeExportHeader is the bridge export's columns, lengths suffixed with their unit in u
+// (span_m, span_ft).
+func bridgeExportHeader(u units.System) []string {
+	l := u.Column(units.Length)
+	return []string{"rank", "bridge_id", "name", "line", "chainage_km", "truss_type", "span_" + l, "panels",
+		"worst_member", "rf_existing", "rf_proposed", "rf_change_pct", "demand_increase_pct", "flags", "unrated_members",
+		"headroom", "governing_train", "governing_sense", "governing_head_" + l, "governing_direction", "loaded_from_" + l, "loaded_to_" + l,
+		"last_inspected", "status", "error"}
+}
 
-var memberExportHeader = []string{"bridge_rank", "bridge_id", "name", "member", "kind", "rf_existing", "rf_proposed",
-	"sense", "demand_increase_pct", "flags", "dead_kn", "live_max_kn", "live_min_kn", "impact", "governing_train",
-	"head_m", "direction", "loaded_from_m", "loaded_to_m"}
+// memberExportHeader is the member export's columns, forces and lengths suffixed with their
+// unit in u (dead_kn, dead_kip).
+func memberExportHeader(u units.System) []string {
+	l, f := u.Column(units.Length), u.Column(units.Force)
+	return []string{"bridge_rank", "bridge_id", "name", "member", "kind", "rf_existing", "rf_proposed",
+		"sense", "demand_increase_pct", "flags", "dead_" + f, "live_max_" + f, "live_min_" + f, "impact", "governing_train",
+		"head_" + l, "direction", "loaded_from_" + l, "loaded_to_" + l}
+}
 
-// exportRun writes the bridge-level and member-level priority lists of a run.
-func exportRun(ctx context.Context, db *store.DB, run store.Run, dir, format string) ([]string, error) {
+// exportRun writes the bridge-level and member-level priority lists of a run: CSV for people
+// in units u, rounded; JSON for programs in SI at full precision, whatever u.
+func exportRun(ctx context.Context, db *store.DB, run store.Run, dir, format string, u units.System) ([]string, error) {
 	rows, err := db.Ranked(ctx, run.ID, 0)
 	if err != nil {
 		return nil, err
@@ -69,7 +84,7 @@ func exportRun(ctx context.Context, db *store.DB, run store.Run, dir, format str
 	}
 	bPath := filepath.Join(dir, "priority-bridges."+format)
 	mPath := filepath.Join(dir, "priority-members."+format)
-	d := forPeople
+	d := digits{u: u}
 	if format == "json" {
 		d = forPrograms
 	}
@@ -90,28 +105,31 @@ func exportRun(ctx context.Context, db *store.DB, run store.Run, dir, format str
 			return map[string]any{"caution": caution, "run": run.ID, "run_status": run.Status,
 				"run_started_at": run.StartedAt, "kind": kind, "items": items}
 		}
-		if err := writeFileAtomic(bPath, func(w io.Writer) error { return writeJSON(w, doc("bridges", bridgeExportHeader, br)) }); err != nil {
+		if err := writeFileAtomic(bPath, func(w io.Writer) error { return writeJSON(w, doc("bridges", bridgeExportHeader(units.SI), br)) }); err != nil {
 			return nil, err
 		}
-		if err := writeFileAtomic(mPath, func(w io.Writer) error { return writeJSON(w, doc("members", memberExportHeader, mr)) }); err != nil {
+		if err := writeFileAtomic(mPath, func(w io.Writer) error { return writeJSON(w, doc("members", memberExportHeader(units.SI), mr)) }); err != nil {
 			return nil, err
 		}
 		return []string{bPath, mPath}, nil
 	}
-	if err := writeFileAtomic(bPath, func(w io.Writer) error { return writeCSV(w, bridgeExportHeader, br) }); err != nil {
+	if err := writeFileAtomic(bPath, func(w io.Writer) error { return writeCSV(w, bridgeExportHeader(u), br) }); err != nil {
 		return nil, err
 	}
-	if err := writeFileAtomic(mPath, func(w io.Writer) error { return writeCSV(w, memberExportHeader, mr) }); err != nil {
+	if err := writeFileAtomic(mPath, func(w io.Writer) error { return writeCSV(w, memberExportHeader(u), mr) }); err != nil {
 		return nil, err
 	}
 	return []string{bPath, mPath}, nil
 }
 
-// numericColumns are the export columns that JSON writes as numbers (null when empty).
+// numericColumns are the export columns that JSON writes as numbers (null when empty), in
+// either system of units.
 var numericColumns = map[string]bool{"rank": true, "bridge_rank": true, "chainage_km": true, "span_m": true,
 	"panels": true, "rf_existing": true, "rf_proposed": true, "rf_change_pct": true, "demand_increase_pct": true,
 	"unrated_members": true, "headroom": true, "governing_head_m": true, "loaded_from_m": true, "loaded_to_m": true, "dead_kn": true,
-	"live_max_kn": true, "live_min_kn": true, "impact": true, "head_m": true}
+	"live_max_kn": true, "live_min_kn": true, "impact": true, "head_m": true,
+	"span_ft": true, "governing_head_ft": true, "loaded_from_ft": true, "loaded_to_ft": true, "dead_kip": true,
+	"live_max_kip": true, "live_min_kip": true, "head_ft": true}
 
 // recordObject turns an export record into a JSON object with the CSV's column names; flags
 // become a list.
@@ -142,24 +160,21 @@ func recordObject(header, rec []string) map[string]any {
 	return o
 }
 
-// digits formats the numbers of an export: a few decimals for people (CSV), every digit
-// for programs (JSON: -1, the shortest exact form).
-type digits int
+// digits formats the numbers of an export: for people (CSV) a few decimals, and lengths and
+// forces in units u rounded by internal/units; for programs (JSON) every digit in SI (the
+// shortest exact form).
+type digits struct {
+	programs bool
+	u        units.System
+}
 
-const (
-	forPeople   digits = 4
-	forPrograms digits = -1
-)
+var forPrograms = digits{programs: true}
 
 func (d digits) num(v float64, people int) string {
-	if d == forPrograms {
+	if d.programs {
 		return strconv.FormatFloat(v, 'g', -1, 64)
 	}
-	s := strconv.FormatFloat(v, 'f', people, 64)
-	if strings.Trim(s, "-0.") == "" { // no negative zero from rounding noise
-		s = strings.TrimPrefix(s, "-")
-	}
-	return s
+	return units.Fixed(v, people)
 }
 
 func (d digits) opt(v *float64, people int) string {
@@ -169,6 +184,21 @@ func (d digits) opt(v *float64, people int) string {
 	return d.num(*v, people)
 }
 
+// qty formats an SI value of quantity q: converted and rounded for people, exact for programs.
+func (d digits) qty(q units.Quantity, v float64) string {
+	if d.programs {
+		return strconv.FormatFloat(v, 'g', -1, 64)
+	}
+	return d.u.Format(q, v)
+}
+
+func (d digits) optQty(q units.Quantity, v *float64) string {
+	if v == nil {
+		return ""
+	}
+	return d.qty(q, *v)
+}
+
 func bridgeRecord(r report.BridgeRow, d digits) []string {
 	var change *float64
 	if r.Change != nil {
@@ -176,17 +206,17 @@ func bridgeRecord(r report.BridgeRow, d digits) []string {
 		change = &c
 	}
 	return []string{strconv.Itoa(r.Rank), r.BridgeID, r.Name, r.Line, d.opt(r.ChainageKm, 3), r.TrussType,
-		strconv.FormatFloat(r.SpanM, 'f', -1, 64), strconv.Itoa(r.Panels), r.WorstMember, d.opt(r.RFExisting, 4),
+		d.qty(units.Length, r.SpanM), strconv.Itoa(r.Panels), r.WorstMember, d.opt(r.RFExisting, 4),
 		d.opt(r.RFProposed, 4), d.opt(change, 1), d.num(100*r.DemandIncrease, 1),
-		strings.Join(r.Flags, ";"), strconv.Itoa(r.Unrated), d.opt(r.Headroom, 4), r.GoverningTrain, r.GoverningSense, d.opt(r.GoverningHeadM, 3),
-		r.GoverningDirection, d.opt(r.GoverningFromM, 3), d.opt(r.GoverningToM, 3), r.LastInspected, r.Status, r.Error}
+		strings.Join(r.Flags, ";"), strconv.Itoa(r.Unrated), d.opt(r.Headroom, 4), r.GoverningTrain, r.GoverningSense, d.optQty(units.Length, r.GoverningHeadM),
+		r.GoverningDirection, d.optQty(units.Length, r.GoverningFromM), d.optQty(units.Length, r.GoverningToM), r.LastInspected, r.Status, r.Error}
 }
 
 func memberRecord(m store.FlaggedMember, d digits) []string {
 	return []string{strconv.Itoa(m.BridgeRank), m.BridgeID, m.Name, m.Member, m.Kind, d.opt(m.RFExisting, 4),
-		d.opt(m.RFProposed, 4), m.Sense, d.num(100*m.DemandIncrease, 1), strings.Join(m.Flags, ";"), d.num(m.DeadKN, 2),
-		d.num(m.LiveMaxKN, 2), d.num(m.LiveMinKN, 2), d.num(m.Impact, 4), m.Train, d.opt(m.HeadM, 3),
-		m.Direction, d.opt(m.FromM, 3), d.opt(m.ToM, 3)}
+		d.opt(m.RFProposed, 4), m.Sense, d.num(100*m.DemandIncrease, 1), strings.Join(m.Flags, ";"), d.qty(units.Force, m.DeadKN),
+		d.qty(units.Force, m.LiveMaxKN), d.qty(units.Force, m.LiveMinKN), d.num(m.Impact, 4), m.Train, d.optQty(units.Length, m.HeadM),
+		m.Direction, d.optQty(units.Length, m.FromM), d.optQty(units.Length, m.ToM)}
 }
 
 // writeCSV writes a caution line, a header and the records. Every cell of a column that is

@@ -10,6 +10,7 @@ import (
 	"time"
 	"unicode/utf8"
 
+	"github.com/trussfleet/trussfleet/internal/units"
 	"github.com/trussfleet/trussfleet/screening/report"
 	"github.com/trussfleet/trussfleet/screening/truss"
 	"github.com/trussfleet/trussfleet/store"
@@ -75,7 +76,7 @@ func TestTerminalTablesHostileText(t *testing.T) {
 		{Rank: 3, BridgeID: "X-1", Name: titleName, Status: "failed", Error: "geometry: \x1b[31m" + strings.Repeat("reason ", 20)},
 	}
 	var rank strings.Builder
-	if err := printRanked(&rank, store.Run{ID: 2, Status: "completed", StartedAt: time.Date(2031, 3, 4, 1, 0, 0, 0, time.UTC)}, rows); err != nil {
+	if err := printRanked(&rank, store.Run{ID: 2, Status: "completed", StartedAt: time.Date(2031, 3, 4, 1, 0, 0, 0, time.UTC)}, rows, units.SI); err != nil {
 		t.Fatal(err)
 	}
 	checkTerminal(t, "rank", rank.String())
@@ -101,7 +102,7 @@ func TestTerminalTablesHostileText(t *testing.T) {
 		{Bridge: store.Bridge{BridgeID: "C-1", Name: colourName, Line: bellLine, TrussType: "pratt", SpanM: 48, Panels: 8, DepthM: 6, Deck: "through"}},
 		{Bridge: store.Bridge{BridgeID: "C-2", Name: longName, TrussType: "pratt", SpanM: 48, Panels: 8, DepthM: 6, Deck: "through"}},
 	}
-	if err := bridgesTable(&list, bs); err != nil {
+	if err := bridgesTable(&list, bs, units.SI); err != nil {
 		t.Fatal(err)
 	}
 	checkTerminal(t, "bridges list", list.String())
@@ -246,8 +247,8 @@ func TestHostileInventoryThroughCommands(t *testing.T) {
 			t.Errorf("member list: %s name %q, want it after a quote", id, m["name"])
 		}
 	}
-	if deadL3U3 != "-30.00" || negative == 0 {
-		t.Errorf("negative numbers altered: F-1 L3-U3 dead_kn %q (want -30.00), %d negative numeric cells", deadL3U3, negative)
+	if deadL3U3 != "-30.0" || negative == 0 { // forces to 0.1 kN (internal/units)
+		t.Errorf("negative numbers altered: F-1 L3-U3 dead_kn %q (want -30.0), %d negative numeric cells", deadL3U3, negative)
 	}
 
 	// bridges list --format csv writes the same rule.

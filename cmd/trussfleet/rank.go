@@ -9,6 +9,7 @@ import (
 
 	"github.com/spf13/cobra"
 	"github.com/trussfleet/trussfleet/internal/safetext"
+	"github.com/trussfleet/trussfleet/internal/units"
 	"github.com/trussfleet/trussfleet/screening/report"
 	"github.com/trussfleet/trussfleet/store"
 )
@@ -29,28 +30,30 @@ func newRankCmd(a *app) *cobra.Command {
 				if err != nil {
 					return err
 				}
-				return printRanked(cmd.OutOrStdout(), run, rows)
+				return printRanked(cmd.OutOrStdout(), run, rows, a.cfg.units())
 			})
 		},
 	}
 	cmd.Flags().Int64Var(&runID, "run", 0, "run id (default: the latest completed run)")
 	cmd.Flags().IntVar(&limit, "limit", 0, "show only the first N bridges")
+	addUnitsFlag(cmd)
 	return cmd
 }
 
 // printRanked prints a priority list for a person. Inventory text goes through
-// safetext.Cell: no control characters, and at most safetext.CellRunes runes a cell.
-func printRanked(w io.Writer, run store.Run, rows []report.BridgeRow) error {
+// safetext.Cell: no control characters, and at most safetext.CellRunes runes a cell. Lengths
+// are in units u, rounded (internal/units).
+func printRanked(w io.Writer, run store.Run, rows []report.BridgeRow, u units.System) error {
 	fmt.Fprintf(w, "Priority list, run %d (%s, started %s)\n\n", run.ID, run.Status, run.StartedAt.Format("2006-01-02 15:04"))
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-	fmt.Fprintln(tw, "rank\tbridge\tname\tline\tkm\ttype\tspan m\tworst\tRF ex\tRF pr\tchange\tdemand +\theadroom\tflags\tunrated\tgoverning train (where)\tinspected")
+	fmt.Fprintln(tw, "rank\tbridge\tname\tline\tkm\ttype\tspan "+u.Name(units.Length)+"\tworst\tRF ex\tRF pr\tchange\tdemand +\theadroom\tflags\tunrated\tgoverning train (where)\tinspected")
 	cell, cut := safetext.Cell, false
 	for _, r := range rows {
 		cut = cut || r.Status == "failed" && cell(r.Error) != safetext.Terminal(r.Error)
-		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%.1f\t%s\t%s\t%s\t%s\t%.0f%%\t%s\t%s\t%d\t%s\t%s\n",
-			r.Rank, cell(r.BridgeID), cell(r.Name), cell(r.Line), fmtOpt(r.ChainageKm, "%.3f"), cell(r.TrussType), r.SpanM, cell(r.WorstMember),
+		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%.0f%%\t%s\t%s\t%d\t%s\t%s\n",
+			r.Rank, cell(r.BridgeID), cell(r.Name), cell(r.Line), fmtOpt(r.ChainageKm, "%.3f"), cell(r.TrussType), u.Format(units.Length, r.SpanM), cell(r.WorstMember),
 			fmtRF(r.RFExisting), fmtRF(r.RFProposed), fmtPct(r.Change), 100*r.DemandIncrease, fmtOpt(r.Headroom, "%.2f×"),
-			flagsText(r), r.Unrated, governing(r.GoverningTrain, r.GoverningSense, r.GoverningDirection, r.GoverningHeadM), cell(r.LastInspected))
+			flagsText(r), r.Unrated, governing(r.GoverningTrain, r.GoverningSense, r.GoverningDirection, r.GoverningHeadM, u), cell(r.LastInspected))
 	}
 	if err := tw.Flush(); err != nil {
 		return err
@@ -106,9 +109,13 @@ func fmtPct(v *float64) string {
 	return fmt.Sprintf("%+.0f%%", 100**v)
 }
 
-func governing(train, sense, dir string, head *float64) string {
+func governing(train, sense, dir string, head *float64, u units.System) string {
 	if train == "" {
 		return "—"
 	}
-	return fmt.Sprintf("%s, %s, head at %s m, %s", safetext.Cell(train), safetext.Cell(sense), fmtOpt(head, "%.1f"), safetext.Cell(dir))
+	at := "—"
+	if head != nil {
+		at = u.Format(units.Length, *head) + " " + u.Name(units.Length)
+	}
+	return fmt.Sprintf("%s, %s, head at %s, %s", safetext.Cell(train), safetext.Cell(sense), at, safetext.Cell(dir))
 }

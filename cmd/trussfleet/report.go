@@ -6,6 +6,7 @@ import (
 	"path/filepath"
 
 	"github.com/spf13/cobra"
+	"github.com/trussfleet/trussfleet/internal/units"
 	"github.com/trussfleet/trussfleet/runreport"
 	"github.com/trussfleet/trussfleet/screening/report"
 	"github.com/trussfleet/trussfleet/store"
@@ -26,7 +27,7 @@ func newReportCmd(a *app) *cobra.Command {
 				out = filepath.Join(a.cfg.Output, "report")
 			}
 			return a.withRun(ctx, runID, func(db *store.DB, r store.Run) error {
-				if err := writeReport(ctx, db, r.ID, out); err != nil {
+				if err := writeReport(ctx, db, r.ID, out, a.cfg.units()); err != nil {
 					return err
 				}
 				w := cmd.OutOrStdout()
@@ -38,11 +39,12 @@ func newReportCmd(a *app) *cobra.Command {
 	}
 	cmd.Flags().Int64Var(&runID, "run", 0, "run id (default: the latest completed run)")
 	cmd.Flags().StringVar(&out, "out", "", "output folder (default: <output>/report)")
+	addUnitsFlag(cmd)
 	return cmd
 }
 
-// writeReport writes the HTML report of a run into dir.
-func writeReport(ctx context.Context, db *store.DB, runID int64, dir string) error {
+// writeReport writes the HTML report of a run into dir, lengths and forces in units u.
+func writeReport(ctx context.Context, db *store.DB, runID int64, dir string, u units.System) error {
 	run, err := runreport.Run(ctx, db, runID)
 	if err != nil {
 		return err
@@ -51,7 +53,7 @@ func writeReport(ctx context.Context, db *store.DB, runID int64, dir string) err
 	if err != nil {
 		return err
 	}
-	return report.WriteSite(dir, run, rows, func(id string) (report.Bridge, error) {
+	return report.WriteSiteIn(dir, run, rows, func(id string) (report.Bridge, error) {
 		return runreport.Bridge(ctx, db, run, id)
-	})
+	}, u)
 }

@@ -3,6 +3,8 @@ package report
 import (
 	"io"
 	"testing"
+
+	"github.com/trussfleet/trussfleet/internal/units"
 )
 
 // BenchmarkBridgePage measures one bridge page of the demo fleet: geometry and influence
@@ -11,7 +13,7 @@ func BenchmarkBridgePage(b *testing.B) {
 	f := demoFleet(b, 40)
 	d := f.Bridges[f.Rows[0].BridgeID]
 	for b.Loop() {
-		if err := pages.ExecuteTemplate(io.Discard, "bridge.tmpl", bridgePage(f.Run, d)); err != nil {
+		if err := pages.ExecuteTemplate(io.Discard, "bridge.tmpl", bridgePage(f.Run, d, units.SI)); err != nil {
 			b.Fatal(err)
 		}
 	}
@@ -22,7 +24,7 @@ func BenchmarkIndexPage(b *testing.B) {
 	f := demoFleet(b, 40)
 	names := pageNames(f.Rows)
 	for b.Loop() {
-		if err := pages.ExecuteTemplate(io.Discard, "index.tmpl", indexPage(f.Run, f.Rows, names)); err != nil {
+		if err := pages.ExecuteTemplate(io.Discard, "index.tmpl", indexPage(f.Run, f.Rows, names, units.SI)); err != nil {
 			b.Fatal(err)
 		}
 	}

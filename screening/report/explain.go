@@ -9,6 +9,7 @@ import (
 	"text/tabwriter"
 
 	"github.com/trussfleet/trussfleet/internal/safetext"
+	"github.com/trussfleet/trussfleet/internal/units"
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/traffic"
@@ -20,8 +21,15 @@ import (
 // it stood (every train of the run's scenarios where run.Trains holds their definitions, the
 // governing ones otherwise), the dynamic allowance, the loads of the governing placement
 // with their sum, the rating arithmetic and why the member is flagged. Texts from the
-// inventory are written through safetext.Terminal (safetext.Cell in tables).
+// inventory are written through safetext.Terminal (safetext.Cell in tables). Lengths and
+// forces are in SI; ExplainIn writes them in another system of units.
 func Explain(w io.Writer, run Run, b Bridge, member string) error {
+	return ExplainIn(w, run, b, member, units.SI)
+}
+
+// ExplainIn is Explain with lengths, forces and loads per length in units u, rounded by
+// internal/units; influence ordinates, shares and rating factors have no unit.
+func ExplainIn(w io.Writer, run Run, b Bridge, member string, u units.System) error {
 	if b.Row.Status == "failed" {
 		return fmt.Errorf("bridge %s was not screened in run %d: %s", safetext.Terminal(b.Row.BridgeID), run.ID, safetext.Terminal(b.Row.Error))
 	}
@@ -60,6 +68,10 @@ func Explain(w io.Writer, run Run, b Bridge, member string) error {
 	eta := lines.Members[k].Ordinates
 	ew := &errWriter{w: w}
 	p := func(format string, a ...any) { fmt.Fprintf(ew, format, a...) }
+	// Units and rounding of the quantities shown (internal/units).
+	lu, kN, kNm := u.Name(units.Length), u.Name(units.Force), u.Name(units.PerLength)
+	length := func(v float64) string { return qty(u, units.Length, v) }
+	force := func(v float64) string { return signedQty(u, units.Force, v) }
 
 	r := b.Row
 	p("Bridge %s  %s\n", safetext.Terminal(r.BridgeID), safetext.Terminal(r.Name))
@@ -77,41 +89,42 @@ func Explain(w io.Writer, run Run, b Bridge, member string) error {
 		p("  %s\n", strings.Join(where, ", "))
 	}
 	tp := t.Params
-	p("  %s truss, %s, span %s m, %d panels, depth %s m", tp.Type, orText(tp.Deck, truss.Through), num(tp.SpanM, 2), tp.Panels, num(tp.DepthM, 2))
+	p("  %s truss, %s, span %s %s, %d panels, depth %s %s", tp.Type, orText(tp.Deck, truss.Through), length(tp.SpanM), lu, tp.Panels, length(tp.DepthM), lu)
 	if tp.EndPosts != "" {
 		p(", %s end posts", tp.EndPosts)
 	}
-	p("\n  truss share %s x %d track(s) = %s of each train's load; dead load %s kN/m on this truss\n",
-		num(b.TrussShare, 3), max(b.Tracks, 1), num(b.liveShare(), 3), num(b.DeadLoadKNPerM, 2))
+	p("\n  truss share %s x %d track(s) = %s of each train's load; dead load %s %s on this truss\n",
+		num(b.TrussShare, 3), max(b.Tracks, 1), num(b.liveShare(), 3), qty(u, units.PerLength, b.DeadLoadKNPerM), kNm)
 	p("Screening run %d (%s): %s\n\n", run.ID, orDash(run.Status), equation(run))
 
 	mb := t.Members[k]
 	ja, jb := t.Joints[mb.A], t.Joints[mb.B]
-	p("Member %s (%s), joint %s (%s, %s) to %s (%s, %s), length %s m\n", m.Label, mb.Kind,
-		ja.Name, num(ja.X, 2), num(ja.Y, 2), jb.Name, num(jb.X, 2), num(jb.Y, 2), num(t.LengthM(k), 3))
+	p("Member %s (%s), joint %s (%s, %s) to %s (%s, %s), length %s %s\n", m.Label, mb.Kind,
+		ja.Name, length(ja.X), length(ja.Y), jb.Name, length(jb.X), length(jb.Y), length(t.LengthM(k)), lu)
 	if len(m.Flags) > 0 {
 		p("Flags: %s\n", strings.Join(m.Flags, ", "))
 	} else {
 		p("Flags: none\n")
 	}
 
-	p("\nInfluence line: force in %s (kN, tension +) per kN of load at each deck panel point\n", m.Label)
+	p("\nInfluence line: force in %s (%s, tension +) per %s of load at each deck panel point\n", m.Label, kN, kN)
 	tw := tabwriter.NewWriter(ew, 0, 0, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprintln(tw, "  x (m)\teta\t")
+	fmt.Fprintf(tw, "  x (%s)\teta\t\n", lu)
 	for i, x := range lines.X {
-		fmt.Fprintf(tw, "  %s\t%s\t\n", num(x, 3), num(clean(eta[i]), 4))
+		fmt.Fprintf(tw, "  %s\t%s\t\n", length(x), num(clean(eta[i]), 4))
 	}
 	_ = tw.Flush()
 	pos, neg := analysis.Areas(lines.X, eta)
-	p("  areas: %s and %s m (kN per kN/m)", signed(clean(pos), 3), signed(clean(neg), 3))
+	p("  areas: %s and %s %s (%s per %s)", signedQty(u, units.Length, clean(pos)), signedQty(u, units.Length, clean(neg)), lu, kN, kNm)
 	if zs := analysis.SignChanges(lines.X, eta); len(zs) > 0 {
 		s := make([]string, len(zs))
 		for i, z := range zs {
-			s[i] = num(z, 3)
+			s[i] = length(z)
 		}
-		p("; changes sign at x = %s m", strings.Join(s, ", "))
+		p("; changes sign at x = %s %s", strings.Join(s, ", "), lu)
 	}
-	p("\n  dead load D = w x net area = %s kN/m x %s m = %s kN\n", num(b.DeadLoadKNPerM, 2), signed(clean(pos+neg), 3), signed(analysis.DeadLoad(lines.X, eta, b.DeadLoadKNPerM), 1))
+	p("\n  dead load D = w x net area = %s %s x %s %s = %s %s\n", qty(u, units.PerLength, b.DeadLoadKNPerM), kNm, signedQty(u, units.Length, clean(pos+neg)), lu,
+		force(analysis.DeadLoad(lines.X, eta, b.DeadLoadKNPerM)), kN)
 
 	for _, sc := range []struct {
 		name string
@@ -134,15 +147,15 @@ func Explain(w io.Writer, run Run, b Bridge, member string) error {
 		for i := range gov {
 			gov[i].e, gov[i].ok = placementOf(gov[i].tr, gov[i].e, lines.X, eta, b.liveShare(), gov[i].sign)
 		}
-		explainTrains(ew, run, b, lines.X, eta, sc.name, gov[0].e, gov[1].e)
+		explainTrains(ew, run, b, lines.X, eta, sc.name, gov[0].e, gov[1].e, u)
 		for _, g := range gov {
 			if !g.e.Loaded || g.e.Value == 0 {
 				continue
 			}
-			p("  governing %s: %s kN, %s, %s\n", g.sense, signed(g.e.Value, 1), safetext.Terminal(orDash(g.e.Train)), placementWords(g.e, g.tr))
+			p("  governing %s: %s %s, %s, %s\n", g.sense, force(g.e.Value), kN, safetext.Terminal(orDash(g.e.Train)), placementWordsIn(g.e, g.tr, u))
 			if g.tr != nil && sc.name == "proposed" && g.sign == governing(m) {
 				if g.ok {
-					explainLoads(ew, g.tr, g.e, t.SpanM(), lines.X, eta, g.sign, b.liveShare())
+					explainLoads(ew, g.tr, g.e, t.SpanM(), lines.X, eta, g.sign, b.liveShare(), u)
 				} else {
 					p("    (train %s as now defined does not give this force: it has changed since the run)\n", safetext.Terminal(g.e.Train))
 				}
@@ -152,9 +165,9 @@ func Explain(w io.Writer, run Run, b Bridge, member string) error {
 
 	p("\nRating (%s)\n", equation(run))
 	tw = tabwriter.NewWriter(ew, 0, 0, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprintln(tw, "  traffic\tsense\tbasis\theld kN\tcond.\tC kN\tD kN\tL kN\t1 + I\tRF\t")
+	fmt.Fprintf(tw, "  traffic\tsense\tbasis\theld %[1]s\tcond.\tC %[1]s\tD %[1]s\tL %[1]s\t1 + I\tRF\t\n", kN)
 	for _, c := range append(senses(m, "existing", m.Existing), senses(m, "proposed", m.Proposed)...) {
-		v := calcOf(c)
+		v := calcOf(c, u)
 		mark := ""
 		if c.Governs {
 			mark = " *"
@@ -178,7 +191,7 @@ func Explain(w io.Writer, run Run, b Bridge, member string) error {
 		p(" (%s)", m.SenseProposed)
 	}
 	p("\n\nWhy flagged\n")
-	if rs := reasons(run, m); len(rs) > 0 {
+	if rs := reasons(run, m, u); len(rs) > 0 {
 		for _, s := range rs {
 			p("  - %s\n", s)
 		}
@@ -197,7 +210,7 @@ func Explain(w io.Writer, run Run, b Bridge, member string) error {
 // train definitions the run holds; the governing train's row shows the governing extremes
 // govMax and govMin as given (placementOf's), so that an extreme reached at several
 // placements is shown at one.
-func explainTrains(w io.Writer, run Run, b Bridge, xs, eta []float64, scenario string, govMax, govMin envelope.Extreme) {
+func explainTrains(w io.Writer, run Run, b Bridge, xs, eta []float64, scenario string, govMax, govMin envelope.Extreme, u units.System) {
 	names := run.Scenarios[scenario]
 	var trains []*traffic.Train
 	for _, n := range names {
@@ -209,7 +222,7 @@ func explainTrains(w io.Writer, run Run, b Bridge, xs, eta []float64, scenario s
 		return
 	}
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-	fmt.Fprintln(tw, "  train\tmax kN\twhere\tmin kN\twhere\t")
+	fmt.Fprintf(tw, "  train\tmax %[1]s\twhere\tmin %[1]s\twhere\t\n", u.Name(units.Force))
 	for _, tr := range trains {
 		ex, err := envelope.Compute(xs, [][]float64{eta}, tr, envelope.Options{Share: b.liveShare()})
 		if err != nil {
@@ -219,7 +232,8 @@ func explainTrains(w io.Writer, run Run, b Bridge, xs, eta []float64, scenario s
 		e := ex[0]
 		e.Max = governingRow(e.Max, govMax, tr)
 		e.Min = governingRow(e.Min, govMin, tr)
-		fmt.Fprintf(tw, "  %s\t%s\t%s\t%s\t%s\t\n", safetext.Cell(tr.Name), signed(e.Max.Value, 1), placementWords(e.Max, tr), signed(e.Min.Value, 1), placementWords(e.Min, tr))
+		fmt.Fprintf(tw, "  %s\t%s\t%s\t%s\t%s\t\n", safetext.Cell(tr.Name), signedQty(u, units.Force, e.Max.Value), placementWordsIn(e.Max, tr, u),
+			signedQty(u, units.Force, e.Min.Value), placementWordsIn(e.Min, tr, u))
 	}
 	_ = tw.Flush()
 }
@@ -254,47 +268,58 @@ func findTrain(trains map[string]*traffic.Train, name string) *traffic.Train {
 	return nil
 }
 
+// placementWords says where a train stood, in m.
 func placementWords(e envelope.Extreme, tr *traffic.Train) string {
+	return placementWordsIn(e, tr, units.SI)
+}
+
+// placementWordsIn says where a train stood, lengths in units u.
+func placementWordsIn(e envelope.Extreme, tr *traffic.Train, u units.System) string {
 	if !e.Loaded {
 		return "no train on the bridge"
 	}
-	s := fmt.Sprintf("%s, front at %s m", e.Direction, num(e.HeadM, 2))
+	l, m := func(v float64) string { return qty(u, units.Length, v) }, u.Name(units.Length)
+	s := fmt.Sprintf("%s, front at %s %s", e.Direction, l(e.HeadM), m)
 	if tr != nil && tr.Variable() {
 		s += fmt.Sprintf(", %d in last group", e.Count)
 	}
 	if e.LoadedToM > e.LoadedFromM {
-		s += fmt.Sprintf(", loading %s to %s m", num(e.LoadedFromM, 2), num(e.LoadedToM, 2))
+		s += fmt.Sprintf(", loading %s to %s %s", l(e.LoadedFromM), l(e.LoadedToM), m)
 	}
 	if e.TrailingM > 0 {
-		s += fmt.Sprintf(", trailing load %s m", num(e.TrailingM, 2))
+		s += fmt.Sprintf(", trailing load %s %s", l(e.TrailingM), m)
 	}
 	return s
 }
 
 // explainLoads lists the governing placement's loads with their effect, so that the sum
 // can be followed by hand.
-func explainLoads(w io.Writer, tr *traffic.Train, e envelope.Extreme, span float64, xs, eta []float64, sign, share float64) {
+// Lengths, forces and loads per length are in units u; the integral of eta over a stretch
+// is a length.
+func explainLoads(w io.Writer, tr *traffic.Train, e envelope.Extreme, span float64, xs, eta []float64, sign, share float64, u units.System) {
 	ob := placeTrain(tr, e.Placement, span, xs, eta, sign)
+	l, f := func(v float64) string { return qty(u, units.Length, v) }, func(v float64) string { return signedQty(u, units.Force, v) }
+	m, kN, kNm := u.Name(units.Length), u.Name(units.Force), u.Name(units.PerLength)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
 	if len(ob.Axles) > 0 {
-		fmt.Fprintln(tw, "    axle\tx (m)\tP (kN)\teta\tP x eta\t")
+		fmt.Fprintf(tw, "    axle\tx (%s)\tP (%s)\teta\tP x eta\t\n", m, kN)
 		for i, a := range ob.Axles {
 			h := analysis.Interpolate(xs, eta, a.XM)
-			fmt.Fprintf(tw, "    %d\t%s\t%s\t%s\t%s\t\n", i+1, num(a.XM, 3), num(a.LoadKN, 1), num(clean(h), 4), signed(a.LoadKN*h, 1))
+			fmt.Fprintf(tw, "    %d\t%s\t%s\t%s\t%s\t\n", i+1, l(a.XM), qty(u, units.Force, a.LoadKN), num(clean(h), 4), f(a.LoadKN*h))
 		}
 	}
 	_ = tw.Flush()
 	tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
 	if len(ob.Stretches) > 0 {
-		fmt.Fprintln(tw, "    from (m)\tto (m)\tq (kN/m)\tintegral eta\tq x integral\t")
+		fmt.Fprintf(tw, "    from (%[1]s)\tto (%[1]s)\tq (%[2]s)\tintegral eta (%[1]s)\tq x integral\t\n", m, kNm)
 		for _, s := range ob.Stretches {
 			in := integral(xs, eta, s.FromM, s.ToM)
-			fmt.Fprintf(tw, "    %s\t%s\t%s\t%s\t%s\t\n", num(s.FromM, 3), num(s.ToM, 3), num(s.QKNPerM, 2), num(clean(in), 4), signed(s.QKNPerM*in, 1))
+			fmt.Fprintf(tw, "    %s\t%s\t%s\t%s\t%s\t\n", l(s.FromM), l(s.ToM), qty(u, units.PerLength, s.QKNPerM), qty(u, units.Length, clean(in)), f(s.QKNPerM*in))
 		}
 	}
 	_ = tw.Flush()
 	eff := ob.effect(xs, eta)
-	fmt.Fprintf(w, "    sum %s kN x truss share %s = %s kN (L as screened: %s kN)\n", signed(eff, 1), num(share, 3), signed(eff*share, 1), signed(e.Value, 1))
+	fmt.Fprintf(w, "    sum %s %s x truss share %s = %s %s (L as screened: %s %s)\n", f(eff), kN, num(share, 3), f(eff*share), kN, f(e.Value), kN)
 }
 
 func capitalise(s string) string {

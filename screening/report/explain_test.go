@@ -7,6 +7,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/trussfleet/trussfleet/internal/units"
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 )
@@ -24,7 +25,7 @@ func TestExplain(t *testing.T) {
 	// to 12 m) at sin θ = 6/√72; a unit load at x right of the panel gives shear
 	// V = (48 − x)/48 and tension V/sin θ, a load left of it V = −x/48.
 	sin := 6 / math.Sqrt(72)
-	want := map[string]float64{"6.000": -6.0 / 48 / sin, "24.000": 24.0 / 48 / sin, "42.000": 6.0 / 48 / sin}
+	want := map[string]float64{"6.00": -6.0 / 48 / sin, "24.00": 24.0 / 48 / sin, "42.00": 6.0 / 48 / sin}
 	for x, w := range want {
 		m := regexp.MustCompile(`(?m)^\s+` + regexp.QuoteMeta(x) + `\s+(\S+)\s*$`).FindStringSubmatch(out)
 		if m == nil {
@@ -135,5 +136,39 @@ func TestExplainOnePlacement(t *testing.T) {
 	}
 	if checked == 0 {
 		t.Fatal("no governing placement found in the explanations")
+	}
+}
+
+// TestExplainImperial explains the same member in ft and kip: the lengths and forces are the
+// SI ones divided by the exact factors, rounded to 0.1, and the headings name the units.
+func TestExplainImperial(t *testing.T) {
+	f := screenFleet(t, []invented{pratt48(t, "NER-90001", "Tarnbeck Viaduct", 0.95)})
+	b := f.Bridges["NER-90001"]
+	var si, imp strings.Builder
+	if err := Explain(&si, f.Run, b, "U1-L2"); err != nil {
+		t.Fatal(err)
+	}
+	if err := ExplainIn(&imp, f.Run, b, "U1-L2", units.Imperial); err != nil {
+		t.Fatal(err)
+	}
+	out := imp.String()
+	// exact definition: 48 m / 0.3048 = 157.48 ft, 6 m = 19.685 ft; rounded to 0.1 ft.
+	for _, s := range []string{"span 157.5 ft", "x (ft)", "held kip", "C kip", "max kip", Caution[0]} {
+		if !strings.Contains(out, s) {
+			t.Errorf("imperial explanation lacks %q", s)
+		}
+	}
+	if !regexp.MustCompile(`(?m)^\s+19\.7\s+\S+\s*$`).MatchString(out) {
+		t.Error("no influence-line line for x = 19.7 ft (6 m)")
+	}
+	// exact definition: 1 kip = 4.4482216 kN; L as screened, SI to 0.1 kN and kip to 0.1 kip.
+	re := regexp.MustCompile(`L as screened: (\S+) (kN|kip)\)`)
+	ms, mi := re.FindStringSubmatch(si.String()), re.FindStringSubmatch(out)
+	if ms == nil || mi == nil || mi[2] != "kip" {
+		t.Fatalf("no L as screened: %v %v", ms, mi)
+	}
+	l := parseNum(t, strings.Replace(ms[1], "−", "-", 1))
+	if got := parseNum(t, strings.Replace(mi[1], "−", "-", 1)); math.Abs(got-l/4.4482216) > 0.05+0.05/4.4482216 {
+		t.Errorf("L = %v kip, SI %v kN / 4.4482216 = %.2f", got, l, l/4.4482216)
 	}
 }

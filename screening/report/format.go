@@ -4,6 +4,8 @@ import (
 	"math"
 	"strconv"
 	"strings"
+
+	"github.com/trussfleet/trussfleet/internal/units"
 )
 
 // dash stands for a value that is not held or does not apply.
@@ -28,6 +30,28 @@ func signed(v float64, prec int) string {
 		s = "+" + s
 	}
 	return strings.Replace(s, "-", "−", 1)
+}
+
+// qty formats an SI value of quantity q in units u, rounded by internal/units; "—" when not
+// finite.
+func qty(u units.System, q units.Quantity, v float64) string {
+	if !finite(v) {
+		return dash
+	}
+	return units.Fixed(u.Convert(q, v), u.Decimals(q))
+}
+
+// signedQty is qty with an explicit sign (signed).
+func signedQty(u units.System, q units.Quantity, v float64) string {
+	return signed(u.Convert(q, v), u.Decimals(q))
+}
+
+// optQty formats an optional SI value of quantity q in units u.
+func optQty(u units.System, q units.Quantity, p *float64) string {
+	if p == nil {
+		return dash
+	}
+	return qty(u, q, *p)
 }
 
 // optNum formats an optional value.

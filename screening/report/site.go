@@ -18,6 +18,7 @@ import (
 	"strings"
 
 	"github.com/trussfleet/trussfleet/internal/safetext"
+	"github.com/trussfleet/trussfleet/internal/units"
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/envelope"
@@ -80,6 +81,12 @@ const marker = ".trussfleet-report"
 // report or the new one, never a half-written one. dir must be absent, empty, or a report
 // written before. An error from bridge stops the write and names the bridge.
 func WriteSite(dir string, run Run, rows []BridgeRow, bridge func(id string) (Bridge, error)) error {
+	return WriteSiteIn(dir, run, rows, bridge, units.SI)
+}
+
+// WriteSiteIn is WriteSite with lengths, forces and loads per length shown in units u,
+// rounded by internal/units.
+func WriteSiteIn(dir string, run Run, rows []BridgeRow, bridge func(id string) (Bridge, error), u units.System) error {
 	if dir == "" {
 		return errors.New("report folder: empty path")
 	}
@@ -96,7 +103,7 @@ func WriteSite(dir string, run Run, rows []BridgeRow, bridge func(id string) (Br
 		return fmt.Errorf("report folder %s: %w", dir, err)
 	}
 	defer os.RemoveAll(tmp) // a no-op once renamed
-	if err := writeAll(tmp, run, rows, bridge); err != nil {
+	if err := writeAll(tmp, run, rows, bridge, u); err != nil {
 		return err
 	}
 	if err := os.Chmod(tmp, 0o755); err != nil {
@@ -149,10 +156,10 @@ func swap(tmp, dir string) error {
 	return nil
 }
 
-func writeAll(dir string, run Run, rows []BridgeRow, bridge func(id string) (Bridge, error)) error {
+func writeAll(dir string, run Run, rows []BridgeRow, bridge func(id string) (Bridge, error), u units.System) error {
 	names := pageNames(rows)
 	if err := writeFile(filepath.Join(dir, "index.html"), func(w io.Writer) error {
-		return pages.ExecuteTemplate(w, "index.tmpl", indexPage(run, rows, names))
+		return pages.ExecuteTemplate(w, "index.tmpl", indexPage(run, rows, names, u))
 	}); err != nil {
 		return err
 	}
@@ -166,7 +173,7 @@ func writeAll(dir string, run Run, rows []BridgeRow, bridge func(id string) (Bri
 			return fmt.Errorf("bridge %s: loading its detail: %w", r.BridgeID, err)
 		}
 		if err := writeFile(filepath.Join(dir, name), func(w io.Writer) error {
-			return pages.ExecuteTemplate(w, "bridge.tmpl", bridgePage(run, b))
+			return pages.ExecuteTemplate(w, "bridge.tmpl", bridgePage(run, b, u))
 		}); err != nil {
 			return fmt.Errorf("bridge %s: %w", r.BridgeID, err)
 		}
@@ -234,10 +241,16 @@ type pageBase struct {
 	CSP       string
 	Run       Run
 	Caution   []string
+	// Units names the units of the page's headings.
+	Units unitNames
 }
 
-func base(run Run, title string) pageBase {
-	return pageBase{Title: title, CSP: csp, Run: run, Caution: Caution}
+// unitNames are the units of a page's lengths, forces and loads per length.
+type unitNames struct{ Length, Force, PerLength string }
+
+func base(run Run, title string, u units.System) pageBase {
+	return pageBase{Title: title, CSP: csp, Run: run, Caution: Caution,
+		Units: unitNames{u.Name(units.Length), u.Name(units.Force), u.Name(units.PerLength)}}
 }
 
 type indexView struct {
@@ -265,8 +278,8 @@ type rowView struct {
 	Governing, GovSense, Inspected, Error   string
 }
 
-func indexPage(run Run, rows []BridgeRow, names map[string]string) indexView {
-	v := indexView{pageBase: base(run, fmt.Sprintf("Screening run %d: priority list", run.ID))}
+func indexPage(run Run, rows []BridgeRow, names map[string]string, u units.System) indexView {
+	v := indexView{pageBase: base(run, fmt.Sprintf("Screening run %d: priority list", run.ID), u)}
 	v.BodyClass = "index"
 	total := run.BridgesTotal
 	if total == 0 {
@@ -290,7 +303,7 @@ func indexPage(run Run, rows []BridgeRow, names map[string]string) indexView {
 	}
 	v.Config = runConfig(run)
 	for _, r := range rows {
-		v.Rows = append(v.Rows, rowOf(run, r, names[r.BridgeID]))
+		v.Rows = append(v.Rows, rowOf(run, r, names[r.BridgeID], u))
 	}
 	return v
 }
@@ -351,14 +364,14 @@ func orText(s, alt string) string {
 	return s
 }
 
-func rowOf(run Run, r BridgeRow, href string) rowView {
+func rowOf(run Run, r BridgeRow, href string, u units.System) rowView {
 	v := rowView{
 		Failed: r.Status == "failed" || r.Error != "",
 		ID:     r.BridgeID, Name: r.Name, Line: r.Line, Href: href,
 		Truss: r.TrussType, Worst: orDash(r.WorstMember),
 		Rank: strconv.Itoa(r.Rank), RankKey: strconv.Itoa(r.Rank),
 		Km: optNum(r.ChainageKm, 3), KmKey: sortKey(r.ChainageKm),
-		Span: num(r.SpanM, 1), SpanKey: sortKey(&r.SpanM),
+		Span: qty(u, units.Length, r.SpanM), SpanKey: sortKey(&r.SpanM),
 		RFEx: rfText(r.RFExisting), RFExKey: sortKey(r.RFExisting),
 		RFPr: rfText(r.RFProposed), RFPrKey: sortKey(r.RFProposed), RFClass: rfClass(run, r.RFProposed),
 		Change: pctText(r.Change), ChangeKey: sortKey(r.Change),
@@ -438,9 +451,9 @@ type calcView struct {
 	Governs                         bool
 }
 
-func bridgePage(run Run, b Bridge) bridgeView {
+func bridgePage(run Run, b Bridge, u units.System) bridgeView {
 	r := b.Row
-	v := bridgeView{pageBase: base(run, fmt.Sprintf("%s %s: screening run %d", r.BridgeID, r.Name, run.ID)), Row: r, Bands: bands(run), Equation: equation(run)}
+	v := bridgeView{pageBase: base(run, fmt.Sprintf("%s %s: screening run %d", r.BridgeID, r.Name, run.ID), u), Row: r, Bands: bands(run), Equation: equation(run)}
 	v.BodyClass = "bridge"
 	where := []string{}
 	if r.ChainageKm != nil {
@@ -455,12 +468,12 @@ func bridgePage(run Run, b Bridge) bridgeView {
 	v.DeckWord = map[bool]string{true: "deck truss, deck on the top chord", false: "through truss, deck on the bottom chord"}[deck == truss.DeckTop]
 	v.Facts = []keyValue{
 		{"truss", fmt.Sprintf("%s, %s", orDash(p.Type), deck)},
-		{"span", num(p.SpanM, 2) + " m"},
+		{"span", qty(u, units.Length, p.SpanM) + " " + u.Name(units.Length)},
 		{"panels", strconv.Itoa(p.Panels)},
-		{"depth", num(p.DepthM, 2) + " m"},
+		{"depth", qty(u, units.Length, p.DepthM) + " " + u.Name(units.Length)},
 		{"tracks", strconv.Itoa(max(b.Tracks, 1))},
 		{"truss share", num(b.TrussShare, 3)},
-		{"dead load", num(b.DeadLoadKNPerM, 2) + " kN/m per truss"},
+		{"dead load", qty(u, units.PerLength, b.DeadLoadKNPerM) + " " + u.Name(units.PerLength) + " per truss"},
 		{"worst member", orDash(r.WorstMember)},
 		{"RF existing → proposed", rfText(r.RFExisting) + " → " + rfText(r.RFProposed)},
 		{"headroom", optNum(r.Headroom, 2) + " × proposed"},
@@ -479,7 +492,7 @@ func bridgePage(run Run, b Bridge) bridgeView {
 	if err != nil {
 		v.Problem = "The truss could not be rebuilt from its stored geometry, so it is not drawn: " + err.Error()
 	} else {
-		e := drawElevation(t, run, byLabel)
+		e := drawElevation(t, run, byLabel, u)
 		v.Elevation = &e
 	}
 	// Most severe first: the member that matters is not to be found 24th in the geometry's
@@ -492,25 +505,25 @@ func bridgePage(run Run, b Bridge) bridgeView {
 		}
 		v.MemberRows = append(v.MemberRows, memberRow{
 			Label: m.Label, Kind: m.Kind, Anchor: anchor, Sense: orDash(m.SenseProposed),
-			D: signed(m.DeadKN, 1), DKey: sortKey(&m.DeadKN),
-			LMax: num(m.Proposed.LiveMaxKN, 1), LMaxKey: sortKey(&m.Proposed.LiveMaxKN),
-			LMin: num(m.Proposed.LiveMinKN, 1), LMinKey: sortKey(&m.Proposed.LiveMinKN),
+			D: signedQty(u, units.Force, m.DeadKN), DKey: sortKey(&m.DeadKN),
+			LMax: qty(u, units.Force, m.Proposed.LiveMaxKN), LMaxKey: sortKey(&m.Proposed.LiveMaxKN),
+			LMin: qty(u, units.Force, m.Proposed.LiveMinKN), LMinKey: sortKey(&m.Proposed.LiveMinKN),
 			RFEx: rfText(m.RFExisting), RFExKey: sortKey(m.RFExisting),
 			RFPr: rfText(m.RFProposed), RFPrKey: sortKey(m.RFProposed), RFClass: rfClass(run, m.RFProposed),
 			Flags: m.Flags,
 		})
 		if anchor != "" {
-			v.Sections = append(v.Sections, memberSection(run, b, t, lines, i, anchor))
+			v.Sections = append(v.Sections, memberSection(run, b, t, lines, i, anchor, u))
 		}
 	}
 	return v
 }
 
-func memberSection(run Run, b Bridge, t *truss.Truss, lines *analysis.Lines, i int, anchor string) section {
+func memberSection(run Run, b Bridge, t *truss.Truss, lines *analysis.Lines, i int, anchor string, u units.System) section {
 	m := b.Members[i]
-	s := section{Label: m.Label, Kind: m.Kind, Anchor: anchor, Flags: m.Flags, Reasons: reasons(run, m)}
+	s := section{Label: m.Label, Kind: m.Kind, Anchor: anchor, Flags: m.Flags, Reasons: reasons(run, m, u)}
 	for _, c := range append(senses(m, "existing", m.Existing), senses(m, "proposed", m.Proposed)...) {
-		s.Calc = append(s.Calc, calcOf(c))
+		s.Calc = append(s.Calc, calcOf(c, u))
 	}
 	if n := storedNote(m, m.ReferenceTrain); n != "" {
 		s.Notes = append(s.Notes, n)
@@ -538,12 +551,14 @@ func memberSection(run Run, b Bridge, t *truss.Truss, lines *analysis.Lines, i i
 		s.Captions = append(s.Captions, fmt.Sprintf("Train %s as now defined does not give the run's force here: its definition has changed since the run, so its loads are not drawn.", ex.Train))
 		tr = nil
 	}
-	c := drawIL(fmt.Sprintf("m%d", i), m.Label, t.SpanM(), lines.X, eta, ob, ex.Direction == 0, ex.HeadM, ex.Loaded && tr != nil)
+	c := drawIL(fmt.Sprintf("m%d", i), m.Label, t.SpanM(), lines.X, eta, ob, ex.Direction == 0, ex.HeadM, ex.Loaded && tr != nil, u)
 	s.Chart = &c
 	pos, neg := analysis.Areas(lines.X, eta)
-	s.Captions = append(s.Captions, fmt.Sprintf("Influence line of %s: member force per unit load at each deck panel point; areas %s and %s m. Dead load D = %s kN/m × net area %s m = %s kN.",
-		m.Label, signed(clean(pos), 3), signed(clean(neg), 3), num(b.DeadLoadKNPerM, 2), signed(clean(pos+neg), 3), signed(analysis.DeadLoad(lines.X, eta, b.DeadLoadKNPerM), 1)))
-	s.Captions = append(s.Captions, placementText(ex, tr, ob, lines.X, eta, sense, b.liveShare()))
+	lu, fu := u.Name(units.Length), u.Name(units.Force)
+	s.Captions = append(s.Captions, fmt.Sprintf("Influence line of %s: member force per unit load at each deck panel point; areas %s and %s %s. Dead load D = %s %s × net area %s %s = %s %s.",
+		m.Label, signedQty(u, units.Length, clean(pos)), signedQty(u, units.Length, clean(neg)), lu, qty(u, units.PerLength, b.DeadLoadKNPerM), u.Name(units.PerLength),
+		signedQty(u, units.Length, clean(pos+neg)), lu, signedQty(u, units.Force, analysis.DeadLoad(lines.X, eta, b.DeadLoadKNPerM)), fu))
+	s.Captions = append(s.Captions, placementText(ex, tr, ob, lines.X, eta, sense, b.liveShare(), u))
 	return s
 }
 
@@ -553,16 +568,17 @@ func (b Bridge) liveShare() float64 {
 }
 
 // placementText says where the governing train stood and checks its effect against L.
-func placementText(ex envelope.Extreme, tr *traffic.Train, ob onBridge, xs, eta []float64, sense string, share float64) string {
+func placementText(ex envelope.Extreme, tr *traffic.Train, ob onBridge, xs, eta []float64, sense string, share float64, u units.System) string {
 	if !ex.Loaded {
 		return fmt.Sprintf("No train loads the member in %s under the proposed traffic.", sense)
 	}
-	s := fmt.Sprintf("Proposed traffic, governing in %s: %s, %s, front at x = %s m", sense, orDash(ex.Train), ex.Direction, num(ex.HeadM, 2))
+	l, lu, fu := func(v float64) string { return qty(u, units.Length, v) }, u.Name(units.Length), u.Name(units.Force)
+	s := fmt.Sprintf("Proposed traffic, governing in %s: %s, %s, front at x = %s %s", sense, orDash(ex.Train), ex.Direction, l(ex.HeadM), lu)
 	if ex.Count > 0 && tr != nil && tr.Variable() {
 		s += fmt.Sprintf(", %d vehicles in its last group", ex.Count)
 	}
 	if ex.LoadedToM > ex.LoadedFromM {
-		s += fmt.Sprintf("; loads x = %s to %s m", num(ex.LoadedFromM, 2), num(ex.LoadedToM, 2))
+		s += fmt.Sprintf("; loads x = %s to %s %s", l(ex.LoadedFromM), l(ex.LoadedToM), lu)
 	}
 	s += "."
 	if tr == nil {
@@ -574,25 +590,28 @@ func placementText(ex envelope.Extreme, tr *traffic.Train, ob onBridge, xs, eta 
 		for _, a := range ob.Axles {
 			lo, hi = math.Min(lo, a.LoadKN), math.Max(hi, a.LoadKN)
 		}
-		loads := num(lo, 0) + " kN"
+		loads := qty(u, units.Force, lo) + " " + fu
 		if hi > lo {
-			loads = num(lo, 0) + " to " + num(hi, 0) + " kN"
+			loads = qty(u, units.Force, lo) + " to " + qty(u, units.Force, hi) + " " + fu
 		}
 		parts = append(parts, fmt.Sprintf("%d axles on the bridge (%s)", n, loads))
 	}
 	for _, st := range ob.Stretches {
-		parts = append(parts, fmt.Sprintf("%s kN/m over x = %s to %s m", num(st.QKNPerM, 1), num(st.FromM, 2), num(st.ToM, 2)))
+		parts = append(parts, fmt.Sprintf("%s %s over x = %s to %s %s", qty(u, units.PerLength, st.QKNPerM), u.Name(units.PerLength), l(st.FromM), l(st.ToM), lu))
 	}
 	if len(parts) > 0 {
 		eff := ob.effect(xs, eta)
-		s += fmt.Sprintf(" %s. ΣP·η + Σq·∫η = %s kN; × truss share %s = %s kN (L %s kN).", strings.Join(parts, "; "), signed(eff, 1), num(share, 3), signed(eff*share, 1), signed(ex.Value, 1))
+		f := func(v float64) string { return signedQty(u, units.Force, v) }
+		s += fmt.Sprintf(" %s. ΣP·η + Σq·∫η = %s %s; × truss share %s = %s %s (L %s %s).", strings.Join(parts, "; "), f(eff), fu, num(share, 3), f(eff*share), fu, f(ex.Value), fu)
 	}
 	return s
 }
 
-func calcOf(c senseCalc) calcView {
-	v := calcView{Scenario: c.Scenario, Sense: c.Sense, Basis: orDash(c.Basis), Held: optNum(c.HeldKN, 1), Cond: num(c.Condition, 2), C: optNum(c.CKN, 1),
-		D: signed(c.DKN, 1), L: num(c.LKN, 1), Impact: num(c.Impact, 3), RF: rfText(c.RF), Governs: c.Governs}
+// calcOf is the arithmetic of one sense as shown, forces in units u.
+func calcOf(c senseCalc, u units.System) calcView {
+	f := units.Force
+	v := calcView{Scenario: c.Scenario, Sense: c.Sense, Basis: orDash(c.Basis), Held: optQty(u, f, c.HeldKN), Cond: num(c.Condition, 2), C: optQty(u, f, c.CKN),
+		D: signedQty(u, f, c.DKN), L: qty(u, f, c.LKN), Impact: num(c.Impact, 3), RF: rfText(c.RF), Governs: c.Governs}
 	if c.HeldKN == nil {
 		v.Cond = dash
 	}

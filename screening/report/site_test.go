@@ -11,6 +11,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/trussfleet/trussfleet/internal/units"
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/truss"
 )
@@ -361,5 +362,45 @@ func TestWriteSiteReplacesOnlyItsOwn(t *testing.T) {
 	}
 	if _, err := os.Stat(filepath.Join(dir, "bridge-NER-90001.html")); !errors.Is(err, os.ErrNotExist) {
 		t.Errorf("the previous report's bridge page is still there: %v", err)
+	}
+}
+
+// TestSiteImperial writes the report in ft and kip: headings name the units, and the span
+// and the dead-load forces are the SI ones divided by the exact factors, rounded to 0.1.
+func TestSiteImperial(t *testing.T) {
+	f := smallFleet(t)
+	dir := filepath.Join(t.TempDir(), "report")
+	if err := WriteSiteIn(dir, f.Run, f.Rows, f.bridge, units.Imperial); err != nil {
+		t.Fatal(err)
+	}
+	index := readFile(t, filepath.Join(dir, "index.html"))
+	// exact definition: 48 m / 0.3048 = 157.48 ft, 31.5 m = 103.35 ft; rounded to 0.1 ft.
+	for _, s := range []string{"span ft", ">157.5<", ">103.3<", "lengths in ft", Caution[0]} {
+		if !strings.Contains(index, s) {
+			t.Errorf("imperial index lacks %q", s)
+		}
+	}
+	link := regexp.MustCompile(`href="(bridge-[^"]+)"`).FindStringSubmatch(index)
+	if link == nil {
+		t.Fatal("no bridge page linked")
+	}
+	page := readFile(t, filepath.Join(dir, link[1]))
+	for _, s := range []string{"D kip", "held kip", "157.5 ft", "kip/ft per truss", Caution[0]} {
+		if !strings.Contains(page, s) {
+			t.Errorf("imperial bridge page lacks %q", s)
+		}
+	}
+	b := f.Bridges[f.Rows[0].BridgeID]
+	rows := memRow.FindAllStringSubmatch(page, -1)
+	if !strings.Contains(page, b.Row.BridgeID) || len(rows) != len(b.Members) {
+		t.Fatalf("bridge page of %s: %d member rows, want %d", b.Row.BridgeID, len(rows), len(b.Members))
+	}
+	for _, r := range rows {
+		c := cells(r[2])
+		m := b.Members[b.indexOf(r[1])]
+		// exact definition: 1 kip = 4.4482216 kN; D rounded to 0.1 kip.
+		if got, want := parseNum(t, c[2]), m.DeadKN/4.4482216; math.Abs(got-want) > 0.05+1e-9 {
+			t.Errorf("%s: D %v kip, want %.3f (%v kN)", r[1], got, want, m.DeadKN)
+		}
 	}
 }

@@ -6,6 +6,7 @@ import (
 	"sort"
 	"strings"
 
+	"github.com/trussfleet/trussfleet/internal/units"
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/truss"
 )
@@ -46,7 +47,7 @@ type circle struct{ X, Y, R float64 }
 type line struct{ X1, Y1, X2, Y2 float64 }
 
 // drawElevation draws truss t with its members styled by proposed RF; members by label.
-func drawElevation(t *truss.Truss, run Run, members map[string]Member) elevation {
+func drawElevation(t *truss.Truss, run Run, members map[string]Member, u units.System) elevation {
 	const margin, top, bottom = 40.0, 46.0, 74.0
 	span := t.SpanM()
 	depth := 0.0
@@ -148,7 +149,8 @@ func drawElevation(t *truss.Truss, run Run, members map[string]Member) elevation
 		y := py(t.Joints[t.DeckJoints[0]].Y)
 		e.Deck = line{px(dx[0]), y, px(dx[len(dx)-1]), y}
 	}
-	e.Span = elevText{X: svgWidth / 2, Y: e.H - 8, Anchor: "middle", Text: fmt.Sprintf("span %s m, %d panels, depth %s m", num(span, 2), t.Params.Panels, num(t.Params.DepthM, 2))}
+	e.Span = elevText{X: svgWidth / 2, Y: e.H - 8, Anchor: "middle", Text: fmt.Sprintf("span %s %s, %d panels, depth %s %s",
+		qty(u, units.Length, span), u.Name(units.Length), t.Params.Panels, qty(u, units.Length, t.Params.DepthM), u.Name(units.Length))}
 	return e
 }
 
@@ -188,7 +190,7 @@ type rect struct {
 }
 
 // drawIL draws the line (xs, eta) over a span of spanM with the loads ob on the bridge.
-func drawIL(id, label string, spanM float64, xs, eta []float64, ob onBridge, leftToRight bool, headM float64, loaded bool) ilChart {
+func drawIL(id, label string, spanM float64, xs, eta []float64, ob onBridge, leftToRight bool, headM float64, loaded bool, u units.System) ilChart {
 	const left, right, trainTop, deckY, plotTop, plotH, bottom = 56.0, 24.0, 18.0, 78.0, 96.0, 150.0, 40.0
 	c := ilChart{ID: id, Label: label, W: svgWidth, H: plotTop + plotH + bottom, Left: left, Right: svgWidth - right, DeckY: deckY}
 	s := (c.Right - c.Left) / spanM
@@ -243,7 +245,7 @@ func drawIL(id, label string, spanM float64, xs, eta []float64, ob onBridge, lef
 		c.Arrows = append(c.Arrows, arrow{
 			Shaft: line{x, top, x, deckY - 7},
 			Head:  fmt.Sprintf("%.2f,%.2f %.2f,%.2f %.2f,%.2f", x-3.5, deckY-8, x+3.5, deckY-8, x, deckY-1),
-			Title: fmt.Sprintf("axle %s kN at x = %s m, η = %s", num(a.LoadKN, 1), num(a.XM, 2), num(clean(analysis.Interpolate(xs, eta, a.XM)), 3)),
+			Title: fmt.Sprintf("axle %s %s at x = %s %s, η = %s", qty(u, units.Force, a.LoadKN), u.Name(units.Force), qty(u, units.Length, a.XM), u.Name(units.Length), num(clean(analysis.Interpolate(xs, eta, a.XM)), 3)),
 		})
 		c.Drops = append(c.Drops, line{x, deckY, x, py(clean(analysis.Interpolate(xs, eta, a.XM)))})
 	}
@@ -255,7 +257,7 @@ func drawIL(id, label string, spanM float64, xs, eta []float64, ob onBridge, lef
 		h := 8 + 22*st.QKNPerM/qmax
 		c.Stretches = append(c.Stretches, rect{
 			X: px(st.FromM), Y: deckY - 2 - h, W: (st.ToM - st.FromM) * s, H: h,
-			Title: fmt.Sprintf("%s kN/m from x = %s to %s m", num(st.QKNPerM, 1), num(st.FromM, 2), num(st.ToM, 2)),
+			Title: fmt.Sprintf("%s %s from x = %s to %s %s", qty(u, units.PerLength, st.QKNPerM), u.Name(units.PerLength), qty(u, units.Length, st.FromM), qty(u, units.Length, st.ToM), u.Name(units.Length)),
 		})
 	}
 	if loaded {

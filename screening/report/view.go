@@ -6,6 +6,7 @@ import (
 	"sort"
 	"strings"
 
+	"github.com/trussfleet/trussfleet/internal/units"
 	"github.com/trussfleet/trussfleet/screening/rating"
 )
 
@@ -159,7 +160,7 @@ func senses(m Member, name string, s Scenario) []senseCalc {
 }
 
 // reasons says, one sentence per flag, why a member is flagged.
-func reasons(run Run, m Member) []string {
+func reasons(run Run, m Member, u units.System) []string {
 	flag, review := thresholds(run)
 	var out []string
 	for _, f := range m.Flags {
@@ -179,8 +180,8 @@ func reasons(run Run, m Member) []string {
 			p := m.Proposed
 			lo, hi := m.DeadKN+p.LiveMinKN*p.Impact, m.DeadKN+p.LiveMaxKN*p.Impact
 			share := math.Min(-lo, hi) / math.Max(-lo, hi)
-			r = fmt.Sprintf("new-reversal: under the proposed traffic D + L(1 + I) ranges from %s to %s kN and so changes sign, the reversed force %s %% of the larger (at least the %s %% set), which it does not under the existing traffic; both senses and fatigue need checking.",
-				signed(lo, 1), signed(hi, 1), num(100*share, 0), num(100*run.ReversalFraction, 0))
+			r = fmt.Sprintf("new-reversal: under the proposed traffic D + L(1 + I) ranges from %s to %s %s and so changes sign, the reversed force %s %% of the larger (at least the %s %% set), which it does not under the existing traffic; both senses and fatigue need checking.",
+				signedQty(u, units.Force, lo), signedQty(u, units.Force, hi), u.Name(units.Force), num(100*share, 0), num(100*run.ReversalFraction, 0))
 		case rating.NoCapacity:
 			what := strings.Join(unratedSenses(m), " and ")
 			if what == "" {

@@ -4,13 +4,16 @@ import (
 	"errors"
 	"fmt"
 	"math"
+
+	conv "github.com/trussfleet/trussfleet/internal/units"
 )
 
-// Unit conversions (exact by definition of the international foot and pound).
+// Unit conversions, those of internal/units (exact by definition of the international foot
+// and pound), where the outputs take them too.
 const (
-	KNPerKip      = 4.4482216
-	MPerFt        = 0.3048
-	KNPerMPerKipF = KNPerKip / MPerFt // kip/ft to kN/m
+	KNPerKip      = conv.KNPerKip
+	MPerFt        = conv.MPerFt
+	KNPerMPerKipF = conv.KNPerMPerKipPerFt // kip/ft to kN/m
 )
 
 // Axle is one axle of a vehicle: its distance behind the vehicle's front and its load.
