@@ -7,6 +7,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/trussfleet/trussfleet/internal/units"
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/truss"
 )
@@ -45,7 +46,7 @@ func TestElevationLabelsDoNotOverlap(t *testing.T) {
 				t.Fatal(err)
 			}
 			ms, unrated := crowdedMembers(tr)
-			e := drawElevation(tr, Run{Flag: 1, Review: 1.1}, ms)
+			e := drawElevation(tr, Run{Flag: 1, Review: 1.1}, ms, units.SI)
 			// Boxes as the placement computes them, without its margins: what must not meet.
 			var boxes []box
 			var what []string
@@ -116,7 +117,7 @@ func TestUnratedMembersUnlabelled(t *testing.T) {
 	}
 	flagged := tr.Members[3].Label
 	ms[flagged] = Member{Label: flagged, Flags: []string{"exceeds"}, RFProposed: &rf}
-	e := drawElevation(tr, Run{Flag: 1, Review: 1.1}, ms)
+	e := drawElevation(tr, Run{Flag: 1, Review: 1.1}, ms, units.SI)
 	want := flagged + " 0.93"
 	if len(e.Labels) != 1 || e.Labels[0].Text != want || len(e.Key) != 0 {
 		t.Fatalf("labels %+v, key %+v; want the one label %q", e.Labels, e.Key, want)
@@ -133,7 +134,7 @@ func TestUnratedMembersUnlabelled(t *testing.T) {
 func TestInfluenceLineAxisLabels(t *testing.T) {
 	xs := []float64{0, 6, 12, 18, 24}
 	eta := []float64{0, 0.75, 0.5, 0.25, 0}
-	c := drawIL("m", "U1-U2", 24, xs, eta, onBridge{}, true, 0, false)
+	c := drawIL("m", "U1-U2", 24, xs, eta, onBridge{}, true, 0, false, units.SI)
 	if c.XLabel.Text != "position from left bearing x (m)" || c.YLabel.Text != "η (kN/kN)" {
 		t.Errorf("axis labels %q and %q", c.XLabel.Text, c.YLabel.Text)
 	}
