@@ -105,15 +105,28 @@ func storeSets(ctx context.Context, tx pgx.Tx, results []screening.Result) ([]*i
 		new bool
 	}
 	byKey := map[string]found{}
-	stored, err := store.InsertResultSets(ctx, tx, bridges, digests)
-	if err != nil {
-		return nil, err
-	}
-	for _, s := range stored {
-		byKey[s.BridgeID+"\x00"+string(s.Digest)] = found{s.ID, true}
-	}
-	if len(byKey) < len(keys) {
-		shared, err := store.ShareResultSets(ctx, tx, bridges, digests)
+	// A set found in conflict by the insert may be deleted by a prune that commits before the
+	// share below locks it; the insert then stores it anew. Twice is enough: a prune deletes
+	// only sets no run names, and once this transaction has stored or locked a set it stays.
+	for try := 0; try < 3 && len(byKey) < len(keys); try++ {
+		var missB []string
+		var missD [][]byte
+		for i := range bridges {
+			if _, ok := byKey[bridges[i]+"\x00"+string(digests[i])]; !ok {
+				missB, missD = append(missB, bridges[i]), append(missD, digests[i])
+			}
+		}
+		stored, err := store.InsertResultSets(ctx, tx, missB, missD)
+		if err != nil {
+			return nil, err
+		}
+		for _, s := range stored {
+			byKey[s.BridgeID+"\x00"+string(s.Digest)] = found{s.ID, true}
+		}
+		if len(byKey) == len(keys) {
+			break
+		}
+		shared, err := store.ShareResultSets(ctx, tx, missB, missD)
 		if err != nil {
 			return nil, err
 		}

@@ -37,11 +37,12 @@ func InsertResultSets(ctx context.Context, tx pgx.Tx, bridges []string, digests 
 
 // ShareResultSets finds the stored sets of the given bridges and digests and holds them FOR
 // KEY SHARE until the transaction ends: a prune that would delete a set no run refers to yet
-// waits for this transaction, and then sees it referred to (dropUnusedSets).
+// waits for this transaction, and then sees it referred to (dropUnusedSets). The sets are
+// locked in id order, the order a prune locks them in: the two cannot deadlock.
 func ShareResultSets(ctx context.Context, tx pgx.Tx, bridges []string, digests [][]byte) ([]ResultSet, error) {
 	rows, err := tx.Query(ctx, `SELECT s.id, s.bridge_id, s.digest FROM result_sets s
 		JOIN unnest($1::text[], $2::bytea[]) AS k(bridge_id, digest) ON s.bridge_id = k.bridge_id AND s.digest = k.digest
-		FOR KEY SHARE OF s`, bridges, digests)
+		ORDER BY s.id FOR KEY SHARE OF s`, bridges, digests)
 	if err != nil {
 		return nil, fmt.Errorf("result sets: %w", err)
 	}

@@ -41,14 +41,15 @@ func (db *DB) PendingBridges(ctx context.Context, id int64) (int, error) {
 // base run's (nil where the bridge has none, as a failed one).
 func (db *DB) BridgeSet(ctx context.Context, runID int64, bridgeID string) (*int64, error) {
 	var set *int64
+	var removed bool
 	err := db.Pool.QueryRow(ctx, `WITH RECURSIVE chain (id, base, complete, depth) AS (
 			SELECT id, base_run_id, complete, 0 FROM runs WHERE id = $1
 			UNION ALL
 			SELECT r.id, r.base_run_id, r.complete, c.depth + 1 FROM chain c JOIN runs r ON r.id = c.base
 			WHERE NOT c.complete)
-		SELECT b.set_id FROM chain c JOIN run_bridges b ON b.run_id = c.id AND b.bridge_id = $2
-		ORDER BY c.depth LIMIT 1`, runID, bridgeID).Scan(&set)
-	if errors.Is(err, pgx.ErrNoRows) {
+		SELECT b.set_id, b.status = 'removed' FROM chain c JOIN run_bridges b ON b.run_id = c.id AND b.bridge_id = $2
+		ORDER BY c.depth LIMIT 1`, runID, bridgeID).Scan(&set, &removed)
+	if errors.Is(err, pgx.ErrNoRows) || (err == nil && removed) {
 		return nil, fmt.Errorf("bridge %q in run %d: %w", bridgeID, runID, ErrNotFound)
 	}
 	return set, err
@@ -273,12 +274,14 @@ var carriedColumns = []string{"bridge_id", "input_hash", "error", "worst_member"
 	"demand_increase", "headroom", "flags", "flag_counts", "unrated_members", "governing_train", "governing_sense", "governing_head_m",
 	"governing_direction", "governing_from_m", "governing_to_m", "screened_at", "requeues", "set_id"}
 
-// squashStatement copies the picture of run $1 into run $2 as carried rows, for every bridge
-// that run $2 holds no row of.
+// squashStatement copies the picture of run $1 into run $2, for every bridge that run $2
+// holds no row of: a screened bridge as carried, a failed one as failed (a failure is never
+// carried: the next nightly run screens it again).
 var squashStatement = func() string {
 	cols := strings.Join(carriedColumns, ", ")
 	return "INSERT INTO run_bridges (run_id, status, source_run_id, " + cols + ")\n" +
-		"SELECT $2, 'carried', coalesce(p.source_run_id, p.run_id), p." + strings.Join(carriedColumns, ", p.") + "\n" +
+		"SELECT $2, CASE WHEN p.status = 'failed' THEN 'failed' ELSE 'carried' END, coalesce(p.source_run_id, p.run_id), p." +
+		strings.Join(carriedColumns, ", p.") + "\n" +
 		"FROM run_picture($1) p WHERE NOT EXISTS (SELECT 1 FROM run_bridges y WHERE y.run_id = $2 AND y.bridge_id = p.bridge_id)"
 }()
 

@@ -172,7 +172,7 @@ CREATE TABLE member_assessments (
 INSERT INTO run_bridges (run_id, bridge_id, input_hash, status, error, source_run_id, worst_member, rf_existing,
     rf_proposed, demand_increase, headroom, flags, flag_counts, governing_train, governing_sense, governing_head_m,
     governing_direction, governing_from_m, governing_to_m, screened_at, requeues, set_id)
-SELECT r.id, p.bridge_id, p.input_hash, 'carried', p.error, coalesce(p.source_run_id, p.run_id), p.worst_member,
+SELECT r.id, p.bridge_id, p.input_hash, CASE WHEN p.status = 'failed' THEN 'failed' ELSE 'carried' END, p.error, coalesce(p.source_run_id, p.run_id), p.worst_member,
     p.rf_existing, p.rf_proposed, p.demand_increase, p.headroom, p.flags, p.flag_counts, p.governing_train,
     p.governing_sense, p.governing_head_m, p.governing_direction, p.governing_from_m, p.governing_to_m,
     p.screened_at, p.requeues, p.set_id

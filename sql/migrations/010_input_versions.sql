@@ -9,6 +9,10 @@
 -- touches each changed bridge once per statement, not once per member row.
 
 CREATE SEQUENCE bridge_input_version;
+-- Versions start from the clock (microseconds since 1970), not from 1: should this migration be
+-- undone and applied again, the versions it hands out then lie above every earlier one, and
+-- an earlier run's hash can never match a bridge whose inputs changed in between.
+SELECT setval('bridge_input_version', (extract(epoch FROM clock_timestamp()) * 1000000)::bigint);
 
 ALTER TABLE bridges ADD COLUMN input_version bigint NOT NULL DEFAULT nextval('bridge_input_version');
 
