@@ -9,16 +9,7 @@ import (
 // wrong kind: the file once, the line and column, the key's path, what was expected or the
 // nearest valid key, and no Go type name.
 func TestTrainFileShapeErrors(t *testing.T) {
-	base := `name: T
-vehicles:
-  - id: w
-    length: 14
-    axles:
-      - {at: 1.5, load: 200}
-      - {at: 12.5, load: 200}
-consist:
-  - {vehicle: w, min: 1, max: 3}
-`
+	base := baseTrainFile
 	cases := []struct {
 		name, old, new string
 		want           string

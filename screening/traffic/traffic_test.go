@@ -199,8 +199,9 @@ func TestExampleTrains(t *testing.T) {
 	}
 }
 
-func TestParseTrainFileErrors(t *testing.T) {
-	base := `name: T
+// baseTrainFile is a valid train file the error tests change one thing in: a 14 m wagon on
+// two axles, 1 to 3 of them.
+const baseTrainFile = `name: T
 vehicles:
   - id: w
     length: 14
@@ -210,6 +211,9 @@ vehicles:
 consist:
   - {vehicle: w, min: 1, max: 3}
 `
+
+func TestParseTrainFileErrors(t *testing.T) {
+	base := baseTrainFile
 	cases := []struct {
 		name, old, new string
 		want           []string
