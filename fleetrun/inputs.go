@@ -37,12 +37,23 @@ func chunkInputs(ctx context.Context, db *store.DB, runID int64, planHash string
 // ScreeningInput turns an inventory row and its members into what screening needs.
 func ScreeningInput(b store.Bridge, members []store.Member) screening.Bridge {
 	sb := screening.Bridge{
-		ID:             b.BridgeID,
-		Truss:          truss.Params{Type: b.TrussType, SpanM: b.SpanM, Panels: b.Panels, DepthM: b.DepthM, Deck: b.Deck, EndPosts: b.EndPosts},
-		TrussShare:     b.TrussShare,
-		Tracks:         b.Tracks,
-		DeadLoadKNPerM: b.DeadLoadKNPerM,
-		Members:        make(map[string]rating.Member, len(members)),
+		ID:                b.BridgeID,
+		Truss:             truss.Params{Type: b.TrussType, SpanM: b.SpanM, Panels: b.Panels, DepthM: b.DepthM, Deck: b.Deck, EndPosts: b.EndPosts},
+		TrussShare:        b.TrussShare,
+		Tracks:            b.Tracks,
+		DeadLoadKNPerM:    b.DeadLoadKNPerM,
+		TrackOffsetsM:     b.TrackOffsetsM,
+		TrussWeightKNPerM: b.TrussWeightKNPerM,
+		Members:           make(map[string]rating.Member, len(members)),
+	}
+	if b.TrussSpacingM != nil {
+		sb.TrussSpacingM = *b.TrussSpacingM
+	}
+	if b.LineSpeedKmh != nil {
+		sb.LineSpeedKmh = *b.LineSpeedKmh
+	}
+	if b.FirstFrequencyHz != nil {
+		sb.FirstFrequencyHz = *b.FirstFrequencyHz
 	}
 	for _, m := range members {
 		sb.Members[m.Member] = RatingMember(m)

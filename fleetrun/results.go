@@ -231,7 +231,8 @@ func (e *resultEncoder) memberAssessments(results []screening.Result, setIDs []i
 func (e *resultEncoder) memberResult(setID int64, scenario string, m screening.MemberResult, env screening.Envelope, rfs []rating.Factor) {
 	r := &e.mr
 	*r = store.MemberResult{SetID: setID, Scenario: scenario, Member: m.Label, Kind: string(m.Kind),
-		DeadKN: m.Dead, LiveMaxKN: env.Max.Value, LiveMinKN: env.Min.Value, Impact: env.Impact}
+		DeadKN: m.Dead, LiveMaxKN: env.Max.Value, LiveMinKN: env.Min.Value, Impact: env.Impact,
+		Truss: m.Truss, MaxCase: env.MaxCase.String(), MinCase: env.MinCase.String()}
 	for _, f := range rfs {
 		if f.Sense == rating.Tension {
 			r.RFTension = finite(f.RF)

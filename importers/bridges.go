@@ -35,6 +35,16 @@ type bridgeRecord struct {
 	Latitude         string `csv:"latitude"`
 	Longitude        string `csv:"longitude"`
 	LastInspected    string `csv:"last_inspected"`
+	// The cross-section (section.go).
+	TrussSpacingM       string `csv:"truss_spacing_m"`
+	TrussSpacingFt      string `csv:"truss_spacing_ft"`
+	TrackOffsetsM       string `csv:"track_offsets_m"`
+	TrackOffsetsFt      string `csv:"track_offsets_ft"`
+	LineSpeedKmh        string `csv:"line_speed_kmh"`
+	LineSpeedMph        string `csv:"line_speed_mph"`
+	FirstFrequencyHz    string `csv:"first_frequency_hz"`
+	TrussWeightKNPerM   string `csv:"truss_weight_kn_per_m"`
+	TrussWeightKipPerFt string `csv:"truss_weight_kip_per_ft"`
 }
 
 var (
@@ -44,14 +54,14 @@ var (
 	colDeadLoad = column{name: "dead_load_kn_per_m", alt: "dead_load_kip_per_ft", factor: kNPerMPerKipFt, required: true}
 
 	// bridgeColumns are the columns of bridges.csv (docs/inventory.md).
-	bridgeColumns = []column{
+	bridgeColumns = append([]column{
 		{name: "bridge_id", required: true, maxChars: maxIDChars}, {name: "name", maxChars: maxNameChars},
 		{name: "line", maxChars: maxNameChars}, colChainage,
 		{name: "truss_type", required: true}, colSpan, {name: "panels", required: true}, colDepth,
 		{name: "deck", required: true}, {name: "end_posts"}, {name: "trusses"}, {name: "truss_share"},
 		{name: "tracks"}, colDeadLoad, {name: "year_built"}, {name: "latitude"}, {name: "longitude"},
 		{name: "last_inspected"},
-	}
+	}, sectionColumns...)
 )
 
 // Defaults for optional bridges.csv columns.
@@ -188,6 +198,7 @@ func parseBridge(r bridgeRecord, p *row) (store.Bridge, bool) {
 		p.fail("latitude", r.Latitude, "give latitude and longitude together, or neither")
 	}
 	b.LastInspected = p.date("last_inspected", r.LastInspected)
+	parseSection(r, p, &b, dead)
 	if span == nil || depth == nil {
 		return b, false
 	}

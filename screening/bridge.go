@@ -27,6 +27,18 @@ type Bridge struct {
 	Tracks     int
 	// DeadLoadKNPerM is the dead load carried by the analysed truss, per metre of span.
 	DeadLoadKNPerM float64
+	// The cross-section (section.go). TrussSpacingM is the distance centre to centre of the
+	// main trusses (0: unknown); TrackOffsetsM each track's offset from the bridge's centre
+	// line, positive towards truss A (nil: not given; then TrussShare and Tracks apply).
+	TrussSpacingM float64
+	TrackOffsetsM []float64
+	// TrussWeightKNPerM is the part of DeadLoadKNPerM that is the truss's own weight: half
+	// acts at the top chord's joints, half at the bottom chord's; the rest at the deck
+	// chord's panel points (deadload.go).
+	TrussWeightKNPerM float64
+	// LineSpeedKmh is the line speed (0: not known); FirstFrequencyHz the measured first
+	// bending frequency of the span (0: not measured).
+	LineSpeedKmh, FirstFrequencyHz float64
 	// Members holds the inventory's data by member label; a member missing here has no
 	// capacity data.
 	Members map[string]rating.Member
@@ -43,6 +55,8 @@ func (b Bridge) LiveShare() float64 {
 type Scenario struct {
 	Name   string
 	Trains []*envelope.Load
+	// OnTracks keeps trains to given tracks (section.go); nil: every train on every track.
+	OnTracks TrackTrains
 }
 
 // NewScenario prepares a scenario's trains.
@@ -70,6 +84,8 @@ type Settings struct {
 	Dynamic    traffic.Dynamic
 	Method     rating.Method
 	Thresholds rating.Thresholds
+	// Presence is the multiple-presence rule for bridges with a cross-section ("": EN 1991-2).
+	Presence Presence
 }
 
 // ShareTrains makes the trains that are defined alike, in either scenario or among the
@@ -110,6 +126,8 @@ type Extreme = envelope.Extreme
 type Envelope struct {
 	Max, Min Extreme
 	Impact   float64 // 1 + I
+	// MaxCase and MinCase are the loading cases behind Max and Min (section.go).
+	MaxCase, MinCase Case
 }
 
 // MemberResult is one member's outcome.
@@ -117,6 +135,8 @@ type MemberResult struct {
 	Label              string
 	Kind               truss.Kind
 	Dead               float64 // kN
+	// Truss is the main truss whose results these are: the one that governs the member.
+	Truss              string
 	Existing, Proposed Envelope
 	Assessment         rating.Assessment
 }
@@ -190,7 +210,10 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 			return fail(fmt.Errorf("inventory member %q is not in the %s geometry (members: %s)", label, t.Params.Type, strings.Join(t.Labels(), ", ")))
 		}
 	}
-	if !(b.LiveShare() > 0) {
+	if err := b.checkSection(); err != nil {
+		return fail(fmt.Errorf("cross-section: %w", err))
+	}
+	if !b.HasSection() && !(b.LiveShare() > 0) {
 		return fail(fmt.Errorf("truss share %v × tracks %d: must be positive", b.TrussShare, b.Tracks))
 	}
 	lines, err := analysis.InfluenceLines(t, analysis.Options{})
@@ -209,16 +232,20 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 	if !(impact >= 1) || math.IsInf(impact, 0) {
 		return fail(fmt.Errorf("dynamic allowance %s gives 1 + I = %v at span %g m", s.Dynamic, impact, t.SpanM()))
 	}
-	share := b.LiveShare()
-	ex, err := w.scenarioEnvelope(el, s.Existing.Trains, share, impact)
+	trusses := b.screenedTrusses(s)
+	impacts := make([]float64, len(lines.Members))
+	for i := range impacts {
+		impacts[i] = impact
+	}
+	ex, err := w.sectionEnvelopes(el, s.Existing, b, trusses, s.Presence, impacts)
 	if err != nil {
 		return fail(fmt.Errorf("existing traffic: %w", err))
 	}
-	pr, err := w.scenarioEnvelope(el, s.Proposed.Trains, share, impact)
+	pr, err := w.sectionEnvelopes(el, s.Proposed, b, trusses, s.Presence, impacts)
 	if err != nil {
 		return fail(fmt.Errorf("proposed traffic: %w", err))
 	}
-	refs, err := w.referenceEnvelopes(b, s, el, share, impact)
+	refs, err := w.referenceEnvelopes(b, s, el, trusses, impacts)
 	if err != nil {
 		return fail(err)
 	}
@@ -227,21 +254,26 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 	for i, l := range lines.Members {
 		dead := analysis.DeadLoad(lines.X, l.Ordinates, b.DeadLoadKNPerM)
 		inv := b.Members[l.Label]
-		exL := rating.Loading{Demand: demand(dead, ex[i])}
-		prL := rating.Loading{Demand: demand(dead, pr[i])}
-		if r, ok := refs[inv.ReferenceTrain]; ok && inv.HasStoredRating() {
-			d := demand(dead, r[i])
-			exL.Reference, prL.Reference = &d, &d
-		}
-		a := rating.Assess(inv, exL, prL, s.Method, s.Thresholds)
-		for _, f := range append(append([]rating.Factor{}, a.Existing...), a.Proposed...) {
-			if math.IsNaN(f.RF) || math.IsInf(f.RF, 0) {
-				// A number that is not one must never read as "no rating factor".
-				return fail(fmt.Errorf("member %s: %s rating factor is %v (check its capacity and the settings)", l.Label, f.Sense, f.RF))
+		for k, tr := range trusses {
+			exL := rating.Loading{Demand: demand(dead, ex[k][i])}
+			prL := rating.Loading{Demand: demand(dead, pr[k][i])}
+			if r, ok := refs[inv.ReferenceTrain]; ok && inv.HasStoredRating() {
+				d := demand(dead, r[k][i])
+				exL.Reference, prL.Reference = &d, &d
+			}
+			a := rating.Assess(inv, exL, prL, s.Method, s.Thresholds)
+			for _, f := range append(append([]rating.Factor{}, a.Existing...), a.Proposed...) {
+				if math.IsNaN(f.RF) || math.IsInf(f.RF, 0) {
+					// A number that is not one must never read as "no rating factor".
+					return fail(fmt.Errorf("member %s: %s rating factor is %v (check its capacity and the settings)", l.Label, f.Sense, f.RF))
+				}
+			}
+			m := MemberResult{Label: l.Label, Kind: l.Kind, Dead: dead, Truss: tr, Existing: ex[k][i], Proposed: pr[k][i], Assessment: a}
+			if k == 0 || governs(m, res.Members[i]) {
+				assess[i] = a
+				res.Members[i] = m
 			}
 		}
-		assess[i] = a
-		res.Members[i] = MemberResult{Label: l.Label, Kind: l.Kind, Dead: dead, Existing: ex[i], Proposed: pr[i], Assessment: a}
 	}
 	res.Summary = rating.Summarise(assess)
 	if w := res.Summary.Worst; w >= 0 {
@@ -258,36 +290,33 @@ func demand(dead float64, e Envelope) rating.Demand {
 	return rating.Demand{Dead: dead, LiveMax: e.Max.Value, LiveMin: e.Min.Value, Impact: e.Impact}
 }
 
-// scenarioEnvelope is the envelope over a scenario's trains, each member's extreme keeping
-// the train that governs it. Values carry the truss share; the dynamic allowance is kept
-// apart as Impact.
-func (w *Screener) scenarioEnvelope(l *envelope.Lines, trains []*envelope.Load, share, impact float64) ([]Envelope, error) {
-	if len(trains) == 0 {
-		return nil, fmt.Errorf("no trains")
-	}
+// trainsEnvelope is the envelope over the trains for which use(k) holds, each member's
+// extreme keeping the train that governs it, for the full train load (share 1) and without
+// the dynamic allowance. No train gives zero extremes.
+func (w *Screener) trainsEnvelope(l *envelope.Lines, trains []*envelope.Load, use func(k int) bool) ([]envelope.Extremes, error) {
 	out := make([]envelope.Extremes, l.Members())
-	opt := envelope.Options{Share: share}
+	first := true
 	for k, ld := range trains {
-		ext, err := w.sweep(l, ld, opt)
+		if !use(k) {
+			continue
+		}
+		ext, err := w.sweep(l, ld, envelope.Options{})
 		if err != nil {
 			return nil, err
 		}
-		if k == 0 {
+		if first {
 			copy(out, ext)
+			first = false
 			continue
 		}
 		envelope.Merge(out, ext)
 	}
-	env := make([]Envelope, len(out))
-	for i, e := range out {
-		env[i] = Envelope{Max: e.Max, Min: e.Min, Impact: impact}
-	}
-	return env, nil
+	return out, nil
 }
 
 // referenceEnvelopes computes the envelopes of the reference trains that the bridge's stored
 // rating factors name.
-func (w *Screener) referenceEnvelopes(b Bridge, s *Settings, l *envelope.Lines, share, impact float64) (map[string][]Envelope, error) {
+func (w *Screener) referenceEnvelopes(b Bridge, s *Settings, l *envelope.Lines, trusses []string, impacts []float64) (map[string][][]Envelope, error) {
 	names := map[string]bool{}
 	for _, m := range b.Members {
 		// A stored rating factor rates a sense without a capacity; one with both capacities
@@ -301,13 +330,13 @@ func (w *Screener) referenceEnvelopes(b Bridge, s *Settings, l *envelope.Lines, 
 		sorted = append(sorted, n)
 	}
 	sort.Strings(sorted)
-	out := map[string][]Envelope{}
+	out := map[string][][]Envelope{}
 	for _, n := range sorted {
 		ld, ok := s.References[n]
 		if !ok {
 			return nil, fmt.Errorf("reference train %q of a stored rating factor is not known (import it, or name a built-in model)", n)
 		}
-		env, err := w.scenarioEnvelope(l, []*envelope.Load{ld}, share, impact)
+		env, err := w.sectionEnvelopes(l, Scenario{Name: n, Trains: []*envelope.Load{ld}}, b, trusses, s.Presence, impacts)
 		if err != nil {
 			return nil, fmt.Errorf("reference train %s: %w", n, err)
 		}

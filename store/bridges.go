@@ -9,7 +9,8 @@ import (
 	"github.com/jackc/pgx/v5"
 )
 
-// Table bridges: sql/migrations/001_inventory.sql; input_version and its triggers, 010.
+// Table bridges: sql/migrations/001_inventory.sql; input_version and its triggers, 010; the
+// cross-section, 012_cross_section.sql.
 
 // Bridge is one span of the inventory, a row of the bridges table. Pointer fields are
 // optional (NULL when nil).
@@ -34,6 +35,17 @@ type Bridge struct {
 	Latitude       *float64   `json:"latitude,omitempty"`
 	Longitude      *float64   `json:"longitude,omitempty"`
 	LastInspected  *time.Time `json:"last_inspected,omitempty"` // a date
+	// The cross-section (012): the distance between the main trusses, m, and each track's
+	// offset from the centre line, m, positive towards truss A; both nil or both set (then
+	// TrussShare and Tracks hold their defaults and are not used).
+	TrussSpacingM *float64  `json:"truss_spacing_m,omitempty"`
+	TrackOffsetsM []float64 `json:"track_offsets_m,omitempty"`
+	// LineSpeedKmh is the line speed, km/h; FirstFrequencyHz the measured first bending
+	// frequency, Hz.
+	LineSpeedKmh     *float64 `json:"line_speed_kmh,omitempty"`
+	FirstFrequencyHz *float64 `json:"first_frequency_hz,omitempty"`
+	// TrussWeightKNPerM is the part of DeadLoadKNPerM that is the truss's own weight.
+	TrussWeightKNPerM float64 `json:"truss_weight_kn_per_m"`
 	// InputVersion is new whenever a screening input of the bridge changes: its geometry and
 	// loads, or any of its members' rows (sql/migrations/010_input_versions.sql). Read only.
 	InputVersion int64 `json:"-"`
@@ -50,24 +62,28 @@ var bridgesTable = table{
 	name: "bridges",
 	key:  []string{"bridge_id"},
 	cols: []string{"name", "line", "chainage_km", "truss_type", "span_m", "panels", "depth_m", "deck", "end_posts",
-		"trusses", "truss_share", "tracks", "dead_load_kn_per_m", "year_built", "latitude", "longitude", "last_inspected"},
+		"trusses", "truss_share", "tracks", "dead_load_kn_per_m", "year_built", "latitude", "longitude", "last_inspected",
+		"truss_spacing_m", "track_offsets_m", "line_speed_kmh", "first_frequency_hz", "truss_weight_kn_per_m"},
 	touch: "updated_at",
 }
 
 // bridgeColumns is the select list matching scanBridge.
 const bridgeColumns = `b.bridge_id, b.name, b.line, b.chainage_km, b.truss_type, b.span_m, b.panels, b.depth_m, b.deck,
 	b.end_posts, b.trusses, b.truss_share, b.tracks, b.dead_load_kn_per_m, b.year_built, b.latitude, b.longitude,
-	b.last_inspected, b.input_version`
+	b.last_inspected, b.truss_spacing_m, b.track_offsets_m, b.line_speed_kmh, b.first_frequency_hz,
+	b.truss_weight_kn_per_m, b.input_version`
 
 func (b Bridge) values() []any {
 	return []any{b.BridgeID, b.Name, b.Line, b.ChainageKM, b.TrussType, b.SpanM, b.Panels, b.DepthM, b.Deck, b.EndPosts,
-		b.Trusses, b.TrussShare, b.Tracks, b.DeadLoadKNPerM, b.YearBuilt, b.Latitude, b.Longitude, b.LastInspected}
+		b.Trusses, b.TrussShare, b.Tracks, b.DeadLoadKNPerM, b.YearBuilt, b.Latitude, b.Longitude, b.LastInspected,
+		b.TrussSpacingM, b.TrackOffsetsM, b.LineSpeedKmh, b.FirstFrequencyHz, b.TrussWeightKNPerM}
 }
 
 func (b *Bridge) pointers() []any {
 	return []any{&b.BridgeID, &b.Name, &b.Line, &b.ChainageKM, &b.TrussType, &b.SpanM, &b.Panels, &b.DepthM, &b.Deck,
 		&b.EndPosts, &b.Trusses, &b.TrussShare, &b.Tracks, &b.DeadLoadKNPerM, &b.YearBuilt, &b.Latitude, &b.Longitude,
-		&b.LastInspected, &b.InputVersion}
+		&b.LastInspected, &b.TrussSpacingM, &b.TrackOffsetsM, &b.LineSpeedKmh, &b.FirstFrequencyHz,
+		&b.TrussWeightKNPerM, &b.InputVersion}
 }
 
 // ErrNotFound is returned (wrapped) when a named row does not exist.

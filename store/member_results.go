@@ -8,7 +8,7 @@ import (
 )
 
 // Table member_results: sql/migrations/002_screening.sql, 003 (the counts), 004, 009 (made
-// anew, keyed by result set).
+// anew, keyed by result set), 012_cross_section.sql (truss and loading cases).
 
 // MemberResult is a row of member_results: one member's live-load envelope under one
 // scenario, in a result set. Forces are kN, positions m.
@@ -35,6 +35,11 @@ type MemberResult struct {
 	MinDirection       string
 	MinFromM, MinToM   pgtype.Float8
 	MaxCount, MinCount pgtype.Int4
+	// Truss is the main truss the row's results are of, "A" or "B": the one that governs
+	// the member (one row per member and scenario). MaxCase and MinCase describe the loading
+	// case behind each extreme: the tracks loaded, their shares, the multiple-presence factor.
+	Truss            string
+	MaxCase, MinCase string
 }
 
 // memberResultColumns are member_results' columns: the COPY that writes the rows, the
@@ -63,6 +68,9 @@ var memberResultColumns = []column[MemberResult]{
 	{"min_to_m", func(r *MemberResult) any { return &r.MinToM }},
 	{"max_count", func(r *MemberResult) any { return &r.MaxCount }},
 	{"min_count", func(r *MemberResult) any { return &r.MinCount }},
+	{"truss", func(r *MemberResult) any { return &r.Truss }},
+	{"max_case", func(r *MemberResult) any { return &r.MaxCase }},
+	{"min_case", func(r *MemberResult) any { return &r.MinCase }},
 }
 
 // MemberResultColumns are the names of member_results' columns, in the order MemberResult
