@@ -135,10 +135,11 @@ type MemberResult struct {
 	Label              string
 	Kind               truss.Kind
 	Dead               float64 // kN
-	// Truss is the main truss whose results these are: the one that governs the member.
-	Truss              string
 	Existing, Proposed Envelope
 	Assessment         rating.Assessment
+
+	// Truss is the main truss whose results these are: the one that governs the member.
+	Truss string
 }
 
 // Result is one bridge's outcome.

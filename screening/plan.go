@@ -57,6 +57,11 @@ type Plan struct {
 	// reversal to count; FlagUnrated flags unrated members.
 	Reversal    float64 `json:"reversal_fraction"`
 	FlagUnrated bool    `json:"flag_unrated"`
+	// The cross-section (plan_section.go): the multiple-presence rule ("": EN 1991-2) and,
+	// per scenario, the tracks (from 1) a train, by the name asked, is kept to.
+	Presence       string           `json:"multiple_presence,omitempty"`
+	ExistingTracks map[string][]int `json:"existing_tracks,omitempty"`
+	ProposedTracks map[string][]int `json:"proposed_tracks,omitempty"`
 }
 
 // Hash is a stable digest of the plan.
@@ -121,6 +126,9 @@ func (p Plan) Settings() (*Settings, error) {
 		}
 	default:
 		return nil, fmt.Errorf("rating method %q: allowed working-stress, factored", p.Method)
+	}
+	if err := p.sectionSettings(s); err != nil {
+		return nil, err
 	}
 	s.Thresholds = rating.Thresholds{Flag: p.Flag, Review: p.Review, WorseFraction: p.Worse,
 		ReversalFraction: p.Reversal, FlagUnrated: p.FlagUnrated}

@@ -21,11 +21,17 @@ type ScreenConfig struct {
 	// JobTimeout bounds one job; RescueAfter hands a job whose worker died to another.
 	JobTimeout  time.Duration `mapstructure:"job_timeout"`
 	RescueAfter time.Duration `mapstructure:"rescue_after"`
+
+	// MultiplePresence is the rule for several tracks loaded at once: en1991-2 or arema.
+	MultiplePresence string `mapstructure:"multiple_presence"`
 }
 
 // ScenarioConfig is one traffic scenario: the envelope over all its trains.
 type ScenarioConfig struct {
 	Trains []string `mapstructure:"trains"`
+	// Tracks keeps trains (by the name in Trains) to given tracks, numbered from 1; a train
+	// not named may run on every track.
+	Tracks map[string][]int `mapstructure:"tracks"`
 }
 
 // RatingConfig selects the rating equation and its factors.
@@ -60,6 +66,7 @@ func setScreenDefaults(v *viper.Viper) {
 		scenarioProposed: map[string]any{"trains": []string{"northmoor-freight-proposed", "eastfell-multiple-unit"}},
 	})
 	v.SetDefault("dynamic", "phi3")
+	v.SetDefault("multiple_presence", "en1991-2")
 	v.SetDefault("rating.method", "working-stress")
 	v.SetDefault("rating.phi", 0.9)
 	v.SetDefault("rating.gamma_d", 1.25)
