@@ -250,10 +250,14 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 	if err != nil {
 		return fail(err)
 	}
+	deads, err := deadForces(t, lines, b)
+	if err != nil {
+		return fail(fmt.Errorf("dead load: %w", err))
+	}
 	res.Members = make([]MemberResult, len(lines.Members))
 	assess := make([]rating.Assessment, len(lines.Members))
 	for i, l := range lines.Members {
-		dead := analysis.DeadLoad(lines.X, l.Ordinates, b.DeadLoadKNPerM)
+		dead := deads[i]
 		inv := b.Members[l.Label]
 		for k, tr := range trusses {
 			exL := rating.Loading{Demand: demand(dead, ex[k][i])}

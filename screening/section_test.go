@@ -193,3 +193,24 @@ func TestTrainsKeptToTracks(t *testing.T) {
 		t.Errorf("heavy train kept to track 1 (B's near track): %g on %s, want %g on B", kept.Proposed.Max.Value, kept.Truss, want)
 	}
 }
+
+// TestTrussWeightInScreen: the truss's own weight w moves part of the dead load from the deck
+// chord's panel points to the top chord's joints. Pratt with vertical end posts, span 48 m, 8
+// panels, depth 6 m (TestDeadLoadSplit in screening/analysis by the method of joints): the
+// vertical L2-U2 gains 3 w of compression, the chord L2-L3 keeps 36 q (M = q·12·36/2 over 6 m).
+func TestTrussWeightInScreen(t *testing.T) {
+	const q, w = 30.0, 8.0
+	s := settings(t, axle("existing axle", 100), axle("proposed axle", 200))
+	b := pratt48(0.5, 1, 0)
+	b.Truss.EndPosts = truss.VerticalPosts
+	b.DeadLoadKNPerM = q
+	before := screening.ScreenBridge(b, s)
+	b.TrussWeightKNPerM = w
+	after := screening.ScreenBridge(b, s)
+	if d := member(t, after, "L2-U2").Dead - member(t, before, "L2-U2").Dead; math.Abs(d+3*w) > 1e-9 {
+		t.Errorf("vertical changed by %g, want %g", d, -3*w)
+	}
+	if c := member(t, after, "L2-L3").Dead; math.Abs(c-36*q) > 1e-9 || math.Abs(member(t, before, "L2-L3").Dead-36*q) > 1e-9 {
+		t.Errorf("chord %g, want %g either way", c, 36*q)
+	}
+}
