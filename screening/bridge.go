@@ -86,6 +86,8 @@ type Settings struct {
 	Thresholds rating.Thresholds
 	// Presence is the multiple-presence rule for bridges with a cross-section ("": EN 1991-2).
 	Presence Presence
+	// Lengths is the rule for each member's determinant length (dynamic.go; "": by member).
+	Lengths string
 }
 
 // ShareTrains makes the trains that are defined alike, in either scenario or among the
@@ -140,6 +142,8 @@ type MemberResult struct {
 
 	// Truss is the main truss whose results these are: the one that governs the member.
 	Truss string
+	// Dynamic is the member's dynamic allowance and its inputs (dynamic.go).
+	Dynamic MemberDynamic
 }
 
 // Result is one bridge's outcome.
@@ -151,6 +155,9 @@ type Result struct {
 	Summary rating.Bridge
 	// Governing is the proposed-traffic extreme behind the worst member's lowest RF.
 	Governing *Extreme
+
+	// NoRocking says AREMA's rocking term was left out: the truss spacing is not known.
+	NoRocking bool
 }
 
 // Screener screens bridges one after another, reusing its buffers; one per goroutine.
@@ -229,14 +236,15 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 	if err != nil {
 		return fail(fmt.Errorf("influence lines: %w", err))
 	}
-	impact := s.Dynamic.Factor(t.SpanM())
-	if !(impact >= 1) || math.IsInf(impact, 0) {
-		return fail(fmt.Errorf("dynamic allowance %s gives 1 + I = %v at span %g m", s.Dynamic, impact, t.SpanM()))
+	dyn, err := memberDynamics(lines, b, s.Dynamic, s.Lengths)
+	if err != nil {
+		return fail(err)
 	}
 	trusses := b.screenedTrusses(s)
 	impacts := make([]float64, len(lines.Members))
-	for i := range impacts {
-		impacts[i] = impact
+	for i, d := range dyn {
+		impacts[i] = d.Impact
+		res.NoRocking = res.NoRocking || d.NoRocking
 	}
 	ex, err := w.sectionEnvelopes(el, s.Existing, b, trusses, s.Presence, impacts)
 	if err != nil {
@@ -273,7 +281,7 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 					return fail(fmt.Errorf("member %s: %s rating factor is %v (check its capacity and the settings)", l.Label, f.Sense, f.RF))
 				}
 			}
-			m := MemberResult{Label: l.Label, Kind: l.Kind, Dead: dead, Truss: tr, Existing: ex[k][i], Proposed: pr[k][i], Assessment: a}
+			m := MemberResult{Label: l.Label, Kind: l.Kind, Dead: dead, Truss: tr, Existing: ex[k][i], Proposed: pr[k][i], Assessment: a, Dynamic: dyn[i]}
 			if k == 0 || governs(m, res.Members[i]) {
 				assess[i] = a
 				res.Members[i] = m

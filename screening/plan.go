@@ -62,6 +62,8 @@ type Plan struct {
 	Presence       string           `json:"multiple_presence,omitempty"`
 	ExistingTracks map[string][]int `json:"existing_tracks,omitempty"`
 	ProposedTracks map[string][]int `json:"proposed_tracks,omitempty"`
+	// Lengths is the rule for members' determinant lengths ("": by member; dynamic.go).
+	Lengths string `json:"dynamic_lengths,omitempty"`
 }
 
 // Hash is a stable digest of the plan.

@@ -16,6 +16,9 @@ func (p Plan) sectionSettings(s *Settings) error {
 	if s.Presence, err = ParsePresence(p.Presence); err != nil {
 		return fmt.Errorf("configuration key multiple_presence: %w", err)
 	}
+	if s.Lengths, err = ParseLengths(p.Lengths); err != nil {
+		return fmt.Errorf("configuration key %w", err)
+	}
 	if s.Existing.OnTracks, err = onTracks("existing", p.Existing, p.ExistingTracks); err != nil {
 		return err
 	}

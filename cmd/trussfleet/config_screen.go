@@ -24,6 +24,8 @@ type ScreenConfig struct {
 
 	// MultiplePresence is the rule for several tracks loaded at once: en1991-2 or arema.
 	MultiplePresence string `mapstructure:"multiple_presence"`
+	// DynamicLengths is the rule for members' determinant lengths: by-member or span.
+	DynamicLengths string `mapstructure:"dynamic_lengths"`
 }
 
 // ScenarioConfig is one traffic scenario: the envelope over all its trains.
@@ -67,6 +69,7 @@ func setScreenDefaults(v *viper.Viper) {
 	})
 	v.SetDefault("dynamic", "phi3")
 	v.SetDefault("multiple_presence", "en1991-2")
+	v.SetDefault("dynamic_lengths", "by-member")
 	v.SetDefault("rating.method", "working-stress")
 	v.SetDefault("rating.phi", 0.9)
 	v.SetDefault("rating.gamma_d", 1.25)

@@ -20,6 +20,7 @@ func buildPlan(ctx context.Context, db *store.DB, c Config) (screening.Plan, err
 		Flag: s.Thresholds.Flag, Review: s.Thresholds.Review, Worse: s.Thresholds.WorseFraction,
 		Reversal: s.Thresholds.ReversalFraction, FlagUnrated: s.Thresholds.FlagUnrated,
 		Presence:       s.MultiplePresence,
+		Lengths:        s.DynamicLengths,
 		ExistingTracks: s.Scenarios[scenarioExisting].Tracks,
 		ProposedTracks: s.Scenarios[scenarioProposed].Tracks,
 	}
