@@ -57,6 +57,8 @@ type Scenario struct {
 	Trains []*envelope.Load
 	// OnTracks keeps trains to given tracks (section.go); nil: every train on every track.
 	OnTracks TrackTrains
+	// Speeds gives trains a speed (speed.go), by their place in Trains; nil: none has one.
+	Speeds []TrainSpeed
 }
 
 // NewScenario prepares a scenario's trains.
@@ -130,6 +132,9 @@ type Envelope struct {
 	Impact   float64 // 1 + I
 	// MaxCase and MinCase are the loading cases behind Max and Min (section.go).
 	MaxCase, MinCase Case
+	// MaxSpeed and MinSpeed are the Annex C factors of the trains behind Max and Min where
+	// they run at a speed (speed.go); zero otherwise.
+	MaxSpeed, MinSpeed SpeedFactor
 }
 
 // MemberResult is one member's outcome.
@@ -166,6 +171,8 @@ type Screener struct {
 	// swept holds the current bridge's envelope under each train swept so far: a train in
 	// both scenarios (or also a reference train) is swept once per bridge.
 	swept []sweptTrain
+	// scaled holds a train's extremes scaled by its speed factor (speed.go), while merged.
+	scaled []envelope.Extremes
 }
 
 type sweptTrain struct {
@@ -241,20 +248,20 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 		return fail(err)
 	}
 	trusses := b.screenedTrusses(s)
-	impacts := make([]float64, len(lines.Members))
+	md := memberDyn{d: s.Dynamic, spanM: t.SpanM(), members: dyn, impacts: make([]float64, len(lines.Members))}
 	for i, d := range dyn {
-		impacts[i] = d.Impact
+		md.impacts[i] = d.Impact
 		res.NoRocking = res.NoRocking || d.NoRocking
 	}
-	ex, err := w.sectionEnvelopes(el, s.Existing, b, trusses, s.Presence, impacts)
+	ex, err := w.sectionEnvelopes(el, s.Existing, b, trusses, s.Presence, md)
 	if err != nil {
 		return fail(fmt.Errorf("existing traffic: %w", err))
 	}
-	pr, err := w.sectionEnvelopes(el, s.Proposed, b, trusses, s.Presence, impacts)
+	pr, err := w.sectionEnvelopes(el, s.Proposed, b, trusses, s.Presence, md)
 	if err != nil {
 		return fail(fmt.Errorf("proposed traffic: %w", err))
 	}
-	refs, err := w.referenceEnvelopes(b, s, el, trusses, impacts)
+	refs, err := w.referenceEnvelopes(b, s, el, trusses, md)
 	if err != nil {
 		return fail(err)
 	}
@@ -305,8 +312,9 @@ func demand(dead float64, e Envelope) rating.Demand {
 
 // trainsEnvelope is the envelope over the trains for which use(k) holds, each member's
 // extreme keeping the train that governs it, for the full train load (share 1) and without
-// the dynamic allowance. No train gives zero extremes.
-func (w *Screener) trainsEnvelope(l *envelope.Lines, trains []*envelope.Load, use func(k int) bool) ([]envelope.Extremes, error) {
+// the dynamic allowance, but for trains at speed (speed[k] not nil: scaleBySpeed). No train
+// gives zero extremes.
+func (w *Screener) trainsEnvelope(l *envelope.Lines, trains []*envelope.Load, use func(k int) bool, speed [][]SpeedFactor, impacts []float64) ([]envelope.Extremes, error) {
 	out := make([]envelope.Extremes, l.Members())
 	first := true
 	for k, ld := range trains {
@@ -316,6 +324,10 @@ func (w *Screener) trainsEnvelope(l *envelope.Lines, trains []*envelope.Load, us
 		ext, err := w.sweep(l, ld, envelope.Options{})
 		if err != nil {
 			return nil, err
+		}
+		if speed != nil && speed[k] != nil {
+			w.scaled = scaleBySpeed(w.scaled, ext, speed[k], impacts)
+			ext = w.scaled
 		}
 		if first {
 			copy(out, ext)
@@ -329,7 +341,7 @@ func (w *Screener) trainsEnvelope(l *envelope.Lines, trains []*envelope.Load, us
 
 // referenceEnvelopes computes the envelopes of the reference trains that the bridge's stored
 // rating factors name.
-func (w *Screener) referenceEnvelopes(b Bridge, s *Settings, l *envelope.Lines, trusses []string, impacts []float64) (map[string][][]Envelope, error) {
+func (w *Screener) referenceEnvelopes(b Bridge, s *Settings, l *envelope.Lines, trusses []string, md memberDyn) (map[string][][]Envelope, error) {
 	names := map[string]bool{}
 	for _, m := range b.Members {
 		// A stored rating factor rates a sense without a capacity; one with both capacities
@@ -349,7 +361,7 @@ func (w *Screener) referenceEnvelopes(b Bridge, s *Settings, l *envelope.Lines, 
 		if !ok {
 			return nil, fmt.Errorf("reference train %q of a stored rating factor is not known (import it, or name a built-in model)", n)
 		}
-		env, err := w.sectionEnvelopes(l, Scenario{Name: n, Trains: []*envelope.Load{ld}}, b, trusses, s.Presence, impacts)
+		env, err := w.sectionEnvelopes(l, Scenario{Name: n, Trains: []*envelope.Load{ld}}, b, trusses, s.Presence, md)
 		if err != nil {
 			return nil, fmt.Errorf("reference train %s: %w", n, err)
 		}

@@ -64,6 +64,12 @@ type Plan struct {
 	ProposedTracks map[string][]int `json:"proposed_tracks,omitempty"`
 	// Lengths is the rule for members' determinant lengths ("": by member; dynamic.go).
 	Lengths string `json:"dynamic_lengths,omitempty"`
+	// Trains at speed (speed.go), by the name asked, per scenario: a speed in km/h, or the
+	// bridge's line speed.
+	ExistingSpeeds    map[string]float64 `json:"existing_speeds_kmh,omitempty"`
+	ProposedSpeeds    map[string]float64 `json:"proposed_speeds_kmh,omitempty"`
+	ExistingLineSpeed []string           `json:"existing_at_line_speed,omitempty"`
+	ProposedLineSpeed []string           `json:"proposed_at_line_speed,omitempty"`
 }
 
 // Hash is a stable digest of the plan.

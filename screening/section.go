@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/traffic"
 )
 
 // The cross-section: two main trusses TrussSpacingM apart, tracks at their offsets from the
@@ -278,14 +279,24 @@ func (tt TrackTrains) restricted(trains, n int) bool {
 // that may run on it, combined with the truss's shares of the tracks by the presence rule. A
 // bridge without a cross-section loads every track fully with the same trains and the truss
 // share (LiveShare), as it always has. Values leave the dynamic allowance apart, as Impact.
-func (w *Screener) sectionEnvelopes(l *envelope.Lines, sc Scenario, b Bridge, trusses []string, rule Presence, impacts []float64) ([][]Envelope, error) {
+func (w *Screener) sectionEnvelopes(l *envelope.Lines, sc Scenario, b Bridge, trusses []string, rule Presence, md memberDyn) ([][]Envelope, error) {
 	if len(sc.Trains) == 0 {
 		return nil, fmt.Errorf("no trains")
 	}
 	if rule == "" {
 		rule = PresenceEN
 	}
-	all, err := w.trainsEnvelope(l, sc.Trains, func(int) bool { return true })
+	impacts := md.impacts
+	var speed [][]SpeedFactor
+	for k := range sc.Trains {
+		if f := speedFactors(sc, k, b, md.d, md.spanM, md.members); f != nil {
+			if speed == nil {
+				speed = make([][]SpeedFactor, len(sc.Trains))
+			}
+			speed[k] = f
+		}
+	}
+	all, err := w.trainsEnvelope(l, sc.Trains, func(int) bool { return true }, speed, impacts)
 	if err != nil {
 		return nil, err
 	}
@@ -298,6 +309,7 @@ func (w *Screener) sectionEnvelopes(l *envelope.Lines, sc Scenario, b Bridge, tr
 			env[i].Max.Value *= share
 			env[i].Min.Value *= share
 		}
+		withSpeeds(env, speed)
 		for k := range out {
 			out[k] = env
 		}
@@ -308,7 +320,7 @@ func (w *Screener) sectionEnvelopes(l *envelope.Lines, sc Scenario, b Bridge, tr
 	for t := range perTrack {
 		perTrack[t] = all
 		if sc.OnTracks.restricted(len(sc.Trains), n) {
-			if perTrack[t], err = w.trainsEnvelope(l, sc.Trains, func(k int) bool { return sc.OnTracks.allows(k, t+1) }); err != nil {
+			if perTrack[t], err = w.trainsEnvelope(l, sc.Trains, func(k int) bool { return sc.OnTracks.allows(k, t+1) }, speed, impacts); err != nil {
 				return nil, err
 			}
 		}
@@ -318,6 +330,7 @@ func (w *Screener) sectionEnvelopes(l *envelope.Lines, sc Scenario, b Bridge, tr
 		for i := range out[k] {
 			out[k][i].Impact = impacts[i]
 		}
+		withSpeeds(out[k], speed)
 	}
 	return out, nil
 }
@@ -365,4 +378,29 @@ func (b Bridge) checkSection() error {
 		}
 	}
 	return nil
+}
+
+// memberDyn is a bridge's dynamic allowance member by member, for the envelopes.
+type memberDyn struct {
+	d       traffic.Dynamic
+	spanM   float64
+	members []MemberDynamic
+	impacts []float64 // members[i].Impact
+}
+
+// withSpeeds notes on each extreme the speed factor of the train behind it, if it has one.
+func withSpeeds(env []Envelope, speed [][]SpeedFactor) {
+	for _, f := range speed {
+		for i := range env {
+			if f == nil {
+				continue
+			}
+			if env[i].Max.Train == f[i].Train {
+				env[i].MaxSpeed = f[i]
+			}
+			if env[i].Min.Train == f[i].Train {
+				env[i].MinSpeed = f[i]
+			}
+		}
+	}
 }

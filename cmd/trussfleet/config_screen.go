@@ -34,6 +34,10 @@ type ScenarioConfig struct {
 	// Tracks keeps trains (by the name in Trains) to given tracks, numbered from 1; a train
 	// not named may run on every track.
 	Tracks map[string][]int `mapstructure:"tracks"`
+	// SpeedsKmh gives trains a speed (EN 1991-2 Annex C); AtLineSpeed runs trains at each
+	// bridge's line speed.
+	SpeedsKmh   map[string]float64 `mapstructure:"speeds_kmh"`
+	AtLineSpeed []string           `mapstructure:"at_line_speed"`
 }
 
 // RatingConfig selects the rating equation and its factors.

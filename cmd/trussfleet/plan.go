@@ -19,10 +19,14 @@ func buildPlan(ctx context.Context, db *store.DB, c Config) (screening.Plan, err
 		GammaL: s.Rating.GammaL, GammaDFav: s.Rating.GammaDFavourable,
 		Flag: s.Thresholds.Flag, Review: s.Thresholds.Review, Worse: s.Thresholds.WorseFraction,
 		Reversal: s.Thresholds.ReversalFraction, FlagUnrated: s.Thresholds.FlagUnrated,
-		Presence:       s.MultiplePresence,
-		Lengths:        s.DynamicLengths,
-		ExistingTracks: s.Scenarios[scenarioExisting].Tracks,
-		ProposedTracks: s.Scenarios[scenarioProposed].Tracks,
+		Presence:          s.MultiplePresence,
+		Lengths:           s.DynamicLengths,
+		ExistingSpeeds:    s.Scenarios[scenarioExisting].SpeedsKmh,
+		ProposedSpeeds:    s.Scenarios[scenarioProposed].SpeedsKmh,
+		ExistingLineSpeed: s.Scenarios[scenarioExisting].AtLineSpeed,
+		ProposedLineSpeed: s.Scenarios[scenarioProposed].AtLineSpeed,
+		ExistingTracks:    s.Scenarios[scenarioExisting].Tracks,
+		ProposedTracks:    s.Scenarios[scenarioProposed].Tracks,
 	}
 	if _, err := traffic.ParseDynamic(s.Dynamic); err != nil {
 		return p, fmt.Errorf("configuration key dynamic: %w", err)

@@ -22,7 +22,7 @@ type AnnexC struct {
 }
 
 // RealTrainFactor gives the Annex C factor for a train at vMPerS over a determinant length
-// lM with first bending frequency n0Hz; standardTrack selects the full phi''.
+// lM with first bending frequency n0Hz; standardTrack selects the full phi”.
 func RealTrainFactor(vMPerS, lM, n0Hz float64, standardTrack bool) AnnexC {
 	a := AnnexC{SpeedMPerS: vMPerS, LengthM: lM, FrequencyHz: n0Hz}
 	a.K = vMPerS / (2 * lM * n0Hz)

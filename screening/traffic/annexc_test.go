@@ -7,9 +7,9 @@ import (
 
 // TestRealTrainFactor: EN 1991-2 Annex C (from memory), computed by hand for two spans at two
 // speeds. For example L = 12 m, n0 = 8 Hz, 60 km/h = 16.667 m/s: K = 16.667/(2·12·8) =
-// 0.086806, phi' = K/(1 - K + K^4) = 0.095051; alpha = 16.667/22 = 0.75758, phi'' = alpha
+// 0.086806, phi' = K/(1 - K + K^4) = 0.095051; alpha = 16.667/22 = 0.75758, phi” = alpha
 // (0.56 e^-1.44 + 0.50 (12·8/80 - 1) e^-0.36) = 0.75758 (0.13268 + 0.06977) = 0.153369;
-// 1 + phi' + phi''/2 = 1.171736, 1 + phi' + phi'' = 1.248420.
+// 1 + phi' + phi”/2 = 1.171736, 1 + phi' + phi” = 1.248420.
 func TestRealTrainFactor(t *testing.T) {
 	tests := []struct {
 		lM, n0, kmh                     float64
