@@ -232,7 +232,8 @@ func (e *resultEncoder) memberResult(setID int64, scenario string, m screening.M
 	r := &e.mr
 	*r = store.MemberResult{SetID: setID, Scenario: scenario, Member: m.Label, Kind: string(m.Kind),
 		DeadKN: m.Dead, LiveMaxKN: env.Max.Value, LiveMinKN: env.Min.Value, Impact: env.Impact,
-		Truss: m.Truss, MaxCase: env.MaxCase.String(), MinCase: env.MinCase.String()}
+		Truss: m.Truss, MaxCase: env.MaxCase.String(), MinCase: env.MinCase.String(), Dynamic: screening.DynamicText(m, env),
+		MaxShare: env.MaxShare, MinShare: env.MinShare}
 	for _, f := range rfs {
 		if f.Sense == rating.Tension {
 			r.RFTension = finite(f.RF)
@@ -281,6 +282,8 @@ func outcome(r screening.Result, hash string, set *int64) store.BridgeOutcome {
 	}
 	s := r.Summary
 	o.Status = "done"
+	noRocking := r.NoRocking
+	o.NoRocking = &noRocking
 	if s.Worst >= 0 {
 		o.WorstMember = &r.Members[s.Worst].Label
 	}
@@ -300,6 +303,7 @@ func outcome(r screening.Result, hash string, set *int64) store.BridgeOutcome {
 		o.GoverningTrain, o.GoverningSense, o.GoverningDirection = g.Train, s.WorstPr.Sense.String(), g.Direction.String()
 		o.GoverningHeadM, o.GoverningFromM, o.GoverningToM = num(g.HeadM), num(g.LoadedFromM), num(g.LoadedToM)
 	}
+	o.GoverningCase = governingCase(r)
 	return o
 }
 
@@ -322,4 +326,17 @@ func rfOrNil(f rating.Factor, ok bool) *float64 {
 		return nil
 	}
 	return num(f.RF)
+}
+
+// governingCase is the loading case of the worst member's governing proposed extreme.
+func governingCase(r screening.Result) string {
+	w := r.Summary.Worst
+	if w < 0 {
+		return ""
+	}
+	p := r.Members[w].Proposed
+	if r.Summary.WorstPr.Sense == rating.Compression {
+		return p.MinCase.String()
+	}
+	return p.MaxCase.String()
 }

@@ -66,7 +66,8 @@ func memberResultRow(setID int64, scenario string, m screening.MemberResult, e s
 		placementNum(e.Max.Loaded, e.Max.LoadedFromM), placementNum(e.Max.Loaded, e.Max.LoadedToM),
 		e.Min.Train, placementNum(e.Min.Loaded, e.Min.HeadM), dirText(e.Min.Loaded, e.Min.Direction.String()),
 		placementNum(e.Min.Loaded, e.Min.LoadedFromM), placementNum(e.Min.Loaded, e.Min.LoadedToM),
-		countOf(e.Max), countOf(e.Min)}
+		countOf(e.Max), countOf(e.Min), m.Truss, e.MaxCase.String(), e.MinCase.String(), screening.DynamicText(m, e),
+		e.MaxShare, e.MinShare}
 }
 
 // setIDs gives n set ids above 32 bits, as a long-lived database reaches.
@@ -106,7 +107,8 @@ var (
 	memberResultOIDs = []uint32{pgtype.Int8OID, pgtype.TextOID, pgtype.TextOID, pgtype.TextOID,
 		pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID,
 		pgtype.TextOID, pgtype.TextOID, pgtype.Float8OID, pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID,
-		pgtype.TextOID, pgtype.Float8OID, pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Int4OID, pgtype.Int4OID}
+		pgtype.TextOID, pgtype.Float8OID, pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Int4OID, pgtype.Int4OID,
+		pgtype.TextOID, pgtype.TextOID, pgtype.TextOID, pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID}
 	memberAssessmentOIDs = []uint32{pgtype.Int8OID, pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID,
 		pgtype.TextOID, pgtype.Float8OID, pgtype.TextArrayOID}
 )

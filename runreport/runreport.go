@@ -75,6 +75,7 @@ func Bridge(ctx context.Context, db *store.DB, run report.Run, bridgeID string) 
 	}
 	out := report.Bridge{Row: row, TrussShare: b.TrussShare, Tracks: b.Tracks, DeadLoadKNPerM: b.DeadLoadKNPerM,
 		Truss: truss.Params{Type: b.TrussType, SpanM: b.SpanM, Panels: b.Panels, DepthM: b.DepthM, Deck: b.Deck, EndPosts: b.EndPosts}}
+	out.Section = section(b)
 	if row.Status == "failed" {
 		return out, nil
 	}
@@ -144,7 +145,8 @@ func storedMembers(ctx context.Context, db *store.DB, run report.Run, bridgeID s
 			m = &report.Member{Label: r.Member}
 			members[r.Member] = m
 		}
-		m.Kind, m.DeadKN = r.Kind, r.DeadKN
+		m.Kind, m.DeadKN, m.Truss = r.Kind, r.DeadKN, r.Truss
+		s.MaxCase, s.MinCase, s.Dynamic, s.MaxShare, s.MinShare = r.MaxCase, r.MinCase, r.Dynamic, r.MaxShare, r.MinShare
 		if r.Scenario == "existing" {
 			m.Existing = s
 		} else {
@@ -176,4 +178,19 @@ func ptr(v pgtype.Float8) *float64 {
 		return nil
 	}
 	return &v.Float64
+}
+
+// section is a stored bridge's cross-section for its page.
+func section(b store.Bridge) report.Section {
+	s := report.Section{TrackOffsetsM: b.TrackOffsetsM, TrussWeightKNPerM: b.TrussWeightKNPerM}
+	if b.TrussSpacingM != nil {
+		s.TrussSpacingM = *b.TrussSpacingM
+	}
+	if b.LineSpeedKmh != nil {
+		s.LineSpeedKmh = *b.LineSpeedKmh
+	}
+	if b.FirstFrequencyHz != nil {
+		s.FirstFrequencyHz = *b.FirstFrequencyHz
+	}
+	return s
 }

@@ -135,6 +135,11 @@ type Envelope struct {
 	// MaxSpeed and MinSpeed are the Annex C factors of the trains behind Max and Min where
 	// they run at a speed (speed.go); zero otherwise.
 	MaxSpeed, MinSpeed SpeedFactor
+	// MaxShare and MinShare are the factors on the governing train's own force at its
+	// placement (share 1, no allowance) that give Max and Min: the shares and presence
+	// factors of the loaded tracks (exact where the same train governs every track) and a
+	// train's speed factor over Impact; 0 where no train loads the member in that sense.
+	MaxShare, MinShare float64
 }
 
 // MemberResult is one member's outcome.

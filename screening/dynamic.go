@@ -3,6 +3,8 @@ package screening
 import (
 	"fmt"
 	"math"
+	"strconv"
+	"strings"
 
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/traffic"
@@ -50,6 +52,8 @@ type MemberDynamic struct {
 	// Rocking says AREMA's rocking term is in Impact; NoRocking that it could not be, as the
 	// truss spacing is not known.
 	Rocking, NoRocking bool
+	// Basis says in words which allowance, which length and why.
+	Basis string
 }
 
 // localPoint gives the deck panel point whose load alone a member carries (its influence line
@@ -74,6 +78,7 @@ func memberDynamics(lines *analysis.Lines, b Bridge, d traffic.Dynamic, rule str
 	out := make([]MemberDynamic, len(lines.Members))
 	for i, l := range lines.Members {
 		md := MemberDynamic{LengthM: span}
+		why := "span"
 		dd := d
 		k := localPoint(l.Ordinates)
 		md.Local = k >= 0
@@ -85,13 +90,13 @@ func memberDynamics(lines *analysis.Lines, b Bridge, d traffic.Dynamic, rule str
 			if k+1 < len(lines.X) {
 				panel = max(panel, lines.X[k+1]-lines.X[k])
 			}
-			md.LengthM = panel
+			md.LengthM, why = panel, "hanger: longer adjacent panel"
 			if (d.Kind == traffic.Phi2 || d.Kind == traffic.Phi3) && b.TrussSpacingM > 0 {
-				md.LengthM = 2 * b.TrussSpacingM
+				md.LengthM, why = 2*b.TrussSpacingM, "hanger: 2 × truss spacing"
 			}
 		}
 		if d.LengthM > 0 {
-			md.LengthM = d.LengthM
+			md.LengthM, why = d.LengthM, "set"
 		}
 		dd.LengthM = md.LengthM
 		if d.Kind == traffic.AREMASteel {
@@ -101,10 +106,30 @@ func memberDynamics(lines *analysis.Lines, b Bridge, d traffic.Dynamic, rule str
 			md.Rocking, md.NoRocking = dd.SpacingM > 0, dd.SpacingM == 0
 		}
 		md.Impact = dd.Factor(span)
+		kind, _, _ := strings.Cut(d.String(), ":")
+		md.Basis = fmt.Sprintf("%s, length %s m (%s)", kind, strconv.FormatFloat(md.LengthM, 'f', 2, 64), why)
+		switch {
+		case md.Rocking:
+			md.Basis += fmt.Sprintf(", rocking with trusses %s m apart", strconv.FormatFloat(dd.SpacingM, 'f', 2, 64))
+		case md.NoRocking:
+			md.Basis += ", no rocking term (truss spacing not known)"
+		}
 		if !(md.Impact >= 1) || math.IsInf(md.Impact, 0) {
 			return nil, fmt.Errorf("dynamic allowance %s gives 1 + I = %v for member %s (length %g m)", d, md.Impact, l.Label, md.LengthM)
 		}
 		out[i] = md
 	}
 	return out, nil
+}
+
+// DynamicText describes a member's allowance under a scenario: its basis, and the Annex C
+// factor of the trains at speed behind its extremes, if any ("" for none).
+func DynamicText(m MemberResult, e Envelope) string {
+	out := m.Dynamic.Basis
+	for _, f := range []SpeedFactor{e.MaxSpeed, e.MinSpeed} {
+		if f.Factor > 0 && !strings.Contains(out, "train "+f.Train+" ") {
+			out += "; " + f.String()
+		}
+	}
+	return out
 }

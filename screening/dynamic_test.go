@@ -68,3 +68,14 @@ func TestMemberDynamics(t *testing.T) {
 		}
 	}
 }
+
+// TestDynamicText: the member's allowance is described with its length and why.
+func TestDynamicText(t *testing.T) {
+	s := settings(t, axle("existing axle", 100), axle("proposed axle", 200))
+	s.Dynamic = traffic.Dynamic{Kind: traffic.AREMASteel}
+	res := screening.ScreenBridge(pratt48(0, 0, 5, 0), s)
+	h := member(t, res, "L1-U1")
+	if got, want := screening.DynamicText(h, h.Proposed), "arema, length 6.00 m (hanger: longer adjacent panel), rocking with trusses 5.00 m apart"; got != want {
+		t.Errorf("hanger: %q, want %q", got, want)
+	}
+}

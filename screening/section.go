@@ -219,11 +219,15 @@ func combineTracks(truss string, shares []float64, perTrack [][]envelope.Extreme
 					ext = perTrack[0][i].Min
 				}
 			}
+			share := 0.0
+			if ext.Value != 0 {
+				share = float64(sense) * v / ext.Value
+			}
 			ext.Value = float64(sense) * v
 			if sense > 0 {
-				out[i].Max, out[i].MaxCase = ext, cs
+				out[i].Max, out[i].MaxCase, out[i].MaxShare = ext, cs, share
 			} else {
-				out[i].Min, out[i].MinCase = ext, cs
+				out[i].Min, out[i].MinCase, out[i].MinShare = ext, cs, share
 			}
 		}
 	}
@@ -305,11 +309,11 @@ func (w *Screener) sectionEnvelopes(l *envelope.Lines, sc Scenario, b Bridge, tr
 		share, cs := b.LiveShare(), legacyCase(b)
 		env := make([]Envelope, len(all))
 		for i, e := range all {
-			env[i] = Envelope{Max: e.Max, Min: e.Min, Impact: impacts[i], MaxCase: cs, MinCase: cs}
+			env[i] = Envelope{Max: e.Max, Min: e.Min, Impact: impacts[i], MaxCase: cs, MinCase: cs, MaxShare: share, MinShare: share}
 			env[i].Max.Value *= share
 			env[i].Min.Value *= share
 		}
-		withSpeeds(env, speed)
+		withSpeeds(env, speed, impacts)
 		for k := range out {
 			out[k] = env
 		}
@@ -330,7 +334,7 @@ func (w *Screener) sectionEnvelopes(l *envelope.Lines, sc Scenario, b Bridge, tr
 		for i := range out[k] {
 			out[k][i].Impact = impacts[i]
 		}
-		withSpeeds(out[k], speed)
+		withSpeeds(out[k], speed, impacts)
 	}
 	return out, nil
 }
@@ -388,8 +392,9 @@ type memberDyn struct {
 	impacts []float64 // members[i].Impact
 }
 
-// withSpeeds notes on each extreme the speed factor of the train behind it, if it has one.
-func withSpeeds(env []Envelope, speed [][]SpeedFactor) {
+// withSpeeds notes on each extreme the speed factor of the train behind it, if it has one,
+// and takes that factor over 1 + I into the extreme's share.
+func withSpeeds(env []Envelope, speed [][]SpeedFactor, impacts []float64) {
 	for _, f := range speed {
 		for i := range env {
 			if f == nil {
@@ -397,9 +402,11 @@ func withSpeeds(env []Envelope, speed [][]SpeedFactor) {
 			}
 			if env[i].Max.Train == f[i].Train {
 				env[i].MaxSpeed = f[i]
+				env[i].MaxShare *= f[i].Factor / impacts[i]
 			}
 			if env[i].Min.Train == f[i].Train {
 				env[i].MinSpeed = f[i]
+				env[i].MinShare *= f[i].Factor / impacts[i]
 			}
 		}
 	}

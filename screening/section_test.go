@@ -98,6 +98,10 @@ func TestSymmetricTwoTracksAsAverageShare(t *testing.T) {
 				t.Errorf("%s: %g with the cross-section, %g with the average share", m.Label, pair[0], pair[1])
 			}
 		}
+		// lever rule: the shares of both tracks sum to 1 = 0.5 × 2 tracks
+		if m.Proposed.Max.Value > 0 && (math.Abs(m.Proposed.MaxShare-1) > 1e-12 || l.Proposed.MaxShare != 1) {
+			t.Errorf("%s: share %g with the cross-section, %g with the average share; want 1", m.Label, m.Proposed.MaxShare, l.Proposed.MaxShare)
+		}
 		if len(m.Proposed.MaxCase.Tracks) == 1 && m.Proposed.Max.Value > 0 {
 			t.Errorf("%s: case %v loads one track; both load it", m.Label, m.Proposed.MaxCase)
 		}

@@ -1,6 +1,8 @@
 package screening
 
 import (
+	"fmt"
+
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 )
@@ -76,4 +78,15 @@ func scaleBySpeed(dst, ext []envelope.Extremes, f []SpeedFactor, impacts []float
 		dst[i].Min.Value *= r
 	}
 	return dst
+}
+
+// String reads like "train X at 160 km/h: Annex C, L 48.00 m, n0 3.00 Hz (measured), K 0.154,
+// phi' 0.182, phi” 0.001: 1.184".
+func (f SpeedFactor) String() string {
+	src := "lower or upper bound, the larger factor"
+	if f.Measured {
+		src = "measured"
+	}
+	return fmt.Sprintf("train %s at %.0f km/h: Annex C, L %.2f m, n0 %.2f Hz (%s), K %.3f, phi' %.3f, phi'' %.3f: %.3f",
+		f.Train, f.SpeedMPerS*3.6, f.LengthM, f.FrequencyHz, src, f.K, f.PhiP, f.PhiPP, f.Factor)
 }

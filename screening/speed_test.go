@@ -10,7 +10,7 @@ import (
 
 // TestTrainAtSpeed: the single axle P over L2 of the 48 m Pratt gives L2-L3 0.5 × 1.5 P with
 // one centred track (method of sections); a train at 160 km/h over the span of measured
-// n0 = 3 Hz takes, at L_phi = 48 m, 1 + phi' + phi'' = 1.183620 on standard track (EN 1991-2
+// n0 = 3 Hz takes, at L_phi = 48 m, 1 + phi' + phi” = 1.183620 on standard track (EN 1991-2
 // Annex C from memory, by hand in traffic's TestRealTrainFactor), instead of Phi3.
 func TestTrainAtSpeed(t *testing.T) {
 	const p = 200.0
@@ -29,6 +29,10 @@ func TestTrainAtSpeed(t *testing.T) {
 	}
 	if f := m.Proposed.MaxSpeed; !f.Measured || f.FrequencyHz != 3 || math.Abs(f.SpeedMPerS-160/3.6) > 1e-12 || f.Train != "proposed axle" {
 		t.Errorf("speed factor kept %+v", f)
+	}
+	// the train's own force, 1.5 P over L2, times the share gives the live value
+	if got := m.Proposed.MaxShare * 1.5 * p; math.Abs(got-m.Proposed.Max.Value) > 1e-9 {
+		t.Errorf("share %g gives %g, live value %g", m.Proposed.MaxShare, got, m.Proposed.Max.Value)
 	}
 	// Not measured: the bound giving the larger factor.
 	b.FirstFrequencyHz = 0

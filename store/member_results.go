@@ -40,6 +40,11 @@ type MemberResult struct {
 	// case behind each extreme: the tracks loaded, their shares, the multiple-presence factor.
 	Truss            string
 	MaxCase, MinCase string
+	// Dynamic describes the member's dynamic allowance: which, its length and why.
+	Dynamic string
+	// MaxShare and MinShare are the factors on the governing train's own force at its
+	// placement that give each extreme (0: none, or a row from before migration 012).
+	MaxShare, MinShare float64
 }
 
 // memberResultColumns are member_results' columns: the COPY that writes the rows, the
@@ -71,6 +76,9 @@ var memberResultColumns = []column[MemberResult]{
 	{"truss", func(r *MemberResult) any { return &r.Truss }},
 	{"max_case", func(r *MemberResult) any { return &r.MaxCase }},
 	{"min_case", func(r *MemberResult) any { return &r.MinCase }},
+	{"dynamic", func(r *MemberResult) any { return &r.Dynamic }},
+	{"max_share", func(r *MemberResult) any { return &r.MaxShare }},
+	{"min_share", func(r *MemberResult) any { return &r.MinShare }},
 }
 
 // MemberResultColumns are the names of member_results' columns, in the order MemberResult

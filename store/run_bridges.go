@@ -182,6 +182,12 @@ type BridgeOutcome struct {
 	// with.
 	InputHash string
 	SetID     *int64 // the bridge's result set; nil for a failed bridge
+
+	// GoverningCase is the loading case of the governing extreme (tracks, shares; migration
+	// 012); NoRocking says AREMA's rocking term was left out (no truss spacing); nil for a
+	// failed bridge.
+	GoverningCase string
+	NoRocking     *bool
 }
 
 // outcomeColumn is a run_bridges column a BridgeOutcome sets: its values travel to the server
@@ -226,6 +232,8 @@ var outcomeColumns = []outcomeColumn{
 	{"input_hash", "text[]", "CASE WHEN u.input_hash = '' THEN r.input_hash ELSE u.input_hash END",
 		each(func(o *BridgeOutcome) string { return o.InputHash })},
 	{"set_id", "int8[]", "u.set_id", each(func(o *BridgeOutcome) *int64 { return o.SetID })},
+	{"governing_case", "text[]", "u.governing_case", each(func(o *BridgeOutcome) string { return o.GoverningCase })},
+	{"no_rocking", "bool[]", "u.no_rocking", each(func(o *BridgeOutcome) *bool { return o.NoRocking })},
 }
 
 // flagCountsJSON is an outcome's flag counts as a JSON object ({} for none).
@@ -272,7 +280,8 @@ func SetOutcomes(ctx context.Context, tx pgx.Tx, runID int64, outcomes []BridgeO
 // a run that depends on it (run_id, status and source_run_id are set apart).
 var carriedColumns = []string{"bridge_id", "input_hash", "error", "worst_member", "rf_existing", "rf_proposed",
 	"demand_increase", "headroom", "flags", "flag_counts", "unrated_members", "governing_train", "governing_sense", "governing_head_m",
-	"governing_direction", "governing_from_m", "governing_to_m", "screened_at", "requeues", "set_id"}
+	"governing_direction", "governing_from_m", "governing_to_m", "screened_at", "requeues", "set_id",
+	"governing_case", "no_rocking"}
 
 // squashStatement copies the picture of run $1 into run $2, for every bridge that run $2
 // holds no row of: a screened bridge as carried, a failed one as failed (a failure is never

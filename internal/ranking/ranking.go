@@ -35,4 +35,10 @@ type Row struct {
 	// Status is "done" or "failed" (a result carried forward from an earlier run reads as
 	// done); Error says why a bridge failed.
 	Status, Error string
+
+	// GoverningCase is the loading case of the governing extreme: the truss, the tracks
+	// loaded and their shares. NoRocking says AREMA's rocking term was left out for want of
+	// the truss spacing.
+	GoverningCase string
+	NoRocking     bool
 }

@@ -95,6 +95,7 @@ func ExplainIn(w io.Writer, run Run, b Bridge, member string, u units.System) er
 	}
 	p("\n  truss share %s x %d track(s) = %s of each train's load; dead load %s %s on this truss\n",
 		num(b.TrussShare, 3), max(b.Tracks, 1), num(b.liveShare(), 3), qty(u, units.PerLength, b.DeadLoadKNPerM), kNm)
+	explainSection(ew, b, m, u)
 	p("Screening run %d (%s): %s\n\n", run.ID, orDash(run.Status), equation(run))
 
 	mb := t.Members[k]
@@ -123,8 +124,14 @@ func ExplainIn(w io.Writer, run Run, b Bridge, member string, u units.System) er
 		}
 		p("; changes sign at x = %s %s", strings.Join(s, ", "), lu)
 	}
-	p("\n  dead load D = w x net area = %s %s x %s %s = %s %s\n", qty(u, units.PerLength, b.DeadLoadKNPerM), kNm, signedQty(u, units.Length, clean(pos+neg)), lu,
-		force(analysis.DeadLoad(lines.X, eta, b.DeadLoadKNPerM)), kN)
+	if wt := b.Section.TrussWeightKNPerM; wt > 0 {
+		deck := b.DeadLoadKNPerM - wt
+		p("\n  dead load D = deck part w x net area + the truss's own weight at both chords' joints = %s %s x %s %s + %s = %s %s\n", qty(u, units.PerLength, deck), kNm,
+			signedQty(u, units.Length, clean(pos+neg)), lu, force(m.DeadKN-analysis.DeadLoad(lines.X, eta, deck)), force(m.DeadKN), kN)
+	} else {
+		p("\n  dead load D = w x net area = %s %s x %s %s = %s %s\n", qty(u, units.PerLength, b.DeadLoadKNPerM), kNm, signedQty(u, units.Length, clean(pos+neg)), lu,
+			force(analysis.DeadLoad(lines.X, eta, b.DeadLoadKNPerM)), kN)
+	}
 
 	for _, sc := range []struct {
 		name string
@@ -135,6 +142,7 @@ func ExplainIn(w io.Writer, run Run, b Bridge, member string, u units.System) er
 			p(" (%s)", safetext.Terminal(strings.Join(names, ", ")))
 		}
 		p(": dynamic allowance %s gives 1 + I = %s\n", orDash(run.Dynamic), num(sc.s.Impact, 3))
+		explainCases(ew, sc.s)
 		// One placement per extreme, placementOf's, in the governing line, the table of
 		// trains and the loads alike.
 		gov := []struct {
@@ -145,7 +153,7 @@ func ExplainIn(w io.Writer, run Run, b Bridge, member string, u units.System) er
 			ok    bool
 		}{{"tension", 1, sc.s.Max, sc.s.MaxTrain, false}, {"compression", -1, sc.s.Min, sc.s.MinTrain, false}}
 		for i := range gov {
-			gov[i].e, gov[i].ok = placementOf(gov[i].tr, gov[i].e, lines.X, eta, b.liveShare(), gov[i].sign)
+			gov[i].e, gov[i].ok = placementOf(gov[i].tr, gov[i].e, lines.X, eta, sc.s.shareOf(gov[i].sign, b), gov[i].sign)
 		}
 		explainTrains(ew, run, b, lines.X, eta, sc.name, gov[0].e, gov[1].e, u)
 		for _, g := range gov {
@@ -155,7 +163,7 @@ func ExplainIn(w io.Writer, run Run, b Bridge, member string, u units.System) er
 			p("  governing %s: %s %s, %s, %s\n", g.sense, force(g.e.Value), kN, safetext.Terminal(orDash(g.e.Train)), placementWordsIn(g.e, g.tr, u))
 			if g.tr != nil && sc.name == "proposed" && g.sign == governing(m) {
 				if g.ok {
-					explainLoads(ew, g.tr, g.e, t.SpanM(), lines.X, eta, g.sign, b.liveShare(), u)
+					explainLoads(ew, g.tr, g.e, t.SpanM(), lines.X, eta, g.sign, sc.s.shareOf(g.sign, b), u)
 				} else {
 					p("    (train %s as now defined does not give this force: it has changed since the run)\n", safetext.Terminal(g.e.Train))
 				}

@@ -56,6 +56,19 @@ type Bridge struct {
 	Tracks         int
 	DeadLoadKNPerM float64
 	Members        []Member
+
+	// The cross-section (screening/section.go): 0 and nil where not given.
+	Section Section
+}
+
+// Section is a bridge's cross-section and what else its dynamic allowance and dead load rest
+// on, as the inventory holds them.
+type Section struct {
+	TrussSpacingM     float64
+	TrackOffsetsM     []float64
+	TrussWeightKNPerM float64
+	LineSpeedKmh      float64
+	FirstFrequencyHz  float64
 }
 
 // Member is one member's rating arithmetic under both scenarios.
@@ -78,6 +91,10 @@ type Member struct {
 	// given: the run took the sense the reference train governs).
 	RatingSense        string
 	Existing, Proposed Scenario
+
+	// Truss is the main truss whose results these are, the one governing the member ("" in
+	// runs from before the cross-section).
+	Truss string
 }
 
 // Scenario is a member's live-load envelope under one scenario (kN after the truss share,
@@ -92,4 +109,24 @@ type Scenario struct {
 	// drawing its axles on the influence line (nil when not known).
 	Max, Min           envelope.Extreme
 	MaxTrain, MinTrain *traffic.Train
+
+	// The loading case of each extreme (truss, tracks, shares), the dynamic allowance in
+	// words, and the factor on the governing train's own force that gives each extreme (0:
+	// not stored; the bridge's truss share x tracks then applies).
+	MaxCase, MinCase   string
+	Dynamic            string
+	MaxShare, MinShare float64
+}
+
+// shareOf is the factor on the governing train's own force that gives the extreme of the
+// sense sign.
+func (s Scenario) shareOf(sign float64, b Bridge) float64 {
+	share := s.MaxShare
+	if sign < 0 {
+		share = s.MinShare
+	}
+	if share == 0 {
+		return b.liveShare()
+	}
+	return share
 }

@@ -480,6 +480,7 @@ func bridgePage(run Run, b Bridge, u units.System) bridgeView {
 		{"unrated members", unratedFact(run, r.Unrated)},
 		{"inspected", orDash(r.LastInspected)},
 	}
+	v.Facts = sectionFacts(v.Facts, b, u)
 	byLabel := map[string]Member{}
 	for _, m := range b.Members {
 		byLabel[m.Label] = m
@@ -543,7 +544,7 @@ func memberSection(run Run, b Bridge, t *truss.Truss, lines *analysis.Lines, i i
 	if sign < 0 {
 		ex, tr, sense = m.Proposed.Min, m.Proposed.MinTrain, "compression"
 	}
-	ex, same := placementOf(tr, ex, lines.X, eta, b.liveShare(), sign)
+	ex, same := placementOf(tr, ex, lines.X, eta, m.Proposed.shareOf(sign, b), sign)
 	var ob onBridge
 	if same {
 		ob = placeTrain(tr, ex.Placement, t.SpanM(), lines.X, eta, sign)
@@ -558,7 +559,8 @@ func memberSection(run Run, b Bridge, t *truss.Truss, lines *analysis.Lines, i i
 	s.Captions = append(s.Captions, fmt.Sprintf("Influence line of %s: member force per unit load at each deck panel point; areas %s and %s %s. Dead load D = %s %s × net area %s %s = %s %s.",
 		m.Label, signedQty(u, units.Length, clean(pos)), signedQty(u, units.Length, clean(neg)), lu, qty(u, units.PerLength, b.DeadLoadKNPerM), u.Name(units.PerLength),
 		signedQty(u, units.Length, clean(pos+neg)), lu, signedQty(u, units.Force, analysis.DeadLoad(lines.X, eta, b.DeadLoadKNPerM)), fu))
-	s.Captions = append(s.Captions, placementText(ex, tr, ob, lines.X, eta, sense, b.liveShare(), u))
+	s.Captions = append(s.Captions, placementText(ex, tr, ob, lines.X, eta, sense, m.Proposed.shareOf(sign, b), u))
+	s.Captions = append(s.Captions, sectionCaptions(m)...)
 	return s
 }
 

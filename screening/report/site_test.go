@@ -149,8 +149,15 @@ func TestRatingArithmetic(t *testing.T) {
 			if math.Abs(C-held*cond) > 0.1 {
 				t.Errorf("%s %s %s: C %v, want held × condition = %v", label, scenario, sense, C, held*cond)
 			}
-			if math.Abs(imp-phi3) > 0.0005 {
-				t.Errorf("%s %s: 1 + I = %v, Phi3(48 m) = %.4f", label, scenario, imp, phi3)
+			// The hangers L1-U1 and L7-U7 carry one floor beam each: with the truss spacing not
+			// known, their determinant length is the longer adjacent panel, 6 m
+			// (screening/dynamic.go after EN 1991-2 Table 6.2, from memory).
+			wantImp := phi3
+			if label == "L1-U1" || label == "L7-U7" {
+				wantImp = 2.16/(math.Sqrt(6)-0.2) + 0.73
+			}
+			if math.Abs(imp-wantImp) > 0.0005 {
+				t.Errorf("%s %s: 1 + I = %v, want Phi3 = %.4f", label, scenario, imp, wantImp)
 			}
 			// The printed inputs are rounded to 0.1 kN (±0.05 each in C, D and L); the RF
 			// they give agrees with the printed one within that rounding and its own.

@@ -45,11 +45,26 @@ EXECUTE FUNCTION bridge_inputs_changed();
 ALTER TABLE member_results
     ADD COLUMN truss text NOT NULL DEFAULT 'A' CHECK (truss IN ('A', 'B', '')),
     ADD COLUMN max_case text NOT NULL DEFAULT '',
-    ADD COLUMN min_case text NOT NULL DEFAULT '';
+    ADD COLUMN min_case text NOT NULL DEFAULT '',
+    -- The member's dynamic allowance in words: which, the length and why, and the Annex C
+    -- factor of trains at speed behind its extremes.
+    ADD COLUMN dynamic text NOT NULL DEFAULT '',
+    -- The factor on the governing train's own force at its placement that gives each extreme
+    -- (the loaded tracks' shares and presence factors, a speed factor over impact); 0 where
+    -- no train loads the member in that sense, and for rows screened before this migration.
+    ADD COLUMN max_share double precision NOT NULL DEFAULT 0,
+    ADD COLUMN min_share double precision NOT NULL DEFAULT 0;
+
+-- A bridge's governing loading case (of its worst member's governing extreme), and whether
+-- AREMA's rocking term was left out for want of the truss spacing (NULL before this migration).
+ALTER TABLE run_bridges
+    ADD COLUMN governing_case text,
+    ADD COLUMN no_rocking boolean;
 
 ---- create above / drop below ----
 
-ALTER TABLE member_results DROP COLUMN min_case, DROP COLUMN max_case, DROP COLUMN truss;
+ALTER TABLE run_bridges DROP COLUMN no_rocking, DROP COLUMN governing_case;
+ALTER TABLE member_results DROP COLUMN min_share, DROP COLUMN max_share, DROP COLUMN dynamic, DROP COLUMN min_case, DROP COLUMN max_case, DROP COLUMN truss;
 DROP TRIGGER bridges_input_version ON bridges;
 CREATE TRIGGER bridges_input_version BEFORE UPDATE ON bridges FOR EACH ROW
 WHEN ((OLD.truss_type, OLD.span_m, OLD.panels, OLD.depth_m, OLD.deck, OLD.end_posts, OLD.trusses,
