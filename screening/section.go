@@ -411,3 +411,31 @@ func withSpeeds(env []Envelope, speed [][]SpeedFactor, impacts []float64) {
 		}
 	}
 }
+
+// CombineTracks gives one truss's envelopes for tracks of the given shares that every train
+// may use: ext are the members' extremes over the trains with a track's full load (share 1).
+func CombineTracks(truss string, shares []float64, ext []envelope.Extremes, rule Presence) []Envelope {
+	perTrack := make([][]envelope.Extremes, len(shares))
+	for t := range perTrack {
+		perTrack[t] = ext
+	}
+	return combineTracks(truss, shares, perTrack, rule)
+}
+
+// ParseOffsets reads a list of track offsets in metres, separated by spaces or "|"
+// ("-2.25 2.25"): the format of bridges.csv's track_offsets_m.
+func ParseOffsets(s string) ([]float64, error) {
+	fields := strings.FieldsFunc(s, func(r rune) bool { return r == ' ' || r == '|' })
+	if len(fields) == 0 || len(fields) > maxTrackNumber {
+		return nil, fmt.Errorf("track offsets %q: give 1 to %d offsets separated by spaces or |, e.g. \"-2.25 2.25\"", s, maxTrackNumber)
+	}
+	out := make([]float64, len(fields))
+	for i, f := range fields {
+		v, err := strconv.ParseFloat(f, 64)
+		if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+			return nil, fmt.Errorf("track offsets %q: %q is not a number", s, f)
+		}
+		out[i] = v
+	}
+	return out, nil
+}

@@ -145,6 +145,10 @@ type FlaggedMember struct {
 	HeadM          *float64
 	Direction      string
 	FromM, ToM     *float64
+
+	// Truss is the main truss governing the member, Case the loading case of its rated sense,
+	// Dynamic its dynamic allowance in words (migration 012).
+	Truss, Case, Dynamic string
 }
 
 // FlaggedMembers lists a run's members that carry any flag, in the bridges' priority order
@@ -159,7 +163,8 @@ func (db *DB) FlaggedMembers(ctx context.Context, runID int64) ([]FlaggedMember,
 			CASE WHEN a.sense_proposed = 'compression' THEN p.min_head_m ELSE p.max_head_m END,
 			CASE WHEN a.sense_proposed = 'compression' THEN p.min_direction ELSE p.max_direction END,
 			CASE WHEN a.sense_proposed = 'compression' THEN p.min_from_m ELSE p.max_from_m END,
-			CASE WHEN a.sense_proposed = 'compression' THEN p.min_to_m ELSE p.max_to_m END
+			CASE WHEN a.sense_proposed = 'compression' THEN p.min_to_m ELSE p.max_to_m END,
+			p.truss, CASE WHEN a.sense_proposed = 'compression' THEN p.min_case ELSE p.max_case END, p.dynamic
 		FROM ranked k
 		JOIN member_assessments a ON a.set_id = k.set_id
 		JOIN member_results p ON p.set_id = a.set_id AND p.member = a.member AND p.scenario = 'proposed'
@@ -173,8 +178,18 @@ func (db *DB) FlaggedMembers(ctx context.Context, runID int64) ([]FlaggedMember,
 		var m FlaggedMember
 		return m, r.Scan(&m.BridgeRank, &m.BridgeID, &m.Name, &m.Member, &m.Kind, &m.RFExisting, &m.RFProposed,
 			&m.Sense, &m.DemandIncrease, &m.Flags, &m.DeadKN, &m.LiveMaxKN, &m.LiveMinKN, &m.Impact, &m.Train,
-			&m.HeadM, &m.Direction, &m.FromM, &m.ToM)
+			&m.HeadM, &m.Direction, &m.FromM, &m.ToM, &m.Truss, &m.Case, &m.Dynamic)
 	})
+}
+
+// NoRockingTotal counts a run's bridges screened without AREMA's rocking term for want of the
+// truss spacing (run_bridges.no_rocking, migration 012).
+func (db *DB) NoRockingTotal(ctx context.Context, runID int64) (n int, err error) {
+	err = db.Pool.QueryRow(ctx, `SELECT count(*) FROM run_picture($1) WHERE no_rocking`, runID).Scan(&n)
+	if err != nil {
+		return 0, fmt.Errorf("bridges without a rocking term in run %d: %w", runID, err)
+	}
+	return n, nil
 }
 
 // FailedBridge is a bridge a run could not screen, with the reason.

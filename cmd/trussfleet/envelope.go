@@ -15,6 +15,7 @@ import (
 	"github.com/trussfleet/trussfleet/configs"
 	"github.com/trussfleet/trussfleet/fleetrun"
 	"github.com/trussfleet/trussfleet/internal/safetext"
+	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/traffic"
@@ -29,6 +30,7 @@ func newEnvelopeCmd(a *app) *cobra.Command {
 	var share float64
 	var dynamic, format string
 	var bridgeID string
+	var sf sectionFlags
 	cmd := &cobra.Command{
 		Use:   "envelope",
 		Short: "Print every member's largest tension and compression under one or more trains",
@@ -54,6 +56,19 @@ func newEnvelopeCmd(a *app) *cobra.Command {
 			t, share, err := envelopeTruss(ctx, cmd, &look, &g, bridgeID, share)
 			if err != nil {
 				return err
+			}
+			var stored screening.Bridge
+			if bridgeID != "" {
+				if stored, err = look.Bridge(ctx, bridgeID); err != nil {
+					return fmt.Errorf("--bridge: %w", err)
+				}
+			}
+			sec, rule, hasSec, err := sf.bridge(cmd, stored, bridgeID != "")
+			if err != nil {
+				return err
+			}
+			if hasSec {
+				share = 1 // each track's full load; the shares come with the tracks
 			}
 			il, err := analysis.InfluenceLines(t, analysis.Options{})
 			if err != nil {
@@ -95,8 +110,20 @@ func newEnvelopeCmd(a *app) *cobra.Command {
 				Caution: caution, Bridge: bridgeID, Trains: names, Share: share, Dynamic: dyn.String(),
 				DynamicFactor: dyn.Factor(lines.SpanM()),
 			}
+			var cases []screening.Envelope
+			if hasSec {
+				doc.Share, doc.Truss, doc.TrackShares = 0, sf.truss, sec.TrackShares(sf.truss)
+				cases = screening.CombineTracks(sf.truss, doc.TrackShares, all, rule)
+				for i := range all {
+					all[i].Max, all[i].Min = cases[i].Max, cases[i].Min
+				}
+			}
 			for i, m := range il.Members {
-				doc.Members = append(doc.Members, memberEnvelope{Label: m.Label, Kind: string(m.Kind), Max: extremeDoc(all[i].Max), Min: extremeDoc(all[i].Min)})
+				me := memberEnvelope{Label: m.Label, Kind: string(m.Kind), Max: extremeDoc(all[i].Max), Min: extremeDoc(all[i].Min)}
+				if cases != nil {
+					me.MaxCase, me.MinCase = cases[i].MaxCase.String(), cases[i].MinCase.String()
+				}
+				doc.Members = append(doc.Members, me)
 			}
 			w := cmd.OutOrStdout()
 			switch format {
@@ -113,6 +140,7 @@ func newEnvelopeCmd(a *app) *cobra.Command {
 		},
 	}
 	g.add(cmd, false)
+	sf.add(cmd)
 	f := cmd.Flags()
 	f.StringVar(&bridgeID, "bridge", "", "a stored bridge's id: its geometry and live-load share (truss share × tracks) instead of the geometry flags and --share")
 	f.StringArrayVar(&specs, "train", nil, "train: a built-in model (lm71:alpha=1, sw0, sw2, unloaded, cooper:e=80, cooper-alt:e=80, uniform:q=Q,min=M,max=M), a train file, a shipped example train or a stored train by name; repeat for several")
@@ -168,6 +196,11 @@ type envelopeDoc struct {
 	Dynamic       string           `json:"dynamic"`
 	DynamicFactor float64          `json:"dynamic_factor"`
 	Members       []memberEnvelope `json:"members"`
+
+	// Truss and TrackShares: with a cross-section, the truss shown and its share of each
+	// track's load (Share is then 0).
+	Truss       string    `json:"truss,omitempty"`
+	TrackShares []float64 `json:"track_shares,omitempty"`
 }
 
 type memberEnvelope struct {
@@ -175,6 +208,9 @@ type memberEnvelope struct {
 	Kind  string      `json:"kind"`
 	Max   extremeJSON `json:"max"`
 	Min   extremeJSON `json:"min"`
+	// The loading cases of the extremes, with a cross-section.
+	MaxCase string `json:"max_case,omitempty"`
+	MinCase string `json:"min_case,omitempty"`
 }
 
 // extremeJSON is one extreme; the placement fields are absent when no train is on the bridge.
@@ -235,7 +271,15 @@ func envelopeTable(w io.Writer, typ string, span float64, doc envelopeDoc) error
 	if doc.Bridge != "" {
 		fmt.Fprintf(w, "Bridge %s: ", safetext.Terminal(doc.Bridge))
 	}
-	fmt.Fprintf(w, "%s truss, span %g m. Member forces in kN (tension +), share %g, dynamic %s (factor %.3f).\n", typ, span, doc.Share, doc.Dynamic, doc.DynamicFactor)
+	share := strconv.FormatFloat(doc.Share, 'g', -1, 64)
+	if doc.Truss != "" {
+		s := make([]string, len(doc.TrackShares))
+		for i, v := range doc.TrackShares {
+			s[i] = fmt.Sprintf("track %d × %.3f", i+1, v)
+		}
+		share = "truss " + doc.Truss + " carrying " + strings.Join(s, ", ") + " (lever rule; trains on each track placed independently)"
+	}
+	fmt.Fprintf(w, "%s truss, span %g m. Member forces in kN (tension +), share %s, dynamic %s (factor %.3f).\n", typ, span, share, doc.Dynamic, doc.DynamicFactor)
 	fmt.Fprintf(w, "Trains: %s. Head: position of the train's front (m), arrow: direction of travel.\n\n", safetext.Terminal(strings.Join(doc.Trains, "; ")))
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "member\tmax\ttrain\thead\tcount\tloaded\t\tmin\ttrain\thead\tcount\tloaded\t")

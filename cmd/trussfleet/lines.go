@@ -11,6 +11,7 @@ import (
 
 	"github.com/spf13/cobra"
 	"github.com/trussfleet/trussfleet/internal/safetext"
+	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/truss"
 )
@@ -20,6 +21,7 @@ func init() { commands = append(commands, newLinesCmd) }
 func newLinesCmd(a *app) *cobra.Command {
 	var g geometryFlags
 	var format string
+	var sf sectionFlags
 	cmd := &cobra.Command{
 		Use:   "lines",
 		Short: "Print every member's influence line for one parametric truss",
@@ -38,7 +40,20 @@ func newLinesCmd(a *app) *cobra.Command {
 			if err != nil {
 				return err
 			}
+			sec, _, hasSec, err := sf.bridge(cmd, screening.Bridge{}, false)
+			if err != nil {
+				return err
+			}
 			w := cmd.OutOrStdout()
+			if hasSec {
+				// The lines are per unit load; the shares say how much of each track's load
+				// reaches each truss. On standard error for csv and json, which stay as they are.
+				sw := w
+				if format != "table" {
+					sw = cmd.ErrOrStderr()
+				}
+				printShares(sw, sec)
+			}
 			switch format {
 			case "json":
 				return linesJSON(w, t, l)
@@ -51,6 +66,7 @@ func newLinesCmd(a *app) *cobra.Command {
 		},
 	}
 	g.add(cmd, true)
+	sf.add(cmd)
 	cmd.Flags().StringVar(&format, "format", "table", "output: table, csv or json")
 	return cmd
 }

@@ -46,18 +46,19 @@ func newRankCmd(a *app) *cobra.Command {
 func printRanked(w io.Writer, run store.Run, rows []report.BridgeRow, u units.System) error {
 	fmt.Fprintf(w, "Priority list, run %d (%s, started %s)\n\n", run.ID, run.Status, run.StartedAt.Format("2006-01-02 15:04"))
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-	fmt.Fprintln(tw, "rank\tbridge\tname\tline\tkm\ttype\tspan "+u.Name(units.Length)+"\tworst\tRF ex\tRF pr\tchange\tdemand +\theadroom\tflags\tunrated\tgoverning train (where)\tinspected")
+	fmt.Fprintln(tw, "rank\tbridge\tname\tline\tkm\ttype\tspan "+u.Name(units.Length)+"\tworst\tRF ex\tRF pr\tchange\tdemand +\theadroom\tflags\tunrated\tgoverning train (where)\tloading case\tinspected")
 	cell, cut := safetext.Cell, false
 	for _, r := range rows {
 		cut = cut || r.Status == "failed" && cell(r.Error) != safetext.Terminal(r.Error)
-		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%.0f%%\t%s\t%s\t%d\t%s\t%s\n",
+		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%.0f%%\t%s\t%s\t%d\t%s\t%s\t%s\n",
 			r.Rank, cell(r.BridgeID), cell(r.Name), cell(r.Line), fmtOpt(r.ChainageKm, "%.3f"), cell(r.TrussType), u.Format(units.Length, r.SpanM), cell(r.WorstMember),
 			fmtRF(r.RFExisting), fmtRF(r.RFProposed), fmtPct(r.Change), 100*r.DemandIncrease, fmtOpt(r.Headroom, "%.2f×"),
-			flagsText(r), r.Unrated, governing(r.GoverningTrain, r.GoverningSense, r.GoverningDirection, r.GoverningHeadM, u), cell(r.LastInspected))
+			flagsText(r), r.Unrated, governing(r.GoverningTrain, r.GoverningSense, r.GoverningDirection, r.GoverningHeadM, u), caseText(r), cell(r.LastInspected))
 	}
 	if err := tw.Flush(); err != nil {
 		return err
 	}
+	noRockingNote(w, rows)
 	if failed := countFailed(rows); failed > 0 {
 		fmt.Fprintf(w, "\n%s could not be screened (listed last, NOT SCREENED): not cleared; fix their data and run again.\n", plural(failed, "bridge"))
 		if cut {
@@ -118,4 +119,27 @@ func governing(train, sense, dir string, head *float64, u units.System) string {
 		at = u.Format(units.Length, *head) + " " + u.Name(units.Length)
 	}
 	return fmt.Sprintf("%s, %s, head at %s, %s", safetext.Cell(train), safetext.Cell(sense), at, safetext.Cell(dir))
+}
+
+// caseText is a priority-list cell of the governing loading case; a bridge screened without
+// AREMA's rocking term is marked.
+func caseText(r report.BridgeRow) string {
+	c := safetext.Cell(r.GoverningCase)
+	if r.NoRocking {
+		c += " (no rocking term)"
+	}
+	return c
+}
+
+// noRockingNote says once how many bridges lack AREMA's rocking term.
+func noRockingNote(w io.Writer, rows []report.BridgeRow) {
+	n := 0
+	for _, r := range rows {
+		if r.NoRocking {
+			n++
+		}
+	}
+	if n > 0 {
+		fmt.Fprintf(w, "\n%s screened without AREMA's rocking term (marked \"no rocking term\"): their rows give no truss spacing.\n", plural(n, "bridge"))
+	}
 }

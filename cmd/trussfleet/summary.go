@@ -41,6 +41,12 @@ func (a *app) printSummary(ctx context.Context, db *store.DB, w io.Writer, id in
 		// The run's own settings decide whether they were flagged (the counts above).
 		fmt.Fprintf(w, "Members unrated (dead plus live force acting in a sense with no capacity and no stored RF rated in it): %d on %d bridges; flagged no-capacity only with thresholds.flag_unrated.\n", unrated, onBridges)
 	}
+	if n, err := db.NoRockingTotal(ctx, id); err != nil {
+		return err
+	} else if n > 0 {
+		// Said once for the run, not per bridge: the priority list marks which bridges.
+		fmt.Fprintf(w, "AREMA's rocking term left out on %s: their rows give no truss spacing (truss_spacing_m); `trussfleet rank` marks them.\n", plural(n, "bridge"))
+	}
 	rows, err := db.Ranked(ctx, id, 10)
 	if err != nil {
 		return err
