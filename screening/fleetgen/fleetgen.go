@@ -43,7 +43,8 @@ var (
 
 // BridgeHeader and MemberHeader are the CSV columns written.
 var (
-	BridgeHeader = []string{"bridge_id", "name", "line", "chainage_km", "truss_type", "span_m", "panels", "depth_m", "deck", "end_posts", "trusses", "truss_share", "tracks", "dead_load_kn_per_m", "year_built", "latitude", "longitude", "last_inspected"}
+	BridgeHeader = []string{"bridge_id", "name", "line", "chainage_km", "truss_type", "span_m", "panels", "depth_m", "deck", "end_posts", "trusses", "truss_share", "tracks", "dead_load_kn_per_m", "year_built", "latitude", "longitude", "last_inspected",
+		"truss_spacing_m", "track_offsets_m", "line_speed_kmh", "first_frequency_hz", "truss_weight_kn_per_m"}
 	MemberHeader = []string{"bridge_id", "member", "capacity_tension_kn", "capacity_compression_kn", "rating_factor", "reference_train", "condition_factor", "area_mm2", "fatigue_category"}
 )
 
@@ -162,8 +163,32 @@ func inventBridge(r *rand.Rand, i, line int, chainage float64) (screening.Bridge
 		TrussShare: 0.5, Tracks: tracks, DeadLoadKNPerM: dead,
 	}
 	row := []string{id, name, lines[line], f(round(chainage, 0.001)), typ, f(span), strconv.Itoa(n), f(depth), deck, "", "2", "0.5",
-		strconv.Itoa(tracks), f(dead), strconv.Itoa(year), "", "", inspected}
+		strconv.Itoa(tracks), f(dead), strconv.Itoa(year), "", "", inspected, "", "", "", "", ""}
+	withSection(&b, row, i, tracks)
 	return b, row
+}
+
+// withSection gives some bridges a cross-section, chosen by their number so that the random
+// draws, and so every other bridge, stay as they were: each two-track bridge its tracks at
+// ±2.25 m between trusses 9.4 m apart (symmetric: each truss takes half of each track's
+// load, as the average share did), and every seventh single-track bridge an eccentric track
+// 0.6 m towards truss A between trusses 5.2 m apart, a line speed, and the truss's own weight
+// as a third of its dead load. Invented values of the demo railway.
+func withSection(b *screening.Bridge, row []string, i, tracks int) {
+	// The columns of BridgeHeader.
+	const share, nTracks, spacing, offsets, speed, weight = 11, 12, 18, 19, 20, 22
+	switch {
+	case tracks == 2:
+		b.TrussSpacingM, b.TrackOffsetsM = 9.4, []float64{-2.25, 2.25}
+		row[spacing], row[offsets] = "9.4", "-2.25 2.25"
+	case i%7 == 3:
+		b.TrussSpacingM, b.TrackOffsetsM, b.LineSpeedKmh = 5.2, []float64{0.6}, 100
+		b.TrussWeightKNPerM = round(b.DeadLoadKNPerM/3, 0.1)
+		row[spacing], row[offsets], row[speed], row[weight] = "5.2", "0.6", "100", f(b.TrussWeightKNPerM)
+	default:
+		return
+	}
+	row[share], row[nTracks] = "", ""
 }
 
 func writeMembers(w *csv.Writer, r *rand.Rand, b screening.Bridge, year int, res screening.Result, margin float64, stored bool, refName string) error {
