@@ -22,7 +22,7 @@ import (
 // 2b in trusses of usual proportions, so the factor is not understated.
 //
 // AREMA's rocking effect, 100/S percent with S the truss spacing in ft, is added wherever S is
-// known: the allowance's own s= or else the bridge's truss spacing.
+// known: the bridge's truss spacing, or else the allowance's own s= (one for the fleet).
 
 // Determinant-length rules of a run.
 const (
@@ -100,8 +100,8 @@ func memberDynamics(lines *analysis.Lines, b Bridge, d traffic.Dynamic, rule str
 		}
 		dd.LengthM = md.LengthM
 		if d.Kind == traffic.AREMASteel {
-			if dd.SpacingM == 0 {
-				dd.SpacingM = b.TrussSpacingM
+			if b.TrussSpacingM > 0 {
+				dd.SpacingM = b.TrussSpacingM // the bridge's own spacing before the fleet's s=
 			}
 			md.Rocking, md.NoRocking = dd.SpacingM > 0, dd.SpacingM == 0
 		}
