@@ -56,6 +56,16 @@ func ScreeningInput(b store.Bridge, members []store.Member) screening.Bridge {
 		sb.FirstFrequencyHz = *b.FirstFrequencyHz
 	}
 	for _, m := range members {
+		if m.Truss != "" {
+			if sb.TrussMembers == nil {
+				sb.TrussMembers = map[string]map[string]rating.Member{}
+			}
+			if sb.TrussMembers[m.Truss] == nil {
+				sb.TrussMembers[m.Truss] = map[string]rating.Member{}
+			}
+			sb.TrussMembers[m.Truss][m.Member] = RatingMember(m)
+			continue
+		}
 		sb.Members[m.Member] = RatingMember(m)
 	}
 	return sb

@@ -74,7 +74,7 @@ func ImportMembers(ctx context.Context, db *store.DB, file string, r io.Reader, 
 		return Result{File: file}, err
 	}
 	geom := NewStoredGeometry(bridges).WithTrains(trains)
-	return load(ctx, db, store.KindMembers, file, r, opts, []string{"bridge_id", "member"},
+	return load(ctx, db, store.KindMembers, file, r, opts, []string{"bridge_id", "member", "truss"},
 		func(r io.Reader, emit func(store.Staged[store.Member]) bool) (Report, error) {
 			return parseMembers(file, r, opts.Sheet, geom, emit)
 		})
@@ -127,11 +127,24 @@ func duplicateErrors(ctx context.Context, im *store.Import, file string, key []s
 		return err
 	}
 	errs := &errorList{file: file, sheet: rep.Sheet}
-	last := key[len(key)-1]
+	// A key column the file does not have (members.csv's optional truss) is left out of the
+	// message: its value is the default for every row.
+	var names []string
+	var at []int
+	for i, k := range key {
+		if _, ok := rep.columns[k]; ok || i == 0 {
+			names, at = append(names, k), append(at, i)
+		}
+	}
+	last := names[len(names)-1]
 	for _, d := range dups {
+		vals := make([]string, len(at))
+		for i, k := range at {
+			vals[i] = d.Key[k]
+		}
 		for _, line := range d.Lines[1:] {
-			errs.add(&FieldError{Line: line, Column: rep.columns[last], Field: last, Value: d.Key[len(d.Key)-1],
-				Msg: fmt.Sprintf("%s %s repeated: first on line %d", strings.Join(key, ", "), excerpt.List(d.Key, len(d.Key)), d.Lines[0])})
+			errs.add(&FieldError{Line: line, Column: rep.columns[last], Field: last, Value: vals[len(vals)-1],
+				Msg: fmt.Sprintf("%s %s repeated: first on line %d", strings.Join(names, ", "), excerpt.List(vals, len(vals)), d.Lines[0])})
 		}
 	}
 	return errs.err()

@@ -28,6 +28,8 @@ type memberRecord struct {
 	AreaMM2                string `csv:"area_mm2"`
 	AreaIn2                string `csv:"area_in2"`
 	FatigueCategory        string `csv:"fatigue_category"`
+	// Truss is "A" or "B" for a row of one main truss's member, empty for both (section.go).
+	Truss string `csv:"truss"`
 }
 
 func (r memberRecord) srcLine() string { return r.SrcLine }
@@ -42,6 +44,7 @@ var (
 		{name: "bridge_id", required: true, maxChars: maxIDChars}, {name: "member", required: true, maxChars: maxIDChars},
 		colTension, colCompression, {name: "rating_factor"}, {name: "reference_train", maxChars: maxNameChars},
 		{name: "rating_sense", maxChars: maxNameChars}, {name: "condition_factor"}, colArea, {name: "fatigue_category", maxChars: maxFatigueCategory},
+		{name: "truss"},
 	}
 )
 
@@ -208,5 +211,6 @@ func parseMember(r memberRecord, p *row, geom Geometry) (store.Member, bool) {
 			m.Member = set[strings.ToUpper(m.Member)]
 		}
 	}
+	m.Truss = parseTruss(r, p)
 	return m, p.ok
 }

@@ -122,3 +122,14 @@ func parseOffsets(p *row, name, raw string, spacingM *float64) []float64 {
 	}
 	return out
 }
+
+// parseTruss reads members.csv's truss column: A or B for a row of one main truss's member
+// (where the trusses' members differ), empty for a row of both.
+func parseTruss(r memberRecord, p *row) string {
+	switch t := strings.ToUpper(strings.TrimSpace(r.Truss)); t {
+	case "", "A", "B":
+		return t
+	}
+	p.fail("truss", r.Truss, "must be A, B or empty (A: the truss that positive track offsets lean towards; empty: both trusses)")
+	return ""
+}

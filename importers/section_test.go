@@ -116,3 +116,43 @@ func TestSectionStored(t *testing.T) {
 		t.Errorf("after changing the offsets: version %d (was %d), offsets %v, %v", b2.InputVersion, b.InputVersion, b2.TrackOffsetsM, err)
 	}
 }
+
+// TestMembersByTruss: members.csv's truss column keeps a row of both trusses and one of each
+// truss for the same member apart; a truss other than A or B, and a row repeated for one
+// truss, are refused at their field.
+func TestMembersByTruss(t *testing.T) {
+	ctx := context.Background()
+	db := pgtest.DB(t)
+	if _, err := ImportBridges(ctx, db, "bridges.csv", strings.NewReader(sectionHeader+"X-1,pratt,48,8,6,through,30,,,5.2,0.6,,,\n"), Options{}); err != nil {
+		t.Fatal(err)
+	}
+	head := "bridge_id,member,capacity_tension_kn,capacity_compression_kn,truss\n"
+	good := head + "X-1,L2-L3,900,900,\nX-1,L2-L3,800,800,a\nX-1,L2-L3,700,700,B\n"
+	if _, err := ImportMembers(ctx, db, "members.csv", strings.NewReader(good), Options{}); err != nil {
+		t.Fatal(err)
+	}
+	ms, err := db.Members(ctx, "X-1")
+	if err != nil || len(ms) != 3 {
+		t.Fatalf("%d members stored, want 3 (%v)", len(ms), err)
+	}
+	got := map[string]float64{}
+	for _, m := range ms {
+		got[m.Truss] = *m.CapacityTensionKN
+	}
+	if got[""] != 900 || got["A"] != 800 || got["B"] != 700 {
+		t.Errorf("stored by truss: %v", got)
+	}
+	for _, bad := range []struct {
+		text, value, msg string
+		column           int
+	}{
+		{head + "X-1,L2-L3,900,900,C\n", "C", "must be A, B or empty", 5},
+		{head + "X-1,L2-L3,900,900,B\nX-1,L2-L3,800,800,B\n", "B", "repeated", 5},
+	} {
+		_, err := ImportMembers(ctx, db, "members.csv", strings.NewReader(bad.text), Options{})
+		errs := fieldErrors(t, err)
+		if e := errs[0]; e.Column != bad.column || e.Value != bad.value || !strings.Contains(e.Msg, bad.msg) {
+			t.Errorf("got %q (column %d, value %q); want column %d, value %q, %q", e.Error(), e.Column, e.Value, bad.column, bad.value, bad.msg)
+		}
+	}
+}

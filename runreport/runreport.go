@@ -79,9 +79,10 @@ func Bridge(ctx context.Context, db *store.DB, run report.Run, bridgeID string) 
 	if row.Status == "failed" {
 		return out, nil
 	}
-	held := map[string]store.Member{}
+	// The rows held by member and truss ("": both); a member shows its governing truss's.
+	held := map[[2]string]store.Member{}
 	for _, m := range inv {
-		held[m.Member] = m
+		held[[2]string{m.Member, m.Truss}] = m
 	}
 	members, err := storedMembers(ctx, db, run, bridgeID)
 	if err != nil {
@@ -97,7 +98,11 @@ func Bridge(ctx context.Context, db *store.DB, run report.Run, bridgeID string) 
 		if !ok {
 			return out, fmt.Errorf("bridge %s: run %d has no result for member %s (the geometry changed since the run?)", bridgeID, run.ID, label)
 		}
-		if h, ok := held[label]; ok {
+		h, ok := held[[2]string{label, m.Truss}]
+		if !ok {
+			h, ok = held[[2]string{label, ""}]
+		}
+		if ok {
 			m.CapacityTensionKN, m.CapacityCompressionKN = h.CapacityTensionKN, h.CapacityCompressionKN
 			m.ConditionFactor = h.ConditionFactor
 			if h.RatingFactor != nil && h.ReferenceTrain != nil {

@@ -39,6 +39,9 @@ type Bridge struct {
 	// LineSpeedKmh is the line speed (0: not known); FirstFrequencyHz the measured first
 	// bending frequency of the span (0: not measured).
 	LineSpeedKmh, FirstFrequencyHz float64
+	// TrussMembers holds, by truss ("A", "B") and label, the inventory's rows of one truss's
+	// members; they stand in for Members' rows on that truss.
+	TrussMembers map[string]map[string]rating.Member
 	// Members holds the inventory's data by member label; a member missing here has no
 	// capacity data.
 	Members map[string]rating.Member
@@ -225,9 +228,11 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 	if err != nil {
 		return fail(fmt.Errorf("geometry: %w", err))
 	}
-	for label := range b.Members {
-		if t.Member(label) < 0 {
-			return fail(fmt.Errorf("inventory member %q is not in the %s geometry (members: %s)", label, t.Params.Type, strings.Join(t.Labels(), ", ")))
+	for _, ms := range b.allMembers() {
+		for label := range ms {
+			if t.Member(label) < 0 {
+				return fail(fmt.Errorf("inventory member %q is not in the %s geometry (members: %s)", label, t.Params.Type, strings.Join(t.Labels(), ", ")))
+			}
 		}
 	}
 	if err := b.checkSection(); err != nil {
@@ -278,8 +283,8 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 	assess := make([]rating.Assessment, len(lines.Members))
 	for i, l := range lines.Members {
 		dead := deads[i]
-		inv := b.Members[l.Label]
 		for k, tr := range trusses {
+			inv := b.memberOf(tr, l.Label)
 			exL := rating.Loading{Demand: demand(dead, ex[k][i])}
 			prL := rating.Loading{Demand: demand(dead, pr[k][i])}
 			if r, ok := refs[inv.ReferenceTrain]; ok && inv.HasStoredRating() {
@@ -348,11 +353,13 @@ func (w *Screener) trainsEnvelope(l *envelope.Lines, trains []*envelope.Load, us
 // rating factors name.
 func (w *Screener) referenceEnvelopes(b Bridge, s *Settings, l *envelope.Lines, trusses []string, md memberDyn) (map[string][][]Envelope, error) {
 	names := map[string]bool{}
-	for _, m := range b.Members {
-		// A stored rating factor rates a sense without a capacity; one with both capacities
-		// never uses it.
-		if m.HasStoredRating() && !(m.HasCapacity(rating.Tension) && m.HasCapacity(rating.Compression)) {
-			names[m.ReferenceTrain] = true
+	for _, ms := range b.allMembers() {
+		for _, m := range ms {
+			// A stored rating factor rates a sense without a capacity; one with both capacities
+			// never uses it.
+			if m.HasStoredRating() && !(m.HasCapacity(rating.Tension) && m.HasCapacity(rating.Compression)) {
+				names[m.ReferenceTrain] = true
+			}
 		}
 	}
 	sorted := make([]string, 0, len(names))

@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/rating"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 )
 
@@ -360,9 +361,10 @@ func governs(m, o MemberResult) bool {
 }
 
 // screenedTrusses are the trusses screened under the settings: both wherever a scenario keeps
-// trains to given tracks (symmetric shares then no longer mean equal loads).
+// trains to given tracks (symmetric shares then no longer mean equal loads) or the inventory
+// gives one truss's members rows of their own.
 func (b Bridge) screenedTrusses(s *Settings) []string {
-	if b.HasSection() && (s.Existing.OnTracks != nil || s.Proposed.OnTracks != nil) {
+	if b.HasSection() && (s.Existing.OnTracks != nil || s.Proposed.OnTracks != nil) || len(b.TrussMembers) > 0 {
 		return []string{TrussA, TrussB}
 	}
 	return b.ScreenedTrusses()
@@ -438,4 +440,24 @@ func ParseOffsets(s string) ([]float64, error) {
 		out[i] = v
 	}
 	return out, nil
+}
+
+// memberOf is the inventory's row of a member on a truss: the truss's own row, else the row
+// of both.
+func (b Bridge) memberOf(truss, label string) rating.Member {
+	if m, ok := b.TrussMembers[truss][label]; ok {
+		return m
+	}
+	return b.Members[label]
+}
+
+// allMembers lists the inventory's rows: of both trusses, then of each truss.
+func (b Bridge) allMembers() []map[string]rating.Member {
+	out := []map[string]rating.Member{b.Members}
+	for _, tr := range []string{TrussA, TrussB} {
+		if ms := b.TrussMembers[tr]; ms != nil {
+			out = append(out, ms)
+		}
+	}
+	return out
 }

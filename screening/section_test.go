@@ -218,3 +218,23 @@ func TestTrussWeightInScreen(t *testing.T) {
 		t.Errorf("chord %g, want %g either way", c, 36*q)
 	}
 }
+
+// TestTrussMembers: a member row of truss B alone stands in for the row of both on B. One
+// centred track (shares 0.5 each, lever rule): B's smaller capacity governs L2-L3, with the
+// same force 0.5 × 1.5 P (method of sections).
+func TestTrussMembers(t *testing.T) {
+	const p = 400.0
+	s := settings(t, axle("existing axle", 100), axle("proposed axle", p))
+	b := pratt48(0.5, 1, 0)
+	b.DeadLoadKNPerM = 0
+	b.TrussMembers = map[string]map[string]rating.Member{"B": {"L2-L3": {CapacityTension: 150, CapacityCompression: 150}}}
+	m := member(t, screening.ScreenBridge(b, s), "L2-L3")
+	// working-stress RF = C / L without dead load or allowance: 150 / (0.5 × 1.5 × 400) = 0.5
+	if m.Truss != "B" || math.Abs(m.Assessment.WorstPr.RF-0.5) > 1e-12 {
+		t.Errorf("truss %s, RF %g; want B, 0.5", m.Truss, m.Assessment.WorstPr.RF)
+	}
+	b.TrussMembers = map[string]map[string]rating.Member{"B": {"L9-L9": {CapacityTension: 150}}}
+	if res := screening.ScreenBridge(b, s); res.Err == nil {
+		t.Error("a truss row of a member the geometry lacks was accepted")
+	}
+}

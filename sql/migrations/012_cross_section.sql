@@ -61,7 +61,19 @@ ALTER TABLE run_bridges
     ADD COLUMN governing_case text,
     ADD COLUMN no_rocking boolean;
 
+-- members.csv may give a member's row for one main truss ('A' or 'B') where the trusses'
+-- members differ; '' is the row for both (as before). A truss's own row stands in for the
+-- row for both on that truss.
+ALTER TABLE members ADD COLUMN truss text NOT NULL DEFAULT '' CHECK (truss IN ('', 'A', 'B'));
+ALTER TABLE members DROP CONSTRAINT members_pkey;
+ALTER TABLE members ADD PRIMARY KEY (bridge_id, member, truss);
+
 ---- create above / drop below ----
+
+DELETE FROM members WHERE truss <> '';
+ALTER TABLE members DROP CONSTRAINT members_pkey;
+ALTER TABLE members ADD PRIMARY KEY (bridge_id, member);
+ALTER TABLE members DROP COLUMN truss;
 
 ALTER TABLE run_bridges DROP COLUMN no_rocking, DROP COLUMN governing_case;
 ALTER TABLE member_results DROP COLUMN min_share, DROP COLUMN max_share, DROP COLUMN dynamic, DROP COLUMN min_case, DROP COLUMN max_case, DROP COLUMN truss;
