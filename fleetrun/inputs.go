@@ -46,15 +46,7 @@ func ScreeningInput(b store.Bridge, members []store.Member) screening.Bridge {
 		TrussWeightKNPerM: b.TrussWeightKNPerM,
 		Members:           make(map[string]rating.Member, len(members)),
 	}
-	if b.TrussSpacingM != nil {
-		sb.TrussSpacingM = *b.TrussSpacingM
-	}
-	if b.LineSpeedKmh != nil {
-		sb.LineSpeedKmh = *b.LineSpeedKmh
-	}
-	if b.FirstFrequencyHz != nil {
-		sb.FirstFrequencyHz = *b.FirstFrequencyHz
-	}
+	sb.TrussSpacingM, sb.LineSpeedKmh, sb.FirstFrequencyHz = store.OrZero(b.TrussSpacingM), store.OrZero(b.LineSpeedKmh), store.OrZero(b.FirstFrequencyHz)
 	for _, m := range members {
 		if m.Truss != "" {
 			if sb.TrussMembers == nil {

@@ -187,15 +187,6 @@ func ptr(v pgtype.Float8) *float64 {
 
 // section is a stored bridge's cross-section for its page.
 func section(b store.Bridge) report.Section {
-	s := report.Section{TrackOffsetsM: b.TrackOffsetsM, TrussWeightKNPerM: b.TrussWeightKNPerM}
-	if b.TrussSpacingM != nil {
-		s.TrussSpacingM = *b.TrussSpacingM
-	}
-	if b.LineSpeedKmh != nil {
-		s.LineSpeedKmh = *b.LineSpeedKmh
-	}
-	if b.FirstFrequencyHz != nil {
-		s.FirstFrequencyHz = *b.FirstFrequencyHz
-	}
-	return s
+	return report.Section{TrackOffsetsM: b.TrackOffsetsM, TrussWeightKNPerM: b.TrussWeightKNPerM, TrussSpacingM: store.OrZero(b.TrussSpacingM),
+		LineSpeedKmh: store.OrZero(b.LineSpeedKmh), FirstFrequencyHz: store.OrZero(b.FirstFrequencyHz)}
 }

@@ -86,6 +86,14 @@ func (b *Bridge) pointers() []any {
 		&b.TrussWeightKNPerM, &b.InputVersion}
 }
 
+// OrZero is an optional number's value, 0 where it is NULL (nil).
+func OrZero(p *float64) float64 {
+	if p == nil {
+		return 0
+	}
+	return *p
+}
+
 // ErrNotFound is returned (wrapped) when a named row does not exist.
 var ErrNotFound = errors.New("not found")
 
