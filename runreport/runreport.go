@@ -4,6 +4,7 @@ import (
 	"context"
 	"encoding/json"
 	"fmt"
+	"github.com/trussfleet/trussfleet/internal/bridgegeom"
 
 	"github.com/jackc/pgx/v5/pgtype"
 	"github.com/trussfleet/trussfleet/screening"
@@ -74,7 +75,7 @@ func Bridge(ctx context.Context, db *store.DB, run report.Run, bridgeID string) 
 		return report.Bridge{}, err
 	}
 	out := report.Bridge{Row: row, TrussShare: b.TrussShare, Tracks: b.Tracks, DeadLoadKNPerM: b.DeadLoadKNPerM,
-		Truss: truss.Params{Type: b.TrussType, SpanM: b.SpanM, Panels: b.Panels, DepthM: b.DepthM, Deck: b.Deck, EndPosts: b.EndPosts}}
+		Truss: bridgegeom.Params(b)}
 	if row.Status == "failed" {
 		return out, nil
 	}

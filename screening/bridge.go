@@ -205,9 +205,10 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 	if err != nil {
 		return fail(fmt.Errorf("influence lines: %w", err))
 	}
-	impact := s.Dynamic.Factor(t.SpanM())
+	lphi := traffic.DeterminantLengthM(t.SpanLengthsM())
+	impact := s.Dynamic.Factor(lphi)
 	if !(impact >= 1) || math.IsInf(impact, 0) {
-		return fail(fmt.Errorf("dynamic allowance %s gives 1 + I = %v at span %g m", s.Dynamic, impact, t.SpanM()))
+		return fail(fmt.Errorf("dynamic allowance %s gives 1 + I = %v at determinant length %g m", s.Dynamic, impact, lphi))
 	}
 	share := b.LiveShare()
 	ex, err := w.scenarioEnvelope(el, s.Existing.Trains, share, impact)

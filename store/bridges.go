@@ -34,6 +34,13 @@ type Bridge struct {
 	Latitude       *float64   `json:"latitude,omitempty"`
 	Longitude      *float64   `json:"longitude,omitempty"`
 	LastInspected  *time.Time `json:"last_inspected,omitempty"` // a date
+	// DepthsM is a polygonal top chord's depth at every top-chord joint, left to right
+	// (nil: parallel chords or a parabola); EndDepthM a parabolic top chord's depth at its
+	// first and last joints (0: none); Spans the number of equal spans over which the truss
+	// is continuous (migration 012_truss_forms.sql).
+	DepthsM   []float64 `json:"depths_m,omitempty"`
+	EndDepthM float64   `json:"end_depth_m,omitempty"`
+	Spans     int       `json:"spans,omitempty"`
 	// InputVersion is new whenever a screening input of the bridge changes: its geometry and
 	// loads, or any of its members' rows (sql/migrations/010_input_versions.sql). Read only.
 	InputVersion int64 `json:"-"`
@@ -50,24 +57,26 @@ var bridgesTable = table{
 	name: "bridges",
 	key:  []string{"bridge_id"},
 	cols: []string{"name", "line", "chainage_km", "truss_type", "span_m", "panels", "depth_m", "deck", "end_posts",
-		"trusses", "truss_share", "tracks", "dead_load_kn_per_m", "year_built", "latitude", "longitude", "last_inspected"},
+		"trusses", "truss_share", "tracks", "dead_load_kn_per_m", "year_built", "latitude", "longitude", "last_inspected",
+		"depths_m", "end_depth_m", "spans"},
 	touch: "updated_at",
 }
 
 // bridgeColumns is the select list matching scanBridge.
 const bridgeColumns = `b.bridge_id, b.name, b.line, b.chainage_km, b.truss_type, b.span_m, b.panels, b.depth_m, b.deck,
 	b.end_posts, b.trusses, b.truss_share, b.tracks, b.dead_load_kn_per_m, b.year_built, b.latitude, b.longitude,
-	b.last_inspected, b.input_version`
+	b.last_inspected, b.input_version, b.depths_m, b.end_depth_m, b.spans`
 
 func (b Bridge) values() []any {
 	return []any{b.BridgeID, b.Name, b.Line, b.ChainageKM, b.TrussType, b.SpanM, b.Panels, b.DepthM, b.Deck, b.EndPosts,
-		b.Trusses, b.TrussShare, b.Tracks, b.DeadLoadKNPerM, b.YearBuilt, b.Latitude, b.Longitude, b.LastInspected}
+		b.Trusses, b.TrussShare, b.Tracks, b.DeadLoadKNPerM, b.YearBuilt, b.Latitude, b.Longitude, b.LastInspected,
+		b.DepthsM, b.EndDepthM, max(b.Spans, 1)}
 }
 
 func (b *Bridge) pointers() []any {
 	return []any{&b.BridgeID, &b.Name, &b.Line, &b.ChainageKM, &b.TrussType, &b.SpanM, &b.Panels, &b.DepthM, &b.Deck,
 		&b.EndPosts, &b.Trusses, &b.TrussShare, &b.Tracks, &b.DeadLoadKNPerM, &b.YearBuilt, &b.Latitude, &b.Longitude,
-		&b.LastInspected, &b.InputVersion}
+		&b.LastInspected, &b.InputVersion, &b.DepthsM, &b.EndDepthM, &b.Spans}
 }
 
 // ErrNotFound is returned (wrapped) when a named row does not exist.

@@ -102,13 +102,18 @@ func validateForm(typ *Type, p *Params) error {
 		return &ParamError{"end_depth", p.EndDepthM, "give either the list of depths or an end depth (parabola), not both"}
 	}
 	if p.Polygonal() {
+		// Name the parameter the chord was given by.
+		param, value := "depths", any(p.DepthsM)
+		if len(p.DepthsM) == 0 {
+			param, value = "end_depth", p.EndDepthM
+		}
 		switch {
 		case !typ.Polygonal:
-			return &ParamError{"depths", p.DepthsM, fmt.Sprintf("a %s truss has parallel chords; leave depths and end depth empty", typ.Name)}
+			return &ParamError{param, value, fmt.Sprintf("a %s truss has parallel chords; leave depths and end depth empty", typ.Name)}
 		case p.Deck == DeckTop:
-			return &ParamError{"depths", p.DepthsM, "a polygonal top chord needs a through truss (the deck of a deck truss is straight)"}
+			return &ParamError{param, value, "a polygonal top chord needs a through truss (the deck of a deck truss is straight)"}
 		case p.Spans > 1:
-			return &ParamError{"depths", p.DepthsM, "a polygonal top chord is for a truss of one span"}
+			return &ParamError{param, value, "a polygonal top chord is for a truss of one span"}
 		}
 	}
 	if math.IsNaN(p.EndDepthM) || math.IsInf(p.EndDepthM, 0) || p.EndDepthM < 0 || p.EndDepthM > p.DepthM {

@@ -203,7 +203,7 @@ func TestBadForms(t *testing.T) {
 		{"too few depths", Params{Type: "pratt", SpanM: 72, Panels: 8, DepthsM: []float64{6, 7, 6}}, "depths", "has 7 top-chord joints"},
 		{"negative depth", Params{Type: "pratt", SpanM: 72, Panels: 8, DepthsM: []float64{6, -7, 6}}, "depths", "depth 2"},
 		{"both forms", Params{Type: "pratt", SpanM: 72, Panels: 8, DepthM: 9, DepthsM: []float64{9}, EndDepthM: 6}, "end_depth", "not both"},
-		{"deck polygonal", Params{Type: "pratt", SpanM: 72, Panels: 8, DepthM: 9, EndDepthM: 6, Deck: "deck"}, "depths", "through"},
+		{"deck polygonal", Params{Type: "pratt", SpanM: 72, Panels: 8, DepthM: 9, EndDepthM: 6, Deck: "deck"}, "end_depth", "through"},
 		{"end deeper", Params{Type: "pratt", SpanM: 72, Panels: 8, DepthM: 9, EndDepthM: 10}, "end_depth", "at most"},
 		{"depth not the largest", Params{Type: "pratt", SpanM: 72, Panels: 8, DepthM: 12, DepthsM: []float64{6, 7, 8, 9, 8, 7, 6}}, "depth", "largest"},
 		{"sub-panels not of four", Params{Type: "pratt-sub-ties", SpanM: 72, Panels: 10, DepthM: 9}, "panels", "multiple of 4"},
