@@ -63,6 +63,9 @@ func spanCount(p Params) int { return max(p.Spans, 1) }
 
 // SpanLengthsM gives the length of each span of the truss, left to right.
 func (t *Truss) SpanLengthsM() []float64 {
+	if t.LengthsM != nil {
+		return t.LengthsM
+	}
 	out := make([]float64, spanCount(t.Params))
 	for i := range out {
 		out[i] = t.Params.SpanM

@@ -78,6 +78,9 @@ type Truss struct {
 	Supports []Support
 	// DeckJoints are the deck panel points, ordered by increasing x.
 	DeckJoints []int
+	// LengthsM are the spans of a truss built from a table (nil for a parametric one: see
+	// SpanLengthsM).
+	LengthsM []float64
 }
 
 // SpanM is the distance between the outer bearings: the length over which the influence
