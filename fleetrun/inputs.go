@@ -2,8 +2,8 @@ package fleetrun
 
 import (
 	"context"
-	"github.com/trussfleet/trussfleet/internal/bridgegeom"
 
+	"github.com/trussfleet/trussfleet/internal/bridgegeom"
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/rating"
 	"github.com/trussfleet/trussfleet/store"
@@ -30,6 +30,9 @@ func chunkInputs(ctx context.Context, db *store.DB, runID int64, planHash string
 		if planHash != "" {
 			hashes[b.BridgeID] = InputHash(planHash, b.InputVersion)
 		}
+	}
+	if err := attachTables(ctx, db, out); err != nil {
+		return nil, nil, err
 	}
 	return out, hashes, nil
 }

@@ -2,11 +2,11 @@ package importers
 
 import (
 	"errors"
-	"github.com/trussfleet/trussfleet/internal/bridgegeom"
 	"io"
 	"strconv"
 	"strings"
 
+	"github.com/trussfleet/trussfleet/internal/bridgegeom"
 	"github.com/trussfleet/trussfleet/screening/truss"
 	"github.com/trussfleet/trussfleet/store"
 )
@@ -209,6 +209,11 @@ func parseBridge(r bridgeRecord, p *row) (store.Bridge, bool) {
 	// The geometry is checked even when another field of the row failed, so that the row's
 	// every problem is reported at once.
 
+	if b.TrussType == truss.TableType {
+		// The joint table, imported after the bridges, is checked on its own import; the
+		// row's span, panels and depth describe the truss for listings.
+		return b, p.ok && dead != nil
+	}
 	// The geometry generator is the judge of type, panels, proportions, deck and end posts.
 	t, err := truss.Build(geometryOf(b))
 	var pe *truss.ParamError

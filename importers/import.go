@@ -32,6 +32,7 @@ type Result struct {
 	Checked bool     // Options.Check: nothing was written
 	BatchID int64    // the import_batches row, 0 when nothing was written
 	SHA256  string   // of the file as read
+	Notes   []string // what the import found besides its counts (joint tables: each truss's degree of indeterminacy)
 }
 
 // ImportBridgesFile imports a bridges CSV file from disk.

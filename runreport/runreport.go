@@ -4,9 +4,9 @@ import (
 	"context"
 	"encoding/json"
 	"fmt"
-	"github.com/trussfleet/trussfleet/internal/bridgegeom"
 
 	"github.com/jackc/pgx/v5/pgtype"
+	"github.com/trussfleet/trussfleet/internal/bridgegeom"
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/report"
@@ -76,6 +76,15 @@ func Bridge(ctx context.Context, db *store.DB, run report.Run, bridgeID string) 
 	}
 	out := report.Bridge{Row: row, TrussShare: b.TrussShare, Tracks: b.Tracks, DeadLoadKNPerM: b.DeadLoadKNPerM,
 		Truss: bridgegeom.Params(b)}
+	if b.TrussType == truss.TableType {
+		docs, err := db.TrussTables(ctx, []string{bridgeID})
+		if err != nil {
+			return report.Bridge{}, err
+		}
+		if doc, ok := docs[bridgeID]; ok {
+			out.Table = bridgegeom.Table(doc)
+		}
+	}
 	if row.Status == "failed" {
 		return out, nil
 	}

@@ -30,6 +30,8 @@ type Bridge struct {
 	// Members holds the inventory's data by member label; a member missing here has no
 	// capacity data.
 	Members map[string]rating.Member
+	// Table is the joint table of a bridge whose Truss.Type is "table" (geometry.go).
+	Table *truss.Table
 }
 
 // LiveShare is the factor on a train's load for the analysed truss.
@@ -181,7 +183,7 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 	fail := func(err error) Result {
 		return Result{BridgeID: b.ID, Err: err}
 	}
-	t, err := truss.Build(b.Truss)
+	t, aopt, err := b.Geometry()
 	if err != nil {
 		return fail(fmt.Errorf("geometry: %w", err))
 	}
@@ -193,7 +195,7 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 	if !(b.LiveShare() > 0) {
 		return fail(fmt.Errorf("truss share %v × tracks %d: must be positive", b.TrussShare, b.Tracks))
 	}
-	lines, err := analysis.InfluenceLines(t, analysis.Options{})
+	lines, err := analysis.InfluenceLines(t, aopt)
 	if err != nil {
 		return fail(fmt.Errorf("analysis: %w", err))
 	}

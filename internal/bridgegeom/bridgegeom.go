@@ -4,6 +4,8 @@
 package bridgegeom
 
 import (
+	"encoding/json"
+
 	"github.com/trussfleet/trussfleet/screening/truss"
 	"github.com/trussfleet/trussfleet/store"
 )
@@ -16,4 +18,14 @@ func Params(b store.Bridge) truss.Params {
 		p.Spans = b.Spans
 	}
 	return p
+}
+
+// Table decodes a stored joint table. A document that does not decode gives an empty table,
+// which fails the bridge's screening with the reason (it has no deck joints).
+func Table(doc json.RawMessage) *truss.Table {
+	var tb truss.Table
+	if err := json.Unmarshal(doc, &tb); err != nil {
+		return &truss.Table{}
+	}
+	return &tb
 }

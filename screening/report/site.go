@@ -484,10 +484,13 @@ func bridgePage(run Run, b Bridge, u units.System) bridgeView {
 	for _, m := range b.Members {
 		byLabel[m.Label] = m
 	}
-	t, err := truss.Build(p)
+	t, aopt, err := screening.Geometry(p, b.Table)
 	var lines *analysis.Lines
 	if err == nil {
-		lines, err = analysis.InfluenceLines(t, analysis.Options{})
+		lines, err = analysis.InfluenceLines(t, aopt)
+	}
+	if err == nil && specialForm(t) {
+		v.Facts = append(v.Facts, keyValue{"form", formCaption(t, u)})
 	}
 	if err != nil {
 		v.Problem = "The truss could not be rebuilt from its stored geometry, so it is not drawn: " + err.Error()

@@ -19,8 +19,13 @@ ALTER TABLE bridges
 CREATE TABLE truss_tables (
     bridge_id  text PRIMARY KEY REFERENCES bridges (bridge_id) ON DELETE CASCADE,
     doc        jsonb NOT NULL,
+    import_batch_id bigint REFERENCES import_batches (id),
     updated_at timestamptz NOT NULL DEFAULT now()
 );
+
+ALTER TABLE import_batches DROP CONSTRAINT import_batches_kind_check;
+ALTER TABLE import_batches ADD CONSTRAINT import_batches_kind_check
+    CHECK (kind IN ('bridges', 'members', 'trains', 'trusses'));
 
 DROP TRIGGER bridges_input_version ON bridges;
 CREATE TRIGGER bridges_input_version BEFORE UPDATE ON bridges FOR EACH ROW
@@ -50,6 +55,10 @@ FOR EACH ROW EXECUTE FUNCTION truss_tables_changed();
 DROP TRIGGER truss_tables_changed ON truss_tables;
 DROP FUNCTION truss_tables_changed();
 DROP TABLE truss_tables;
+DELETE FROM import_batches WHERE kind = 'trusses';
+ALTER TABLE import_batches DROP CONSTRAINT import_batches_kind_check;
+ALTER TABLE import_batches ADD CONSTRAINT import_batches_kind_check
+    CHECK (kind IN ('bridges', 'members', 'trains'));
 DROP TRIGGER bridges_input_version ON bridges;
 CREATE TRIGGER bridges_input_version BEFORE UPDATE ON bridges FOR EACH ROW
 WHEN ((OLD.truss_type, OLD.span_m, OLD.panels, OLD.depth_m, OLD.deck, OLD.end_posts, OLD.trusses,
