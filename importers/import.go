@@ -75,6 +75,9 @@ func ImportMembers(ctx context.Context, db *store.DB, file string, r io.Reader, 
 		return Result{File: file}, err
 	}
 	geom := NewStoredGeometry(bridges).WithTrains(trains)
+	if err := geom.withTables(ctx, db); err != nil {
+		return Result{File: file}, err
+	}
 	return load(ctx, db, store.KindMembers, file, r, opts, []string{"bridge_id", "member"},
 		func(r io.Reader, emit func(store.Staged[store.Member]) bool) (Report, error) {
 			return parseMembers(file, r, opts.Sheet, geom, emit)

@@ -9,6 +9,7 @@ import (
 	"os"
 	"strings"
 
+	"github.com/trussfleet/trussfleet/internal/bridgegeom"
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/truss"
 	"github.com/trussfleet/trussfleet/store"
@@ -243,4 +244,27 @@ func ImportTrussTables(ctx context.Context, db *store.DB, file string, r io.Read
 		res.Notes = append(res.Notes, n.String())
 	}
 	return res, err
+}
+
+// withTables reads the joint tables of the stored "table" bridges, so that their members'
+// labels are known.
+func (g *StoredGeometry) withTables(ctx context.Context, db *store.DB) error {
+	var ids []string
+	for id, b := range g.bridges {
+		if b.TrussType == truss.TableType {
+			ids = append(ids, id)
+		}
+	}
+	if len(ids) == 0 {
+		return nil
+	}
+	docs, err := db.TrussTables(ctx, ids)
+	if err != nil {
+		return err
+	}
+	g.tables = map[string]*truss.Table{}
+	for id, doc := range docs {
+		g.tables[id] = bridgegeom.Table(doc)
+	}
+	return nil
 }

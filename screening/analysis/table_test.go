@@ -10,35 +10,13 @@ import (
 	"github.com/trussfleet/trussfleet/screening/truss"
 )
 
-// tableOf writes a built truss out as a table, as an owner would type it.
-func tableOf(tr *truss.Truss) *truss.Table {
-	tb := &truss.Table{}
-	for _, j := range tr.Joints {
-		tb.Joints = append(tb.Joints, truss.TableJoint{Name: j.Name, X: j.X, Y: j.Y})
-	}
-	for _, m := range tr.Members {
-		tb.Members = append(tb.Members, truss.TableMember{Label: m.Label, Kind: m.Kind, From: tr.Joints[m.A].Name, To: tr.Joints[m.B].Name})
-	}
-	for _, s := range tr.Supports {
-		kind := truss.Roller
-		if s.Fixed[0] {
-			kind = truss.Pin
-		}
-		tb.Supports = append(tb.Supports, truss.TableSupport{Joint: tr.Joints[s.Joint].Name, Kind: kind})
-	}
-	for _, j := range tr.DeckJoints {
-		tb.Deck = append(tb.Deck, tr.Joints[j].Name)
-	}
-	return tb
-}
-
 // TestTableLikeParams: a truss typed in as a table solves as the same truss built from
 // parameters (the two descriptions are of one structure); the determinate ones need no
 // areas, and the degree of indeterminacy is m + r - 2j (common practice).
 func TestTableLikeParams(t *testing.T) {
 	for _, p := range append(append([]truss.Params{}, newForms...), examples[0], truss.Params{Type: "pratt", SpanM: 48, Panels: 6, DepthM: 7, Spans: 2}) {
 		want, wl := solve(t, p)
-		tb := tableOf(want)
+		tb := truss.TableOf(want)
 		tr, opt, degree, err := analysis.TableTruss(tb)
 		if p.Spans == 2 {
 			// equal areas: the parametric solve's equal EA
@@ -79,7 +57,7 @@ func TestTableLikeParams(t *testing.T) {
 // only on stiffness ratios, common practice).
 func TestTableRedundant(t *testing.T) {
 	tr, _ := truss.Build(truss.Params{Type: "pratt", SpanM: 36, Panels: 6, DepthM: 6})
-	tb := tableOf(tr)
+	tb := truss.TableOf(tr)
 	tb.Members = append(tb.Members, truss.TableMember{Label: "L2-U3", Kind: truss.Diagonal, From: "L2", To: "U3"})
 	if _, _, d, err := analysis.TableTruss(tb); err == nil || d != 1 || !strings.Contains(err.Error(), "L0-L1") {
 		t.Fatalf("no areas: degree %d, %v", d, err)
@@ -125,7 +103,7 @@ func TestTableErrors(t *testing.T) {
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
-			tb := tableOf(base)
+			tb := truss.TableOf(base)
 			c.change(tb)
 			_, _, _, err := analysis.TableTruss(tb)
 			var te *truss.TableError
@@ -135,7 +113,7 @@ func TestTableErrors(t *testing.T) {
 		})
 	}
 	// A mechanism: a diagonal left out. The panel shears, and the joints beyond it move.
-	tb := tableOf(base)
+	tb := truss.TableOf(base)
 	tb.Members = append(tb.Members[:0:0], tb.Members...)
 	for i, m := range tb.Members {
 		if m.Label == "U2-L3" {

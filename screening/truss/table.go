@@ -209,3 +209,26 @@ func kindList() string {
 	}
 	return strings.Join(s, ", ")
 }
+
+// TableOf writes a truss out as a table (no areas), as an owner would type it: the
+// parametric forms become tables to edit.
+func TableOf(t *Truss) *Table {
+	tb := &Table{}
+	for _, j := range t.Joints {
+		tb.Joints = append(tb.Joints, TableJoint{Name: j.Name, X: j.X, Y: j.Y})
+	}
+	for _, m := range t.Members {
+		tb.Members = append(tb.Members, TableMember{Label: m.Label, Kind: m.Kind, From: t.Joints[m.A].Name, To: t.Joints[m.B].Name})
+	}
+	for _, s := range t.Supports {
+		kind := Roller
+		if s.Fixed[0] {
+			kind = Pin
+		}
+		tb.Supports = append(tb.Supports, TableSupport{Joint: t.Joints[s.Joint].Name, Kind: kind})
+	}
+	for _, j := range t.DeckJoints {
+		tb.Deck = append(tb.Deck, t.Joints[j].Name)
+	}
+	return tb
+}
