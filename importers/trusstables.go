@@ -72,7 +72,8 @@ type tableRows struct {
 // ParseTrussTables reads a joint-table file: it checks every row, then every bridge's
 // table as a whole (structure, areas where the truss is indeterminate, stability), and
 // emits one row per bridge. kinds gives each stored bridge's truss_type; a table is accepted
-// only for a bridge whose type is "table". The error, if any, is a *FileErrors.
+// only for a bridge whose type is "table" (nil kinds: any bridge id, for a file read on its
+// own). The error, if any, is a *FileErrors.
 func ParseTrussTables(file string, r io.Reader, kinds map[string]string, emit func(store.Staged[store.TrussTable]) bool) ([]TableNote, Report, error) {
 	var order []*tableRows
 	byID := map[string]*tableRows{}
@@ -102,6 +103,7 @@ func ParseTrussTables(file string, r io.Reader, kinds map[string]string, emit fu
 	var good []store.Staged[store.TrussTable]
 	for _, g := range order {
 		switch kind, ok := kinds[g.id]; {
+		case kinds == nil: // a file read on its own (trussfleet lines --table)
 		case !ok:
 			fail(g.first, "bridge_id", g.id, "no such bridge: import bridges.csv first")
 			continue

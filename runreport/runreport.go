@@ -97,7 +97,7 @@ func Bridge(ctx context.Context, db *store.DB, run report.Run, bridgeID string) 
 		return out, err
 	}
 	// Members in the geometry's order.
-	t, err := truss.Build(out.Truss)
+	t, _, err := screening.Geometry(out.Truss, out.Table)
 	if err != nil {
 		return out, fmt.Errorf("bridge %s geometry: %w", bridgeID, err)
 	}

@@ -26,7 +26,11 @@ func formCaption(t *truss.Truss, u units.System) string {
 	} else {
 		parts = append(parts, "span "+l(t.SpanM()))
 	}
-	parts = append(parts, fmt.Sprintf("%d panels", p.Panels))
+	if len(spans) > 1 && p.Type != truss.TableType {
+		parts = append(parts, fmt.Sprintf("%d panels per span", p.Panels))
+	} else {
+		parts = append(parts, fmt.Sprintf("%d panels", p.Panels))
+	}
 	switch {
 	case p.Type == truss.TableType:
 		parts = append(parts, fmt.Sprintf("depth %s; joint table of %d joints and %d members", l(p.DepthM), len(t.Joints), len(t.Members)))

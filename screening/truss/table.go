@@ -168,6 +168,11 @@ func (tb *Table) Build() (*Truss, []float64, error) {
 		lo, hi = min(lo, j.Y), max(hi, j.Y)
 	}
 	t.Params.DepthM = hi - lo
+	// A deck on the upper half of the truss makes it a deck truss (for descriptions only).
+	t.Params.Deck = Through
+	if y := t.Joints[t.DeckJoints[0]].Y; y > (lo+hi)/2 {
+		t.Params.Deck = DeckTop
+	}
 	t.Params.SpanM = t.Joints[t.DeckJoints[len(t.DeckJoints)-1]].X - t.Joints[t.DeckJoints[0]].X
 	t.LengthsM = tableSpans(t)
 	return t, areas, nil
