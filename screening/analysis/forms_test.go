@@ -303,3 +303,29 @@ func TestMechanismNamed(t *testing.T) {
 		}
 	}
 }
+
+// BenchmarkInfluenceLinesForms measures the influence lines of the new forms: a Pratt
+// continuous over two spans of 12 panels (24 panels in all) and a subdivided Pratt of 16
+// sub-panels (BENCHMARKS.md).
+func BenchmarkInfluenceLinesForms(b *testing.B) {
+	for _, c := range []struct {
+		name string
+		p    truss.Params
+	}{
+		{"TwoSpan24", truss.Params{Type: "pratt", SpanM: 72, Panels: 12, DepthM: 9, Spans: 2}},
+		{"SubdividedPratt16", truss.Params{Type: "pratt-sub-ties", SpanM: 96, Panels: 16, DepthM: 12}},
+	} {
+		b.Run(c.name, func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				tr, err := truss.Build(c.p)
+				if err != nil {
+					b.Fatal(err)
+				}
+				if _, err := analysis.InfluenceLines(tr, analysis.Options{}); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
