@@ -111,7 +111,10 @@ func ParseTrussTables(file string, r io.Reader, kinds map[string]string, emit fu
 			fail(g.first, "bridge_id", g.id, "bridge %s is a %s truss in bridges.csv; give it truss_type %q to use a joint table", g.id, kind, truss.TableType)
 			continue
 		}
-		t, _, degree, err := analysis.TableTruss(&g.table)
+		t, aopt, degree, err := analysis.TableTruss(&g.table)
+		if err == nil {
+			err = analysis.Stable(t, aopt)
+		}
 		var te *truss.TableError
 		var me *analysis.MechanismError
 		switch {

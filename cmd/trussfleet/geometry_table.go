@@ -74,6 +74,9 @@ func (g *geometryFlags) fromTable() (*truss.Truss, analysis.Options, error) {
 		return nil, none, fmt.Errorf("--table-bridge %s: no table for it in %s", safetext.Terminal(id), g.table)
 	}
 	t, opt, _, err := analysis.TableTruss(bridgegeom.Table(doc.Doc))
+	if err == nil {
+		err = analysis.Stable(t, opt)
+	}
 	if err != nil {
 		return nil, none, fmt.Errorf("--table %s, bridge %s: %w", g.table, safetext.Terminal(id), err)
 	}

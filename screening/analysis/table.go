@@ -7,8 +7,9 @@ import (
 	"github.com/trussfleet/trussfleet/screening/truss"
 )
 
-// TableTruss builds a truss given as a table and checks that it can be analysed: its
-// structure (truss.Table.Build), the need for areas, and stability. It returns the truss,
+// TableTruss builds a truss given as a table and checks its structure (truss.Table.Build)
+// and the need for areas; Stable checks that it is no mechanism (InfluenceLines finds that
+// too, so screening does not call it twice). It returns the truss,
 // the options to analyse it with (the areas as relative axial stiffness: one steel, so EA
 // is proportional to A) and its degree of indeterminacy m + r - 2j.
 //
@@ -35,10 +36,14 @@ func TableTruss(tb *truss.Table) (*truss.Truss, Options, int, error) {
 	case len(missing) == 0:
 		opt.AxialStiffness = areas
 	}
-	if _, err := newSystem(t, opt.AxialStiffness); err != nil {
-		return nil, opt, degree, err
-	}
 	return t, opt, degree, nil
+}
+
+// Stable reports a mechanism (a *MechanismError naming the joints that move) or an unusable
+// stiffness; nil when the truss can carry load.
+func Stable(t *truss.Truss, opt Options) error {
+	_, err := newSystem(t, opt.AxialStiffness)
+	return err
 }
 
 // cut lists the first n names and says how many more there are.

@@ -53,3 +53,14 @@ func formCaption(t *truss.Truss, u units.System) string {
 func specialForm(t *truss.Truss) bool {
 	return t.Params.Polygonal() || len(t.SpanLengthsM()) > 1 || t.Params.Type == truss.TableType
 }
+
+// supportWord says where the truss bears, for the drawing's caption.
+func supportWord(t *truss.Truss) string {
+	switch {
+	case t.Params.Type == truss.TableType:
+		return "Supports as the joint table gives them: a triangle is a pin, a triangle on wheels a roller."
+	case len(t.Supports) > 2:
+		return "Pin at the left bearing, rollers at the right bearing and at each intermediate pier."
+	}
+	return "Pin at the left bearing, roller at the right."
+}
