@@ -11,6 +11,7 @@ import (
 	"github.com/trussfleet/trussfleet/importers"
 	"github.com/trussfleet/trussfleet/internal/bridgegeom"
 	"github.com/trussfleet/trussfleet/internal/safetext"
+	"github.com/trussfleet/trussfleet/internal/units"
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/truss"
 	"github.com/trussfleet/trussfleet/store"
@@ -81,4 +82,21 @@ func (g *geometryFlags) fromTable() (*truss.Truss, analysis.Options, error) {
 		return nil, none, fmt.Errorf("--table %s, bridge %s: %w", g.table, safetext.Terminal(id), err)
 	}
 	return t, opt, nil
+}
+
+// depthsCell writes a polygonal top chord's depths as bridges.csv takes them.
+func depthsCell(ds []float64, u units.System) string {
+	s := make([]string, len(ds))
+	for i, d := range ds {
+		s[i] = u.Exact(units.Length, d)
+	}
+	return strings.Join(s, " ")
+}
+
+// endDepthCell writes a parabolic chord's end depth; "" for none.
+func endDepthCell(d float64, u units.System) string {
+	if d == 0 {
+		return ""
+	}
+	return u.Exact(units.Length, d)
 }
