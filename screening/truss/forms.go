@@ -184,6 +184,33 @@ func orWord(s, dflt string) string {
 // y gives the height of a named joint already added.
 func (b *builder) y(name string) float64 { return b.t.Joints[b.index[name]].Y }
 
+// lowerAndUpper adds the lower joints L0..Ln and an upper joint every step panel points,
+// without the end ones (at 0 and n) where the end posts are inclined; it gives the indices
+// of the first and last upper joints.
+func (b *builder) lowerAndUpper(n int, dx float64, inclined bool, step int) (first, last int) {
+	for i := 0; i <= n; i++ {
+		b.joint(L(i), float64(i)*dx, 0)
+	}
+	first, last = 0, n
+	if inclined {
+		first, last = step, n-step
+	}
+	for i := first; i <= last; i += step {
+		b.top(U(i), float64(i)*dx)
+	}
+	return first, last
+}
+
+// chords adds the lower chord L0..Ln and the upper chord between upper joints step apart.
+func (b *builder) chords(n, first, last, step int) {
+	for i := 0; i < n; i++ {
+		b.member(L(i), L(i+1), BottomChord)
+	}
+	for i := first; i < last; i += step {
+		b.member(U(i), U(i+step), TopChord)
+	}
+}
+
 // piers puts a roller under the bottom-chord joint at the end of every span but the last.
 func (b *builder) piers(perSpan, n int) {
 	for k := perSpan; k < n; k += perSpan {
@@ -228,17 +255,7 @@ func deckWarren(b *builder, p Params) {
 func subdividedPratt(b *builder, p Params, ties bool) {
 	n := p.Panels
 	dx := p.SpanM / float64(n)
-	inclined := p.EndPosts == Inclined
-	for i := 0; i <= n; i++ {
-		b.joint(L(i), float64(i)*dx, 0)
-	}
-	first, last := 0, n
-	if inclined {
-		first, last = 2, n-2
-	}
-	for i := first; i <= last; i += 2 {
-		b.top(U(i), float64(i)*dx)
-	}
+	first, last := b.lowerAndUpper(n, dx, p.EndPosts == Inclined, 2)
 	has := func(i int) bool { return i >= first && i <= last }
 	for i := 1; i < n; i += 2 {
 		// M lies halfway along the main diagonal (or end post), whose top end is the main
@@ -253,12 +270,7 @@ func subdividedPratt(b *builder, p Params, ties bool) {
 		}
 		b.joint(M(i), float64(i)*dx, b.y(U(topJ))/2)
 	}
-	for i := 0; i < n; i++ {
-		b.member(L(i), L(i+1), BottomChord)
-	}
-	for i := first; i < last; i += 2 {
-		b.member(U(i), U(i+2), TopChord)
-	}
+	b.chords(n, first, last, 2)
 	for i := first; i <= last; i += 2 {
 		kind := Vertical
 		if i == 0 || i == n {
@@ -295,27 +307,13 @@ func kTruss(b *builder, p Params) {
 	n := p.Panels
 	dx := p.SpanM / float64(n)
 	inclined := p.EndPosts == Inclined
-	for i := 0; i <= n; i++ {
-		b.joint(L(i), float64(i)*dx, 0)
-	}
-	first, last := 0, n
-	if inclined {
-		first, last = 1, n-1
-	}
-	for i := first; i <= last; i++ {
-		b.top(U(i), float64(i)*dx)
-	}
+	first, last := b.lowerAndUpper(n, dx, inclined, 1)
 	for i := first; i <= last; i++ {
 		if 2*i != n {
 			b.joint(M(i), float64(i)*dx, b.y(U(i))/2)
 		}
 	}
-	for i := 0; i < n; i++ {
-		b.member(L(i), L(i+1), BottomChord)
-	}
-	for i := first; i < last; i++ {
-		b.member(U(i), U(i+1), TopChord)
-	}
+	b.chords(n, first, last, 1)
 	for i := first; i <= last; i++ {
 		kind := Vertical
 		if i == 0 || i == n {

@@ -58,22 +58,8 @@ func postTruss(b *builder, p Params, howe bool) {
 	n := per * spanCount(p)
 	dx := p.SpanM / float64(per)
 	inclined := p.EndPosts == Inclined
-	for i := 0; i <= n; i++ {
-		b.joint(L(i), float64(i)*dx, 0)
-	}
-	first, last := 0, n
-	if inclined {
-		first, last = 1, n-1
-	}
-	for i := first; i <= last; i++ {
-		b.top(U(i), float64(i)*dx)
-	}
-	for i := 0; i < n; i++ {
-		b.member(L(i), L(i+1), BottomChord)
-	}
-	for i := first; i < last; i++ {
-		b.member(U(i), U(i+1), TopChord)
-	}
+	first, last := b.lowerAndUpper(n, dx, inclined, 1)
+	b.chords(n, first, last, 1)
 	for i := first; i <= last; i++ {
 		kind := Vertical
 		if i == 0 || i == n {
