@@ -72,6 +72,14 @@ func TestInputVersionSeesEveryInput(t *testing.T) {
 		{"a label", `UPDATE members SET member = 'L0-L2' WHERE bridge_id = 'NER-00001' AND member = 'L0-L1'`, true},
 		{"a member more", `INSERT INTO members (bridge_id, member, capacity_tension_kn) VALUES ('NER-00001', 'L1-L2', 2400)`, true},
 		{"a member fewer", `DELETE FROM members WHERE bridge_id = 'NER-00001' AND member = 'L1-L2'`, true},
+		{"a list of depths", `UPDATE bridges SET depths_m = '{5,6,6.5,6,5}' WHERE bridge_id = 'NER-00001'`, true},
+		{"one listed depth", `UPDATE bridges SET depths_m = '{5,6,6.4,6,5}' WHERE bridge_id = 'NER-00001'`, true},
+		{"an end depth", `UPDATE bridges SET depths_m = NULL, end_depth_m = 5 WHERE bridge_id = 'NER-00001'`, true},
+		{"spans", `UPDATE bridges SET end_depth_m = 0, spans = 2 WHERE bridge_id = 'NER-00001'`, true},
+		{"a joint table", `INSERT INTO truss_tables (bridge_id, doc) VALUES ('NER-00001', '{"joints": []}')`, true},
+		{"a joint table changed", `UPDATE truss_tables SET doc = '{"joints": [1]}' WHERE bridge_id = 'NER-00001'`, true},
+		{"a joint table unchanged", `UPDATE truss_tables SET doc = '{"joints": [1]}' WHERE bridge_id = 'NER-00001' AND doc IS DISTINCT FROM '{"joints": [1]}'`, false},
+		{"a joint table removed", `DELETE FROM truss_tables WHERE bridge_id = 'NER-00001'`, true},
 	} {
 		before := version(t, db, "NER-00001")
 		exec(c.sql)

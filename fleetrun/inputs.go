@@ -3,9 +3,9 @@ package fleetrun
 import (
 	"context"
 
+	"github.com/trussfleet/trussfleet/internal/bridgegeom"
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/rating"
-	"github.com/trussfleet/trussfleet/screening/truss"
 	"github.com/trussfleet/trussfleet/store"
 )
 
@@ -31,6 +31,9 @@ func chunkInputs(ctx context.Context, db *store.DB, runID int64, planHash string
 			hashes[b.BridgeID] = InputHash(planHash, b.InputVersion)
 		}
 	}
+	if err := attachTables(ctx, db, out); err != nil {
+		return nil, nil, err
+	}
 	return out, hashes, nil
 }
 
@@ -38,7 +41,7 @@ func chunkInputs(ctx context.Context, db *store.DB, runID int64, planHash string
 func ScreeningInput(b store.Bridge, members []store.Member) screening.Bridge {
 	sb := screening.Bridge{
 		ID:                b.BridgeID,
-		Truss:             truss.Params{Type: b.TrussType, SpanM: b.SpanM, Panels: b.Panels, DepthM: b.DepthM, Deck: b.Deck, EndPosts: b.EndPosts},
+		Truss:             bridgegeom.Params(b),
 		TrussShare:        b.TrussShare,
 		Tracks:            b.Tracks,
 		DeadLoadKNPerM:    b.DeadLoadKNPerM,

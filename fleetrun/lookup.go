@@ -83,5 +83,9 @@ func (l *Lookup) Bridge(ctx context.Context, id string) (screening.Bridge, error
 	if err != nil {
 		return screening.Bridge{}, err
 	}
-	return ScreeningInput(b, nil), nil
+	sb := []screening.Bridge{ScreeningInput(b, nil)}
+	if err := attachTables(ctx, db, sb); err != nil {
+		return screening.Bridge{}, err
+	}
+	return sb[0], nil
 }

@@ -6,6 +6,7 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/trussfleet/trussfleet/internal/bridgegeom"
 	"github.com/trussfleet/trussfleet/screening/truss"
 	"github.com/trussfleet/trussfleet/store"
 )
@@ -45,6 +46,11 @@ type bridgeRecord struct {
 	FirstFrequencyHz    string `csv:"first_frequency_hz"`
 	TrussWeightKNPerM   string `csv:"truss_weight_kn_per_m"`
 	TrussWeightKipPerFt string `csv:"truss_weight_kip_per_ft"`
+	DepthsM             string `csv:"depths_m"`
+	DepthsFt            string `csv:"depths_ft"`
+	EndDepthM           string `csv:"end_depth_m"`
+	EndDepthFt          string `csv:"end_depth_ft"`
+	Spans               string `csv:"spans"`
 }
 
 var (
@@ -60,7 +66,7 @@ var (
 		{name: "truss_type", required: true}, colSpan, {name: "panels", required: true}, colDepth,
 		{name: "deck", required: true}, {name: "end_posts"}, {name: "trusses"}, {name: "truss_share"},
 		{name: "tracks"}, colDeadLoad, {name: "year_built"}, {name: "latitude"}, {name: "longitude"},
-		{name: "last_inspected"},
+		{name: "last_inspected"}, colDepths, colEndDepth, {name: "spans"},
 	}, sectionColumns...)
 )
 
@@ -75,6 +81,7 @@ const (
 var trussColumn = map[string]column{
 	"type": {name: "truss_type"}, "span": colSpan, "depth": colDepth, "panels": {name: "panels"},
 	"deck": {name: "deck"}, "end_posts": {name: "end_posts"},
+	"depths": colDepths, "end_depth": colEndDepth, "spans": {name: "spans"},
 }
 
 // Report says what reading a file found besides its rows.
@@ -149,8 +156,12 @@ func parseBridge(r bridgeRecord, p *row) (store.Bridge, bool) {
 	b.ChainageKM = p.quantity(colChainage, r.ChainageKM, r.ChainageMi)
 	span := p.quantity(colSpan, r.SpanM, r.SpanFt)
 	p.positive(p.pick(colSpan), pickRaw(p, colSpan, r.SpanM, r.SpanFt), span)
-	depth := p.quantity(colDepth, r.DepthM, r.DepthFt)
+	form := parseForm(r, p, &b)
+	depth := p.quantity(depthColumn(form), r.DepthM, r.DepthFt)
 	p.positive(p.pick(colDepth), pickRaw(p, colDepth, r.DepthM, r.DepthFt), depth)
+	if depth == nil && form.listed {
+		depth = new(float64) // the largest listed depth, filled in by the geometry
+	}
 	dead := p.quantity(colDeadLoad, r.DeadLoadKNPerM, r.DeadLoadKipPerFt)
 	p.positive(p.pick(colDeadLoad), pickRaw(p, colDeadLoad, r.DeadLoadKNPerM, r.DeadLoadKipPerFt), dead)
 	p.atMost(p.pick(colDeadLoad), pickRaw(p, colDeadLoad, r.DeadLoadKNPerM, r.DeadLoadKipPerFt), dead, maxDeadLoadKNPerM, "kN/m")
@@ -209,6 +220,11 @@ func parseBridge(r bridgeRecord, p *row) (store.Bridge, bool) {
 	// The geometry is checked even when another field of the row failed, so that the row's
 	// every problem is reported at once.
 
+	if b.TrussType == truss.TableType {
+		// The joint table, imported after the bridges, is checked on its own import; the
+		// row's span, panels and depth describe the truss for listings.
+		return b, p.ok && dead != nil
+	}
 	// The geometry generator is the judge of type, panels, proportions, deck and end posts.
 	t, err := truss.Build(geometryOf(b))
 	var pe *truss.ParamError
@@ -227,12 +243,13 @@ func parseBridge(r bridgeRecord, p *row) (store.Bridge, bool) {
 	// Store what was built, defaults filled in: a later change of default must not change
 	// what a stored bridge means.
 	b.TrussType, b.Deck, b.EndPosts = t.Params.Type, t.Params.Deck, t.Params.EndPosts
+	b.DepthM = t.Params.DepthM
 	return b, p.ok && dead != nil
 }
 
 // geometryOf gives the truss parameters of a stored bridge.
 func geometryOf(b store.Bridge) truss.Params {
-	return truss.Params{Type: b.TrussType, SpanM: b.SpanM, Panels: b.Panels, DepthM: b.DepthM, Deck: b.Deck, EndPosts: b.EndPosts}
+	return bridgegeom.Params(b)
 }
 
 func pickRaw(p *row, c column, metric, imperial string) string {
@@ -261,6 +278,16 @@ func rawOf(r bridgeRecord, name string) string {
 		return r.Deck
 	case "end_posts":
 		return r.EndPosts
+	case "depths_m":
+		return r.DepthsM
+	case "depths_ft":
+		return r.DepthsFt
+	case "end_depth_m":
+		return r.EndDepthM
+	case "end_depth_ft":
+		return r.EndDepthFt
+	case "spans":
+		return r.Spans
 	}
 	return ""
 }

@@ -32,6 +32,7 @@ type Result struct {
 	Checked bool     // Options.Check: nothing was written
 	BatchID int64    // the import_batches row, 0 when nothing was written
 	SHA256  string   // of the file as read
+	Notes   []string // what the import found besides its counts (joint tables: each truss's degree of indeterminacy)
 }
 
 // ImportBridgesFile imports a bridges CSV file from disk.
@@ -74,6 +75,9 @@ func ImportMembers(ctx context.Context, db *store.DB, file string, r io.Reader, 
 		return Result{File: file}, err
 	}
 	geom := NewStoredGeometry(bridges).WithTrains(trains)
+	if err := geom.withTables(ctx, db); err != nil {
+		return Result{File: file}, err
+	}
 	return load(ctx, db, store.KindMembers, file, r, opts, []string{"bridge_id", "member", "truss"},
 		func(r io.Reader, emit func(store.Staged[store.Member]) bool) (Report, error) {
 			return parseMembers(file, r, opts.Sheet, geom, emit)

@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"github.com/trussfleet/trussfleet/internal/excerpt"
+	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 	"github.com/trussfleet/trussfleet/screening/truss"
 	"github.com/trussfleet/trussfleet/store"
@@ -65,6 +66,7 @@ type TrainChecker interface {
 // StoredGeometry builds each stored bridge's truss on first use and keeps its labels.
 type StoredGeometry struct {
 	bridges map[string]store.Bridge
+	tables  map[string]*truss.Table // joint tables of "table" bridges (WithTables)
 	cache   map[string]*labelSet
 	trains  map[string]bool // nil: reference trains are not checked
 }
@@ -118,7 +120,7 @@ func (g *StoredGeometry) Labels(bridgeID string) (map[string]string, []string, s
 	ls := &labelSet{set: map[string]string{}}
 	p := geometryOf(b)
 	ls.desc = fmt.Sprintf("%s %s truss, %d panels", b.TrussType, b.Deck, b.Panels)
-	if t, err := truss.Build(p); err == nil {
+	if t, _, err := screening.Geometry(p, g.tables[bridgeID]); err == nil {
 		ls.ordered = t.Labels()
 		for _, l := range ls.ordered {
 			ls.set[strings.ToUpper(l)] = l

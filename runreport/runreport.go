@@ -6,6 +6,7 @@ import (
 	"fmt"
 
 	"github.com/jackc/pgx/v5/pgtype"
+	"github.com/trussfleet/trussfleet/internal/bridgegeom"
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/report"
@@ -74,8 +75,17 @@ func Bridge(ctx context.Context, db *store.DB, run report.Run, bridgeID string) 
 		return report.Bridge{}, err
 	}
 	out := report.Bridge{Row: row, TrussShare: b.TrussShare, Tracks: b.Tracks, DeadLoadKNPerM: b.DeadLoadKNPerM,
-		Truss: truss.Params{Type: b.TrussType, SpanM: b.SpanM, Panels: b.Panels, DepthM: b.DepthM, Deck: b.Deck, EndPosts: b.EndPosts}}
+		Truss: bridgegeom.Params(b)}
 	out.Section = section(b)
+	if b.TrussType == truss.TableType {
+		docs, err := db.TrussTables(ctx, []string{bridgeID})
+		if err != nil {
+			return report.Bridge{}, err
+		}
+		if doc, ok := docs[bridgeID]; ok {
+			out.Table = bridgegeom.Table(doc)
+		}
+	}
 	if row.Status == "failed" {
 		return out, nil
 	}
@@ -89,7 +99,7 @@ func Bridge(ctx context.Context, db *store.DB, run report.Run, bridgeID string) 
 		return out, err
 	}
 	// Members in the geometry's order.
-	t, err := truss.Build(out.Truss)
+	t, _, err := screening.Geometry(out.Truss, out.Table)
 	if err != nil {
 		return out, fmt.Errorf("bridge %s geometry: %w", bridgeID, err)
 	}

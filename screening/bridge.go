@@ -45,6 +45,8 @@ type Bridge struct {
 	// Members holds the inventory's data by member label; a member missing here has no
 	// capacity data.
 	Members map[string]rating.Member
+	// Table is the joint table of a bridge whose Truss.Type is "table" (geometry.go).
+	Table *truss.Table
 }
 
 // LiveShare is the factor on a train's load for the analysed truss.
@@ -224,7 +226,7 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 	fail := func(err error) Result {
 		return Result{BridgeID: b.ID, Err: err}
 	}
-	t, err := truss.Build(b.Truss)
+	t, aopt, err := b.Geometry()
 	if err != nil {
 		return fail(fmt.Errorf("geometry: %w", err))
 	}
@@ -241,7 +243,7 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 	if !b.HasSection() && !(b.LiveShare() > 0) {
 		return fail(fmt.Errorf("truss share %v × tracks %d: must be positive", b.TrussShare, b.Tracks))
 	}
-	lines, err := analysis.InfluenceLines(t, analysis.Options{})
+	lines, err := analysis.InfluenceLines(t, aopt)
 	if err != nil {
 		return fail(fmt.Errorf("analysis: %w", err))
 	}
@@ -253,7 +255,8 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 	if err != nil {
 		return fail(fmt.Errorf("influence lines: %w", err))
 	}
-	dyn, err := memberDynamics(lines, b, s.Dynamic, s.Lengths)
+	// A continuous truss's main members take the determinant length of continuous spans.
+	dyn, err := memberDynamics(lines, b, s.Dynamic, s.Lengths, t.SpanLengthsM())
 	if err != nil {
 		return fail(err)
 	}

@@ -73,12 +73,15 @@ func localPoint(ords []float64) int {
 }
 
 // memberDynamics gives each member's allowance under d for the bridge.
-func memberDynamics(lines *analysis.Lines, b Bridge, d traffic.Dynamic, rule string) ([]MemberDynamic, error) {
-	span := lines.SpanM
+func memberDynamics(lines *analysis.Lines, b Bridge, d traffic.Dynamic, rule string, spansM []float64) ([]MemberDynamic, error) {
+	span, whySpan := lines.SpanM, "span"
+	if len(spansM) > 1 {
+		span, whySpan = traffic.DeterminantLengthM(spansM), fmt.Sprintf("continuous over %d spans", len(spansM))
+	}
 	out := make([]MemberDynamic, len(lines.Members))
 	for i, l := range lines.Members {
 		md := MemberDynamic{LengthM: span}
-		why := "span"
+		why := whySpan
 		dd := d
 		k := localPoint(l.Ordinates)
 		md.Local = k >= 0

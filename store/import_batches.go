@@ -19,6 +19,7 @@ const (
 	KindBridges Kind = "bridges"
 	KindMembers Kind = "members"
 	KindTrains  Kind = "trains"
+	KindTrusses Kind = "trusses" // joint tables (truss_tables.go)
 )
 
 // Counts say what an import did with its rows.

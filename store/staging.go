@@ -115,7 +115,7 @@ func rowOf(cols []string) string { return "ROW(" + strings.Join(cols, ", ") + ")
 
 // Row is a row type an import can stage: Bridge, Member or Train.
 type Row interface {
-	Bridge | Member | Train
+	Bridge | Member | Train | TrussTable
 	values() []any
 }
 
@@ -127,7 +127,7 @@ type Staged[T Row] struct {
 }
 
 // tables maps each import kind to its table.
-var tables = map[Kind]table{KindBridges: bridgesTable, KindMembers: membersTable, KindTrains: trainsTable}
+var tables = map[Kind]table{KindBridges: bridgesTable, KindMembers: membersTable, KindTrains: trainsTable, KindTrusses: trussTablesTable}
 
 // Stage copies the rows into the import's staging table and returns how many. Call it once
 // per import, with the row type of the import's kind.
@@ -153,6 +153,8 @@ func kindOf(r any) Kind {
 		return KindBridges
 	case Member:
 		return KindMembers
+	case TrussTable:
+		return KindTrusses
 	}
 	return KindTrains
 }

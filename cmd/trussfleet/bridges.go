@@ -87,13 +87,15 @@ func bridgesCSV(w io.Writer, bs []store.BridgeSummary, u units.System) error {
 	cw := csv.NewWriter(w)
 	length := u.Column(units.Length)
 	cw.Write([]string{"bridge_id", "name", "line", "chainage_km", "truss_type", "span_" + length, "panels", "depth_" + length, "deck", "end_posts",
-		"trusses", "truss_share", "tracks", "dead_load_" + u.Column(units.PerLength), "year_built", "latitude", "longitude", "last_inspected", "members"})
+		"trusses", "truss_share", "tracks", "dead_load_" + u.Column(units.PerLength), "year_built", "latitude", "longitude", "last_inspected",
+		"depths_" + length, "end_depth_" + length, "spans", "members"})
 	text := safetext.CSVCell
 	for _, b := range bs {
 		f := func(v float64) string { return units.SI.Exact(units.Length, v) } // a plain number, noise removed
 		cw.Write([]string{text(b.BridgeID), text(b.Name), text(b.Line), optFloat(b.ChainageKM), text(b.TrussType), u.Exact(units.Length, b.SpanM), strconv.Itoa(b.Panels),
 			u.Exact(units.Length, b.DepthM), text(b.Deck), text(b.EndPosts), strconv.Itoa(b.Trusses), f(b.TrussShare), strconv.Itoa(b.Tracks), u.Exact(units.PerLength, b.DeadLoadKNPerM),
-			optInt(b.YearBuilt), optFloat(b.Latitude), optFloat(b.Longitude), optDate(b), strconv.Itoa(b.Members)})
+			optInt(b.YearBuilt), optFloat(b.Latitude), optFloat(b.Longitude), optDate(b), depthsCell(b.DepthsM, u), endDepthCell(b.EndDepthM, u),
+			strconv.Itoa(max(b.Spans, 1)), strconv.Itoa(b.Members)})
 	}
 	cw.Flush()
 	return cw.Error()

@@ -29,7 +29,7 @@ Running it again re-imports (nothing changes) and screens again as a new run.`,
 			ctx, stop := signal.NotifyContext(cmd.Context(), os.Interrupt, syscall.SIGTERM)
 			defer stop()
 			out := cmd.OutOrStdout()
-			for _, p := range []string{filepath.Join(from, "bridges.csv"), filepath.Join(from, "members.csv"), trains} {
+			for _, p := range []string{filepath.Join(from, "bridges.csv"), filepath.Join(from, "trusses.csv"), filepath.Join(from, "members.csv"), trains} {
 				if _, err := os.Stat(p); err != nil {
 					return fmt.Errorf("demo input %s: %w (run the demo from the root of a trussfleet checkout, or give --from and --trains)", p, err)
 				}
@@ -49,6 +49,9 @@ Running it again re-imports (nothing changes) and screens again as a new run.`,
 				{"trains", func() (importers.Result, error) { return importers.ImportTrains(ctx, db, trains, importers.Options{}) }},
 				{"bridges", func() (importers.Result, error) {
 					return importers.ImportBridgesFile(ctx, db, filepath.Join(from, "bridges.csv"), importers.Options{})
+				}},
+				{"trusses", func() (importers.Result, error) {
+					return importers.ImportTrussTablesFile(ctx, db, filepath.Join(from, "trusses.csv"), importers.Options{})
 				}},
 				{"members", func() (importers.Result, error) {
 					return importers.ImportMembersFile(ctx, db, filepath.Join(from, "members.csv"), importers.Options{})

@@ -53,7 +53,7 @@ func newEnvelopeCmd(a *app) *cobra.Command {
 			// The database is opened only for a stored bridge or train.
 			look := fleetrun.Lookup{Examples: configs.Trains(), Open: a.openDatabase}
 			defer look.Close()
-			t, share, err := envelopeTruss(ctx, cmd, &look, &g, bridgeID, share)
+			t, aopt, share, err := envelopeTruss(ctx, cmd, &look, &g, bridgeID, share)
 			if err != nil {
 				return err
 			}
@@ -70,7 +70,9 @@ func newEnvelopeCmd(a *app) *cobra.Command {
 			if hasSec {
 				share = 1 // each track's full load; the shares come with the tracks
 			}
-			il, err := analysis.InfluenceLines(t, analysis.Options{})
+			// A continuous truss's dynamic allowance takes its determinant length.
+			dyn = traffic.DynamicFor(dyn, t.SpanLengthsM())
+			il, err := analysis.InfluenceLines(t, aopt)
 			if err != nil {
 				return err
 			}
@@ -152,23 +154,24 @@ func newEnvelopeCmd(a *app) *cobra.Command {
 
 // envelopeTruss lays out the truss and gives the share of a track's load it carries: the
 // stored bridge's (screening.Bridge.LiveShare) with --bridge, else the flags'.
-func envelopeTruss(ctx context.Context, cmd *cobra.Command, look *fleetrun.Lookup, g *geometryFlags, bridgeID string, share float64) (*truss.Truss, float64, error) {
+func envelopeTruss(ctx context.Context, cmd *cobra.Command, look *fleetrun.Lookup, g *geometryFlags, bridgeID string, share float64) (*truss.Truss, analysis.Options, float64, error) {
+	var none analysis.Options
 	if bridgeID == "" {
 		if miss := g.missing(cmd); len(miss) > 0 {
-			return nil, 0, fmt.Errorf("%s not set: give the truss geometry (--type, --span, --panels, --depth, --deck, --end-posts) or a stored bridge (--bridge ID)", strings.Join(miss, ", "))
+			return nil, none, 0, fmt.Errorf("%s not set: give the truss geometry (--type, --span, --panels, --depth, --deck, --end-posts) or a stored bridge (--bridge ID)", strings.Join(miss, ", "))
 		}
 		if !(share > 0) || share > 1 {
-			return nil, 0, fmt.Errorf("--share: must lie in (0, 1], got %v", share)
+			return nil, none, 0, fmt.Errorf("--share: must lie in (0, 1], got %v", share)
 		}
-		t, err := g.build()
-		return t, share, err
+		t, aopt, err := g.build()
+		return t, aopt, share, err
 	}
 	given := g.given(cmd)
 	if cmd.Flags().Changed("share") {
 		given = append(given, "--share")
 	}
 	if len(given) > 0 {
-		return nil, 0, fmt.Errorf("--bridge %s and %s: the stored bridge gives the geometry and the share; give either --bridge or the flags",
+		return nil, none, 0, fmt.Errorf("--bridge %s and %s: the stored bridge gives the geometry and the share; give either --bridge or the flags",
 			safetext.Terminal(bridgeID), strings.Join(given, ", "))
 	}
 	b, err := look.Bridge(ctx, bridgeID)
@@ -176,16 +179,16 @@ func envelopeTruss(ctx context.Context, cmd *cobra.Command, look *fleetrun.Looku
 		if db, derr := look.DB(ctx); derr == nil {
 			err = withBridgeHint(ctx, db, bridgeID, err)
 		}
-		return nil, 0, fmt.Errorf("--bridge: %w", err)
+		return nil, none, 0, fmt.Errorf("--bridge: %w", err)
 	}
-	t, err := truss.Build(b.Truss)
+	t, aopt, err := b.Geometry()
 	if err != nil {
-		return nil, 0, fmt.Errorf("--bridge %s: truss geometry: %w", safetext.Terminal(bridgeID), err)
+		return nil, none, 0, fmt.Errorf("--bridge %s: truss geometry: %w", safetext.Terminal(bridgeID), err)
 	}
 	if !(b.LiveShare() > 0) {
-		return nil, 0, fmt.Errorf("--bridge %s: truss share %v × tracks %d: must be positive", safetext.Terminal(bridgeID), b.TrussShare, b.Tracks)
+		return nil, none, 0, fmt.Errorf("--bridge %s: truss share %v × tracks %d: must be positive", safetext.Terminal(bridgeID), b.TrussShare, b.Tracks)
 	}
-	return t, b.LiveShare(), nil
+	return t, aopt, b.LiveShare(), nil
 }
 
 type envelopeDoc struct {

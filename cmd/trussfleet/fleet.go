@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"strings"
 
 	"github.com/spf13/cobra"
 	"github.com/trussfleet/trussfleet/configs"
@@ -48,23 +49,25 @@ func newFleetCmd(a *app) *cobra.Command {
 	return cmd
 }
 
-// writeFleet writes the two files through temporary names, so that a failed run leaves no
-// half-written inventory behind.
+// writeFleet writes the three files (bridges, members, joint tables) through temporary
+// names, so that a failed run leaves no half-written inventory behind.
 func writeFleet(opt fleetgen.Options, dir string, done func(b, m string)) error {
-	bPath, mPath := filepath.Join(dir, "bridges.csv"), filepath.Join(dir, "members.csv")
-	bf, err := createOutput(dir, ".bridges-*.csv")
-	if err != nil {
-		return err
+	names := []string{"bridges.csv", "members.csv", "trusses.csv"}
+	files := make([]*os.File, len(names))
+	for i, n := range names {
+		f, err := createOutput(dir, "."+strings.TrimSuffix(n, ".csv")+"-*.csv")
+		if err != nil {
+			for _, o := range files[:i] {
+				o.Close()
+			}
+			return err
+		}
+		defer os.Remove(f.Name())
+		files[i] = f
 	}
-	defer os.Remove(bf.Name())
-	mf, err := createOutput(dir, ".members-*.csv")
-	if err != nil {
-		bf.Close()
-		return err
-	}
-	defer os.Remove(mf.Name())
-	genErr := fleetgen.Generate(opt, bf, mf)
-	for _, f := range []*os.File{bf, mf} {
+	opt.Tables = files[2]
+	genErr := fleetgen.Generate(opt, files[0], files[1])
+	for _, f := range files {
 		if err := f.Close(); err != nil && genErr == nil {
 			genErr = err
 		}
@@ -72,12 +75,11 @@ func writeFleet(opt fleetgen.Options, dir string, done func(b, m string)) error 
 	if genErr != nil {
 		return genErr
 	}
-	if err := os.Rename(bf.Name(), bPath); err != nil {
-		return err
+	for i, n := range names {
+		if err := os.Rename(files[i].Name(), filepath.Join(dir, n)); err != nil {
+			return err
+		}
 	}
-	if err := os.Rename(mf.Name(), mPath); err != nil {
-		return err
-	}
-	done(bPath, mPath)
+	done(filepath.Join(dir, names[0]), filepath.Join(dir, names[1])+", "+filepath.Join(dir, names[2]))
 	return nil
 }

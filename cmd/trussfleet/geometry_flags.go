@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"github.com/spf13/cobra"
+	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/truss"
 )
 
@@ -14,6 +15,9 @@ import (
 // commands share them.
 type geometryFlags struct {
 	p truss.Params
+	// depths is --depths as given; table and tableBridge name a joint-table file and the
+	// bridge in it (geometry_table.go).
+	depths, table, tableBridge string
 }
 
 // add defines the flags; span, panels and depth are required unless the command takes the
@@ -26,6 +30,7 @@ func (g *geometryFlags) add(cmd *cobra.Command, required bool) {
 	f.Float64Var(&g.p.DepthM, "depth", 0, "depth between chord centre lines, m")
 	f.StringVar(&g.p.Deck, "deck", "through", "deck position: through (deck at the bottom chord) or deck (at the top)")
 	f.StringVar(&g.p.EndPosts, "end-posts", "", "pratt and howe: inclined or vertical (default inclined for through, vertical for deck)")
+	g.addForms(cmd)
 	if !required {
 		return
 	}
@@ -40,7 +45,7 @@ var geometryRequired = []string{"span", "panels", "depth"}
 // given lists the geometry flags set on the command line, as "--name".
 func (g *geometryFlags) given(cmd *cobra.Command) []string {
 	var out []string
-	for _, name := range []string{"type", "span", "panels", "depth", "deck", "end-posts"} {
+	for _, name := range []string{"type", "span", "panels", "depth", "deck", "end-posts", "depths", "end-depth", "spans", "table", "table-bridge"} {
 		if cmd.Flags().Changed(name) {
 			out = append(out, "--"+name)
 		}
@@ -51,6 +56,9 @@ func (g *geometryFlags) given(cmd *cobra.Command) []string {
 // missing lists the required geometry flags not set on the command line, as "--name".
 func (g *geometryFlags) missing(cmd *cobra.Command) []string {
 	var out []string
+	if g.table != "" {
+		return nil
+	}
 	for _, name := range geometryRequired {
 		if !cmd.Flags().Changed(name) {
 			out = append(out, "--"+name)
@@ -60,20 +68,27 @@ func (g *geometryFlags) missing(cmd *cobra.Command) []string {
 }
 
 // build lays out the truss, naming the flag at fault when the parameters are bad.
-func (g *geometryFlags) build() (*truss.Truss, error) {
+func (g *geometryFlags) build() (*truss.Truss, analysis.Options, error) {
+	if g.table != "" {
+		return g.fromTable()
+	}
+	if err := g.parseDepths(); err != nil {
+		return nil, analysis.Options{}, err
+	}
 	t, err := truss.Build(g.p)
 	var pe *truss.ParamError
 	if errors.As(err, &pe) {
-		return nil, fmt.Errorf("--%s %v: %s", paramFlags[pe.Param], pe.Value, pe.Allowed)
+		return nil, analysis.Options{}, fmt.Errorf("--%s %v: %s", paramFlags[pe.Param], pe.Value, pe.Allowed)
 	}
 	if err != nil {
-		return nil, fmt.Errorf("truss geometry: %w", err)
+		return nil, analysis.Options{}, fmt.Errorf("truss geometry: %w", err)
 	}
-	return t, nil
+	return t, analysis.Options{}, nil
 }
 
 // paramFlags names the flag of each geometry parameter.
-var paramFlags = map[string]string{"type": "type", "span": "span", "panels": "panels", "depth": "depth", "deck": "deck", "end_posts": "end-posts"}
+var paramFlags = map[string]string{"type": "type", "span": "span", "panels": "panels", "depth": "depth", "deck": "deck", "end_posts": "end-posts",
+	"depths": "depths", "end_depth": "end-depth", "spans": "spans"}
 
 // outputFormat validates a --format value against the formats a command offers.
 func outputFormat(got string, allowed ...string) error {

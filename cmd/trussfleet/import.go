@@ -49,6 +49,7 @@ updated, and re-importing the same file changes nothing.`,
 	}
 	cmd.AddCommand(bridges, members,
 		sub("trains FILE|DIR", "Import a train file, or every .yaml train file of a directory", importers.ImportTrains),
+		sub("trusses FILE", "Import joint tables: the trusses of bridges whose truss_type is table (the bridges must be imported first)", importers.ImportTrussTablesFile),
 	)
 	return cmd
 }
@@ -65,6 +66,10 @@ func printImport(w io.Writer, r importers.Result) {
 	if r.Format != "" {
 		// A sheet's name is the workbook's own text.
 		fmt.Fprintf(w, "  read as %s\n", safetext.Terminal(r.Format))
+	}
+	for _, n := range r.Notes {
+		// A note quotes bridge ids, the file's own text.
+		fmt.Fprintf(w, "  %s\n", safetext.Terminal(n))
 	}
 	if len(r.Ignored) > 0 {
 		// The names are the file's own header text.

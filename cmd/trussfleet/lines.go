@@ -24,19 +24,25 @@ func newLinesCmd(a *app) *cobra.Command {
 	var sf sectionFlags
 	cmd := &cobra.Command{
 		Use:   "lines",
-		Short: "Print every member's influence line for one parametric truss",
+		Short: "Print every member's influence line for one parametric truss or joint table",
 		Example: "  trussfleet lines --type pratt --span 48 --panels 8 --depth 6\n" +
-			"  trussfleet lines --type howe --span 40 --panels 8 --depth 5 --deck deck --format json",
+			"  trussfleet lines --type howe --span 40 --panels 8 --depth 5 --deck deck --format json\n" +
+			"  trussfleet lines --type pratt --span 80 --panels 10 --depth 11 --end-depth 7.5\n" +
+			"  trussfleet lines --type pratt --span 48 --panels 6 --depth 7 --spans 2\n" +
+			"  trussfleet lines --table testdata/demo/trusses.csv --table-bridge NER-00015",
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
 			if err := outputFormat(format, "table", "csv", "json"); err != nil {
 				return err
 			}
-			t, err := g.build()
+			if miss := g.missing(cmd); len(miss) > 0 {
+				return fmt.Errorf("%s not set: give the truss geometry (--type, --span, --panels, --depth, ...) or a joint table (--table FILE)", strings.Join(miss, ", "))
+			}
+			t, aopt, err := g.build()
 			if err != nil {
 				return err
 			}
-			l, err := analysis.InfluenceLines(t, analysis.Options{})
+			l, err := analysis.InfluenceLines(t, aopt)
 			if err != nil {
 				return err
 			}
@@ -65,7 +71,7 @@ func newLinesCmd(a *app) *cobra.Command {
 			return linesTable(w, t, l)
 		},
 	}
-	g.add(cmd, true)
+	g.add(cmd, false)
 	sf.add(cmd)
 	cmd.Flags().StringVar(&format, "format", "table", "output: table, csv or json")
 	return cmd

@@ -226,13 +226,13 @@ func newSystem(t *truss.Truss, ea []float64) (*system, error) {
 	}
 	_, ok := lapack64.Pbtrf(blas64.SymmetricBand{Uplo: blas.Upper, N: s.n, K: kd, Data: s.band, Stride: ld})
 	if !ok {
-		return nil, ErrMechanism
+		return nil, mechanism(t, s, "")
 	}
 	// A pivot that lost nearly all of its diagonal term marks a mechanism that rounding
 	// kept from failing the factorisation outright.
 	for i := range diag {
 		if p := s.band[i*ld]; p*p < minPivotRatio*diag[i] {
-			return nil, fmt.Errorf("%w: pivot %d is %.3g of its stiffness", ErrMechanism, i, p*p/diag[i])
+			return nil, mechanism(t, s, fmt.Sprintf("pivot %d is %.3g of its stiffness", i, p*p/diag[i]))
 		}
 	}
 	return s, nil

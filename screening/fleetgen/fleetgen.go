@@ -27,6 +27,9 @@ type Options struct {
 	StoredRatingShare float64
 	// MarginLow and MarginHigh bound a bridge's design margin over its design loading.
 	MarginLow, MarginHigh float64
+	// Tables, when set, receives the joint tables (trusses.csv) of the bridges the
+	// generator gives as tables; without it none is.
+	Tables io.Writer
 }
 
 // Defaults gives the options the demo uses, apart from the reference train.
@@ -44,7 +47,8 @@ var (
 // BridgeHeader and MemberHeader are the CSV columns written.
 var (
 	BridgeHeader = []string{"bridge_id", "name", "line", "chainage_km", "truss_type", "span_m", "panels", "depth_m", "deck", "end_posts", "trusses", "truss_share", "tracks", "dead_load_kn_per_m", "year_built", "latitude", "longitude", "last_inspected",
-		"truss_spacing_m", "track_offsets_m", "line_speed_kmh", "first_frequency_hz", "truss_weight_kn_per_m"}
+		"truss_spacing_m", "track_offsets_m", "line_speed_kmh", "first_frequency_hz", "truss_weight_kn_per_m",
+		"depths_m", "end_depth_m", "spans"}
 	MemberHeader = []string{"bridge_id", "member", "capacity_tension_kn", "capacity_compression_kn", "rating_factor", "reference_train", "condition_factor", "area_mm2", "fatigue_category"}
 )
 
@@ -69,10 +73,14 @@ func Generate(opt Options, bridgesOut, membersOut io.Writer) error {
 	}
 	var w screening.Screener
 	byEra := map[float64]*screening.Settings{}
+	tw := newTableWriter(opt.Tables)
 	for i := 0; i < opt.Bridges; i++ {
 		li := r.IntN(len(lines))
 		chainage[li] += 0.4 + r.Float64()*6
 		b, row := inventBridge(r, i, li, chainage[li])
+		if err := inventForm(r, &b, row, tw); err != nil {
+			return err
+		}
 		year, _ := strconv.Atoi(row[14])
 		set, ok := byEra[designE(year)]
 		if !ok {
@@ -98,6 +106,9 @@ func Generate(opt Options, bridgesOut, membersOut io.Writer) error {
 	}
 	bw.Flush()
 	mw.Flush()
+	if err := tw.flush(); err != nil {
+		return err
+	}
 	if err := bw.Error(); err != nil {
 		return err
 	}
@@ -163,7 +174,7 @@ func inventBridge(r *rand.Rand, i, line int, chainage float64) (screening.Bridge
 		TrussShare: 0.5, Tracks: tracks, DeadLoadKNPerM: dead,
 	}
 	row := []string{id, name, lines[line], f(round(chainage, 0.001)), typ, f(span), strconv.Itoa(n), f(depth), deck, "", "2", "0.5",
-		strconv.Itoa(tracks), f(dead), strconv.Itoa(year), "", "", inspected, "", "", "", "", ""}
+		strconv.Itoa(tracks), f(dead), strconv.Itoa(year), "", "", inspected, "", "", "", "", "", "", "", ""}
 	withSection(&b, row, i, tracks)
 	return b, row
 }
@@ -176,7 +187,8 @@ func inventBridge(r *rand.Rand, i, line int, chainage float64) (screening.Bridge
 // as a third of its dead load. Invented values of the demo railway.
 func withSection(b *screening.Bridge, row []string, i, tracks int) {
 	// The columns of BridgeHeader.
-	const share, nTracks, spacing, offsets, speed, weight = 11, 12, 18, 19, 20, 22
+	share, nTracks, spacing, offsets := BridgeColumn("truss_share"), BridgeColumn("tracks"), BridgeColumn("truss_spacing_m"), BridgeColumn("track_offsets_m")
+	speed, weight := BridgeColumn("line_speed_kmh"), BridgeColumn("truss_weight_kn_per_m")
 	switch {
 	case tracks == 2:
 		b.TrussSpacingM, b.TrackOffsetsM = 9.4, []float64{-2.25, 2.25}

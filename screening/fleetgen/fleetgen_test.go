@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/csv"
 	"strconv"
+	"strings"
 	"testing"
 
 	"github.com/trussfleet/trussfleet/configs"
@@ -51,16 +52,31 @@ func TestFleet(t *testing.T) {
 		}
 	}
 	labels := map[string]map[string]bool{}
+	forms := map[string]bool{}
 	types := map[string]bool{}
 	for _, r := range b1[1:] {
 		span, _ := strconv.ParseFloat(r[5], 64)
 		n, _ := strconv.Atoi(r[6])
 		depth, _ := strconv.ParseFloat(r[7], 64)
-		tr, err := truss.Build(truss.Params{Type: r[4], SpanM: span, Panels: n, DepthM: depth, Deck: r[8], EndPosts: r[9]})
+		p := truss.Params{Type: r[4], SpanM: span, Panels: n, DepthM: depth, Deck: r[8], EndPosts: r[9]}
+		for _, d := range strings.Fields(r[BridgeColumn("depths_m")]) {
+			v, _ := strconv.ParseFloat(d, 64)
+			p.DepthsM = append(p.DepthsM, v)
+		}
+		p.EndDepthM, _ = strconv.ParseFloat(r[BridgeColumn("end_depth_m")], 64)
+		p.Spans, _ = strconv.Atoi(r[BridgeColumn("spans")])
+		types[r[4]] = true
+		forms["listed depths"] = forms["listed depths"] || len(p.DepthsM) > 0
+		forms["parabolic chord"] = forms["parabolic chord"] || p.EndDepthM > 0
+		forms["continuous"] = forms["continuous"] || p.Spans > 1
+		forms["deck warren"] = forms["deck warren"] || (p.Type == "warren" && p.Deck == truss.DeckTop)
+		if p.Type == truss.TableType {
+			continue // generated only with a table output (TestFleetTables)
+		}
+		tr, err := truss.Build(p)
 		if err != nil {
 			t.Fatalf("bridge %s: %v", r[0], err)
 		}
-		types[r[4]] = true
 		labels[r[0]] = map[string]bool{}
 		for _, l := range tr.Labels() {
 			labels[r[0]][l] = true
@@ -68,6 +84,9 @@ func TestFleet(t *testing.T) {
 	}
 	if len(types) != len(truss.Types) {
 		t.Errorf("types %v, want all %d", types, len(truss.Types))
+	}
+	if len(forms) != 4 || !forms["listed depths"] || !forms["parabolic chord"] || !forms["continuous"] || !forms["deck warren"] {
+		t.Errorf("forms %v, want every one", forms)
 	}
 	stored := 0
 	for _, r := range m1[1:] {

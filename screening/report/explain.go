@@ -10,6 +10,7 @@ import (
 
 	"github.com/trussfleet/trussfleet/internal/safetext"
 	"github.com/trussfleet/trussfleet/internal/units"
+	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/traffic"
@@ -41,7 +42,7 @@ func ExplainIn(w io.Writer, run Run, b Bridge, member string, u units.System) er
 			idx, member = i, m.Label
 		}
 	}
-	t, err := truss.Build(b.Truss)
+	t, aopt, err := screening.Geometry(b.Truss, b.Table)
 	if err != nil {
 		return fmt.Errorf("bridge %s: rebuilding its %s geometry: %w", safetext.Terminal(b.Row.BridgeID), safetext.Terminal(b.Truss.Type), err)
 	}
@@ -60,7 +61,7 @@ func ExplainIn(w io.Writer, run Run, b Bridge, member string, u units.System) er
 	if k < 0 {
 		return fmt.Errorf("bridge %s: member %q is not in the rebuilt %s geometry (members: %s)", safetext.Terminal(b.Row.BridgeID), safetext.Terminal(member), t.Params.Type, strings.Join(t.Labels(), ", "))
 	}
-	lines, err := analysis.InfluenceLines(t, analysis.Options{})
+	lines, err := analysis.InfluenceLines(t, aopt)
 	if err != nil {
 		return fmt.Errorf("bridge %s: influence lines: %w", safetext.Terminal(b.Row.BridgeID), err)
 	}
@@ -92,6 +93,9 @@ func ExplainIn(w io.Writer, run Run, b Bridge, member string, u units.System) er
 	p("  %s truss, %s, span %s %s, %d panels, depth %s %s", tp.Type, orText(tp.Deck, truss.Through), length(tp.SpanM), lu, tp.Panels, length(tp.DepthM), lu)
 	if tp.EndPosts != "" {
 		p(", %s end posts", tp.EndPosts)
+	}
+	if specialForm(t) {
+		p("\n  %s", formCaption(t, u))
 	}
 	p("\n  truss share %s x %d track(s) = %s of each train's load; dead load %s %s on this truss\n",
 		num(b.TrussShare, 3), max(b.Tracks, 1), num(b.liveShare(), 3), qty(u, units.PerLength, b.DeadLoadKNPerM), kNm)

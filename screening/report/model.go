@@ -51,7 +51,9 @@ type Bridge struct {
 	Row BridgeRow
 	// Truss is the geometry as screened; the report rebuilds the truss and its influence
 	// lines from it (cheap and exact).
-	Truss          truss.Params
+	Truss truss.Params
+	// Table is the joint table of a bridge whose truss type is "table" (nil otherwise).
+	Table          *truss.Table
 	TrussShare     float64
 	Tracks         int
 	DeadLoadKNPerM float64

@@ -418,15 +418,17 @@ type bridgeView struct {
 	Row BridgeRow
 	// Where is the bridge's chainage and rank, after its line (Row.Line), which the page
 	// isolates as inventory text.
-	Where      string
-	Facts      []keyValue
-	Problem    string
-	Elevation  *elevation
-	Bands      []band
-	DeckWord   string
-	MemberRows []memberRow
-	Equation   string
-	Sections   []section
+	Where     string
+	Facts     []keyValue
+	Problem   string
+	Elevation *elevation
+	Bands     []band
+	DeckWord  string
+	// SupportWord says where the bearings are (forms.go).
+	SupportWord string
+	MemberRows  []memberRow
+	Equation    string
+	Sections    []section
 }
 
 type memberRow struct {
@@ -485,10 +487,17 @@ func bridgePage(run Run, b Bridge, u units.System) bridgeView {
 	for _, m := range b.Members {
 		byLabel[m.Label] = m
 	}
-	t, err := truss.Build(p)
+	t, aopt, err := screening.Geometry(p, b.Table)
 	var lines *analysis.Lines
 	if err == nil {
-		lines, err = analysis.InfluenceLines(t, analysis.Options{})
+		lines, err = analysis.InfluenceLines(t, aopt)
+	}
+	v.SupportWord = "Pin at the left bearing, roller at the right."
+	if err == nil {
+		v.SupportWord = supportWord(t)
+	}
+	if err == nil && specialForm(t) {
+		v.Facts = append(v.Facts, keyValue{"form", formCaption(t, u)})
 	}
 	if err != nil {
 		v.Problem = "The truss could not be rebuilt from its stored geometry, so it is not drawn: " + err.Error()

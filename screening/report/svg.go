@@ -49,32 +49,34 @@ type line struct{ X1, Y1, X2, Y2 float64 }
 // drawElevation draws truss t with its members styled by proposed RF; members by label.
 func drawElevation(t *truss.Truss, run Run, members map[string]Member, u units.System) elevation {
 	const margin, top, bottom = 40.0, 46.0, 74.0
-	span := t.SpanM()
-	depth := 0.0
+	// The drawing covers every joint: a joint table's truss need not start at x = 0 nor
+	// keep above y = 0.
+	xlo, xhi, ylo, yhi := math.Inf(1), math.Inf(-1), math.Inf(1), math.Inf(-1)
 	for _, j := range t.Joints {
-		depth = math.Max(depth, j.Y)
+		xlo, xhi, ylo, yhi = math.Min(xlo, j.X), math.Max(xhi, j.X), math.Min(ylo, j.Y), math.Max(yhi, j.Y)
 	}
+	span, depth := xhi-xlo, yhi-ylo
 	s := (svgWidth - 2*margin) / span
 	// Very shallow or very deep trusses keep a drawing of sensible height.
 	s = math.Min(s, 360/math.Max(depth, 1e-9))
 	width := span * s
 	x0 := (svgWidth - width) / 2
 	e := elevation{W: svgWidth, H: top + depth*s + bottom}
-	px := func(x float64) float64 { return x0 + x*s }
-	py := func(y float64) float64 { return top + (depth-y)*s }
+	px := func(x float64) float64 { return x0 + (x-xlo)*s }
+	py := func(y float64) float64 { return top + (yhi-y)*s }
 	supported := map[int]bool{}
 	for _, sp := range t.Supports {
 		supported[sp.Joint] = true
 	}
 	for i, j := range t.Joints {
 		dx, dy, anchor := 0.0, 16.0, "middle"
-		if j.Y > depth/2 {
+		if j.Y-ylo > depth/2 {
 			dy = -9
 		}
 		if supported[i] {
 			// Beside the bearing symbol rather than under it.
 			dx, dy, anchor = -16, 14, "end"
-			if j.X > span/2 {
+			if j.X-xlo > span/2 {
 				dx, anchor = 16, "start"
 			}
 		}
@@ -149,8 +151,7 @@ func drawElevation(t *truss.Truss, run Run, members map[string]Member, u units.S
 		y := py(t.Joints[t.DeckJoints[0]].Y)
 		e.Deck = line{px(dx[0]), y, px(dx[len(dx)-1]), y}
 	}
-	e.Span = elevText{X: svgWidth / 2, Y: e.H - 8, Anchor: "middle", Text: fmt.Sprintf("span %s %s, %d panels, depth %s %s",
-		qty(u, units.Length, span), u.Name(units.Length), t.Params.Panels, qty(u, units.Length, t.Params.DepthM), u.Name(units.Length))}
+	e.Span = elevText{X: svgWidth / 2, Y: e.H - 8, Anchor: "middle", Text: formCaption(t, u)}
 	return e
 }
 

@@ -12,48 +12,54 @@ func init() {
 	register(&Type{
 		Name: "pratt", Summary: "verticals; diagonals slope down toward midspan (tension under load)",
 		EvenPanels: true, MinPanels: 2, EndPosts: posts, DeckAllowed: []string{Through, DeckTop},
-		DefaultEndPosts: defaults, DeckNeeds: needs,
+		DefaultEndPosts: defaults, DeckNeeds: needs, Polygonal: true, Continuous: true,
 		layout: func(b *builder, p Params) { postTruss(b, p, false) },
 	})
 	register(&Type{
 		Name: "howe", Summary: "verticals; diagonals slope up toward midspan (compression under load)",
 		EvenPanels: true, MinPanels: 2, EndPosts: posts, DeckAllowed: []string{Through, DeckTop},
-		DefaultEndPosts: defaults, DeckNeeds: needs,
+		DefaultEndPosts: defaults, DeckNeeds: needs, Polygonal: true, Continuous: true,
 		layout: func(b *builder, p Params) { postTruss(b, p, true) },
 	})
 	register(&Type{
-		Name: "warren", Summary: "no verticals; top joints at mid-panel, diagonals alternate",
-		MinPanels: 2, DeckAllowed: []string{Through},
+		Name: "warren", Summary: "no verticals; top joints at mid-panel, diagonals alternate (deck: turned over, bearing at the deck chord's ends)",
+		MinPanels: 2, DeckAllowed: []string{Through, DeckTop}, Polygonal: true,
 		layout: warren,
 	})
 	register(&Type{
 		Name: "warren-verticals", Summary: "zig-zag diagonals with a vertical at every interior joint",
-		EvenPanels: true, MinPanels: 2, DeckAllowed: []string{Through},
+		EvenPanels: true, MinPanels: 2, DeckAllowed: []string{Through}, Polygonal: true, Continuous: true,
 		layout: warrenVerticals,
+	})
+	register(&Type{
+		Name: "pratt-sub-struts", Summary: "Pratt with halved panels: hangers and sub-struts from the main diagonals' midpoints",
+		EvenPanels: true, PanelsMultiple: 4, MinPanels: 4, EndPosts: posts, DeckAllowed: []string{Through},
+		DefaultEndPosts: defaults, Polygonal: true,
+		layout: func(b *builder, p Params) { subdividedPratt(b, p, false) },
+	})
+	register(&Type{
+		Name: "pratt-sub-ties", Summary: "Pratt with halved panels: hangers and sub-ties from the main diagonals' midpoints",
+		EvenPanels: true, PanelsMultiple: 4, MinPanels: 4, EndPosts: posts, DeckAllowed: []string{Through},
+		DefaultEndPosts: defaults, Polygonal: true,
+		layout: func(b *builder, p Params) { subdividedPratt(b, p, true) },
+	})
+	register(&Type{
+		Name: "k-truss", Summary: "verticals split at mid-height, two inclined members from each split toward midspan",
+		EvenPanels: true, MinPanels: 2, EndPosts: posts, DeckAllowed: []string{Through, DeckTop},
+		DefaultEndPosts: defaults, DeckNeeds: needs, Polygonal: true,
+		layout: kTruss,
 	})
 }
 
-// postTruss lays out a Pratt (howe=false) or a Howe (howe=true) truss.
+// postTruss lays out a Pratt (howe=false) or a Howe (howe=true) truss, over one span or
+// continuous over several (each span's diagonals mirror about its own midspan).
 func postTruss(b *builder, p Params, howe bool) {
-	n := p.Panels
-	dx := p.SpanM / float64(n)
+	per := p.Panels
+	n := per * spanCount(p)
+	dx := p.SpanM / float64(per)
 	inclined := p.EndPosts == Inclined
-	for i := 0; i <= n; i++ {
-		b.joint(L(i), float64(i)*dx, 0)
-	}
-	first, last := 0, n
-	if inclined {
-		first, last = 1, n-1
-	}
-	for i := first; i <= last; i++ {
-		b.joint(U(i), float64(i)*dx, p.DepthM)
-	}
-	for i := 0; i < n; i++ {
-		b.member(L(i), L(i+1), BottomChord)
-	}
-	for i := first; i < last; i++ {
-		b.member(U(i), U(i+1), TopChord)
-	}
+	first, last := b.lowerAndUpper(n, dx, inclined, 1)
+	b.chords(n, first, last, 1)
 	for i := first; i <= last; i++ {
 		kind := Vertical
 		if i == 0 || i == n {
@@ -66,7 +72,7 @@ func postTruss(b *builder, p Params, howe bool) {
 		b.member(U(n-1), L(n), EndPost)
 	}
 	for i := first; i < n-first; i++ {
-		left := 2*i < n
+		left := 2*(i%per) < per
 		// A Pratt diagonal runs from the top joint on the outer side down toward midspan.
 		if left != howe {
 			b.member(U(i), L(i+1), Diagonal)
@@ -75,6 +81,7 @@ func postTruss(b *builder, p Params, howe bool) {
 		}
 	}
 	b.supports(L(0), L(n))
+	b.piers(per, n)
 	if p.Deck == DeckTop {
 		b.deckRow("U")
 	} else {
@@ -83,13 +90,17 @@ func postTruss(b *builder, p Params, howe bool) {
 }
 
 func warren(b *builder, p Params) {
+	if p.Deck == DeckTop {
+		deckWarren(b, p)
+		return
+	}
 	n := p.Panels
 	dx := p.SpanM / float64(n)
 	for i := 0; i <= n; i++ {
 		b.joint(L(i), float64(i)*dx, 0)
 	}
 	for i := 1; i <= n; i++ {
-		b.joint(U(i), (float64(i)-0.5)*dx, p.DepthM)
+		b.top(U(i), (float64(i)-0.5)*dx)
 	}
 	for i := 0; i < n; i++ {
 		b.member(L(i), L(i+1), BottomChord)
@@ -106,13 +117,13 @@ func warren(b *builder, p Params) {
 }
 
 func warrenVerticals(b *builder, p Params) {
-	n := p.Panels
-	dx := p.SpanM / float64(n)
+	n := p.Panels * spanCount(p)
+	dx := p.SpanM / float64(p.Panels)
 	for i := 0; i <= n; i++ {
 		b.joint(L(i), float64(i)*dx, 0)
 	}
 	for i := 1; i < n; i++ {
-		b.joint(U(i), float64(i)*dx, p.DepthM)
+		b.top(U(i), float64(i)*dx)
 	}
 	for i := 0; i < n; i++ {
 		b.member(L(i), L(i+1), BottomChord)
@@ -131,6 +142,7 @@ func warrenVerticals(b *builder, p Params) {
 		}
 	}
 	b.supports(L(0), L(n))
+	b.piers(p.Panels, n)
 	b.deckRow("L")
 }
 
@@ -144,6 +156,9 @@ type builder struct {
 	p     Params
 	t     Truss
 	index map[string]int
+	// nTop counts the top-chord joints added so far (top), firstTopX is the first one's x.
+	nTop      int
+	firstTopX float64
 }
 
 func (b *builder) joint(name string, x, y float64) {
@@ -156,7 +171,7 @@ func (b *builder) joint(name string, x, y float64) {
 func (b *builder) member(a, c string, kind Kind) {
 	ia, ic := b.index[a], b.index[c]
 	ja, jc := b.t.Joints[ia], b.t.Joints[ic]
-	if jc.X < ja.X || (jc.X == ja.X && jc.Name[0] == 'L' && ja.Name[0] != 'L') {
+	if jc.X < ja.X || (jc.X == ja.X && rowRank(jc.Name) < rowRank(ja.Name)) {
 		ia, ic = ic, ia
 		a, c = c, a
 	}

@@ -10,7 +10,8 @@ import (
 
 // TestDeterminateCount checks m + 3 = 2j for random valid parameters of every type: the
 // counting condition for a statically determinate plane truss on a pin and a roller (common
-// practice). Stability is checked by solving, in the analysis package's tests.
+// practice). Stability is checked by solving, in the analysis package's tests. A deck Warren
+// for example bears on its upper chord: the count holds the same.
 func TestDeterminateCount(t *testing.T) {
 	rapid.Check(t, func(rt *rapid.T) {
 		p := trusstest.RandomParams(rt)

@@ -39,6 +39,15 @@ type Params struct {
 	DepthM   float64 `json:"depth_m"`   // centre-line distance between the chords
 	Deck     string  `json:"deck"`      // "through" (deck at the bottom chord) or "deck" (at the top); "" means through
 	EndPosts string  `json:"end_posts"` // "inclined" or "vertical"; "" takes the type's default for the deck position
+	// DepthsM gives a polygonal top chord: the depth at every top-chord joint, left to right
+	// (forms.go). Empty: parallel chords, or the parabola of EndDepthM.
+	DepthsM []float64 `json:"depths_m,omitempty"`
+	// EndDepthM, when positive, makes the top chord a parabola: EndDepthM at the first and
+	// last top-chord joints, DepthM at midspan (forms.go).
+	EndDepthM float64 `json:"end_depth_m,omitempty"`
+	// Spans is the number of equal spans of SpanM each over which the truss runs continuous
+	// (1 to 3; 0 means 1), with a roller at every intermediate pier (forms.go).
+	Spans int `json:"spans,omitempty"`
 }
 
 // Joint is a pin of the truss.
@@ -69,11 +78,15 @@ type Truss struct {
 	Supports []Support
 	// DeckJoints are the deck panel points, ordered by increasing x.
 	DeckJoints []int
+	// LengthsM are the spans of a truss built from a table (nil for a parametric one: see
+	// SpanLengthsM).
+	LengthsM []float64
 }
 
-// SpanM is the distance between the bearings.
+// SpanM is the distance between the outer bearings: the length over which the influence
+// lines run (all spans of a continuous truss).
 func (t *Truss) SpanM() float64 {
-	return t.Params.SpanM
+	return t.Params.SpanM * float64(max(t.Params.Spans, 1))
 }
 
 // DeckX gives the abscissae of the deck panel points, in metres from the left bearing.
@@ -122,7 +135,12 @@ type Type struct {
 	DefaultEndPosts map[string]string
 	// DeckNeeds maps a deck position to the end-post form it requires ("" for any).
 	DeckNeeds map[string]string
-	layout    func(b *builder, p Params)
+	// PanelsMultiple, when above 1, is a number the panel count must be a multiple of.
+	PanelsMultiple int
+	// Polygonal says the type may have a polygonal top chord (DepthsM or EndDepthM) as a
+	// through truss; Continuous that it may run over several spans.
+	Polygonal, Continuous bool
+	layout                func(b *builder, p Params)
 }
 
 // Types is the table of parametric truss types, keyed by name. Adding a type is adding an
@@ -170,6 +188,9 @@ func Build(p Params) (*Truss, error) {
 	}
 	b := &builder{p: p, index: map[string]int{}}
 	typ.layout(b, p)
+	if err := b.checkDepths(); err != nil {
+		return nil, err
+	}
 	return b.finish(), nil
 }
 
@@ -182,6 +203,7 @@ func Validate(p Params) (*Type, Params, error) {
 	if !ok {
 		return nil, p, &ParamError{"type", quote(p.Type), "unknown truss type; known types: " + strings.Join(TypeNames(), ", ")}
 	}
+	fillDepth(&p)
 	switch {
 	case math.IsNaN(p.SpanM) || math.IsInf(p.SpanM, 0) || p.SpanM <= 0:
 		return nil, p, &ParamError{"span", p.SpanM, "must be a positive finite length in metres"}
@@ -195,11 +217,16 @@ func Validate(p Params) (*Type, Params, error) {
 		return nil, p, &ParamError{"panels", p.Panels, fmt.Sprintf("must not exceed %d", maxPanels)}
 	case typ.EvenPanels && p.Panels%2 != 0:
 		return nil, p, &ParamError{"panels", p.Panels, fmt.Sprintf("a %s truss needs an even number of panels", typ.Name)}
+	case typ.PanelsMultiple > 1 && p.Panels%typ.PanelsMultiple != 0:
+		return nil, p, &ParamError{"panels", p.Panels, fmt.Sprintf("a %s truss needs a multiple of %d panels (an even number of main panels, each of two sub-panels)", typ.Name, typ.PanelsMultiple)}
+	}
+	if err := validateForm(typ, &p); err != nil {
+		return nil, p, err
 	}
 	if r := p.SpanM / p.DepthM; r < minSpanDepthRatio || r > maxSpanDepthRatio {
 		return nil, p, &ParamError{"depth", p.DepthM, fmt.Sprintf("span/depth is %.3g; allowed %g to %g", r, minSpanDepthRatio, maxSpanDepthRatio)}
 	}
-	if r := p.SpanM / float64(p.Panels) / p.DepthM; r < minPanelDepthRatio || r > maxPanelDepthRatio {
+	if r := p.SpanM / float64(p.Panels) / minDepth(p); r < minPanelDepthRatio || r > maxPanelDepthRatio {
 		return nil, p, &ParamError{"panels", p.Panels, fmt.Sprintf("panel length/depth is %.3g; allowed %g to %g", r, minPanelDepthRatio, maxPanelDepthRatio)}
 	}
 	if p.Deck == "" {
