@@ -36,8 +36,15 @@ func TestScreenForms(t *testing.T) {
 	if table.Err != nil {
 		t.Fatal(table.Err)
 	}
-	want := 1.44/(math.Sqrt(1.2*48)-0.2) + 0.82
+	main := 1.44/(math.Sqrt(1.2*48)-0.2) + 0.82
+	// A hanger (its influence line non-zero at one panel point only) takes the longer
+	// adjacent panel, 8 m, where the truss spacing is not known (DOMAIN.md, from memory).
+	hanger := 1.44/(math.Sqrt(8)-0.2) + 0.82
 	for i, m := range param.Members {
+		want := main
+		if strings.Contains(m.Dynamic.Basis, "hanger") {
+			want = hanger
+		}
 		o := table.Members[i]
 		if m.Label != o.Label || math.Abs(m.Dead-o.Dead) > 1e-9 || math.Abs(m.Proposed.Max.Value-o.Proposed.Max.Value) > 1e-9 ||
 			math.Abs(m.Proposed.Min.Value-o.Proposed.Min.Value) > 1e-9 {

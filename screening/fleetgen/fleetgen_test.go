@@ -59,12 +59,12 @@ func TestFleet(t *testing.T) {
 		n, _ := strconv.Atoi(r[6])
 		depth, _ := strconv.ParseFloat(r[7], 64)
 		p := truss.Params{Type: r[4], SpanM: span, Panels: n, DepthM: depth, Deck: r[8], EndPosts: r[9]}
-		for _, d := range strings.Fields(r[BridgeColumn("depths_m")]) {
+		for _, d := range strings.Fields(r[fleetgen.BridgeColumn("depths_m")]) {
 			v, _ := strconv.ParseFloat(d, 64)
 			p.DepthsM = append(p.DepthsM, v)
 		}
-		p.EndDepthM, _ = strconv.ParseFloat(r[BridgeColumn("end_depth_m")], 64)
-		p.Spans, _ = strconv.Atoi(r[BridgeColumn("spans")])
+		p.EndDepthM, _ = strconv.ParseFloat(r[fleetgen.BridgeColumn("end_depth_m")], 64)
+		p.Spans, _ = strconv.Atoi(r[fleetgen.BridgeColumn("spans")])
 		types[r[4]] = true
 		forms["listed depths"] = forms["listed depths"] || len(p.DepthsM) > 0
 		forms["parabolic chord"] = forms["parabolic chord"] || p.EndDepthM > 0
