@@ -11,6 +11,7 @@ import (
 
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/floor"
 	"github.com/trussfleet/trussfleet/screening/rating"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 	"github.com/trussfleet/trussfleet/screening/truss"
@@ -30,6 +31,12 @@ type Bridge struct {
 	// Members holds the inventory's data by member label; a member missing here has no
 	// capacity data.
 	Members map[string]rating.Member
+	// TrussSpacingM is the distance between the main trusses, centre to centre (m); 0: not known.
+	TrussSpacingM float64
+	// TrackOffsetsM is each track's offset from the bridge's centre line (m), positive toward truss A; nil: not given.
+	TrackOffsetsM []float64
+	// Floor is the inventory's floor system (floor.go).
+	Floor FloorSystem
 }
 
 // LiveShare is the factor on a train's load for the analysed truss.
@@ -70,6 +77,8 @@ type Settings struct {
 	Dynamic    traffic.Dynamic
 	Method     rating.Method
 	Thresholds rating.Thresholds
+	// FloorLengths are the floor elements' determinant lengths; nil: floor.DefaultLengths.
+	FloorLengths *floor.Lengths
 }
 
 // ShareTrains makes the trains that are defined alike, in either scenario or among the
@@ -119,6 +128,9 @@ type MemberResult struct {
 	Dead               float64 // kN
 	Existing, Proposed Envelope
 	Assessment         rating.Assessment
+	// Effect is "moment" (kN·m) or "shear" (kN) for a floor element; "" for a truss
+	// member's axial force (kN).
+	Effect string
 }
 
 // Result is one bridge's outcome.
@@ -130,6 +142,8 @@ type Result struct {
 	Summary rating.Bridge
 	// Governing is the proposed-traffic extreme behind the worst member's lowest RF.
 	Governing *Extreme
+	// Floor says what of the floor system was assumed or not rated; nil where it is not rated.
+	Floor *FloorNotes
 }
 
 // Screener screens bridges one after another, reusing its buffers; one per goroutine.
@@ -138,6 +152,7 @@ type Screener struct {
 	// swept holds the current bridge's envelope under each train swept so far: a train in
 	// both scenarios (or also a reference train) is swept once per bridge.
 	swept []sweptTrain
+	floor floor.Analyser
 }
 
 type sweptTrain struct {
@@ -186,7 +201,7 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 		return fail(fmt.Errorf("geometry: %w", err))
 	}
 	for label := range b.Members {
-		if t.Member(label) < 0 {
+		if t.Member(label) < 0 && !isFloorLabel(label) {
 			return fail(fmt.Errorf("inventory member %q is not in the %s geometry (members: %s)", label, t.Params.Type, strings.Join(t.Labels(), ", ")))
 		}
 	}
@@ -242,6 +257,9 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 		}
 		assess[i] = a
 		res.Members[i] = MemberResult{Label: l.Label, Kind: l.Kind, Dead: dead, Existing: ex[i], Proposed: pr[i], Assessment: a}
+	}
+	if assess, err = w.screenFloor(b, s, t, &res, assess); err != nil {
+		return fail(fmt.Errorf("floor system: %w", err))
 	}
 	res.Summary = rating.Summarise(assess)
 	if w := res.Summary.Worst; w >= 0 {
