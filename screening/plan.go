@@ -8,6 +8,7 @@ import (
 	"sort"
 
 	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/floor"
 	"github.com/trussfleet/trussfleet/screening/rating"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 )
@@ -57,6 +58,9 @@ type Plan struct {
 	// reversal to count; FlagUnrated flags unrated members.
 	Reversal    float64 `json:"reversal_fraction"`
 	FlagUnrated bool    `json:"flag_unrated"`
+	// FloorLengths are the floor elements' determinant lengths where they differ from
+	// floor.DefaultLengths (nil otherwise, which keeps the plans of earlier runs' hashes).
+	FloorLengths *floor.Lengths `json:"floor_lengths,omitempty"`
 }
 
 // Hash is a stable digest of the plan.
@@ -121,6 +125,13 @@ func (p Plan) Settings() (*Settings, error) {
 		}
 	default:
 		return nil, fmt.Errorf("rating method %q: allowed working-stress, factored", p.Method)
+	}
+	if p.FloorLengths != nil {
+		if err := p.FloorLengths.Validate(); err != nil {
+			return nil, err
+		}
+		l := *p.FloorLengths
+		s.FloorLengths = &l
 	}
 	s.Thresholds = rating.Thresholds{Flag: p.Flag, Review: p.Review, WorseFraction: p.Worse,
 		ReversalFraction: p.Reversal, FlagUnrated: p.FlagUnrated}

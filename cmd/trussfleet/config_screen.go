@@ -21,6 +21,8 @@ type ScreenConfig struct {
 	// JobTimeout bounds one job; RescueAfter hands a job whose worker died to another.
 	JobTimeout  time.Duration `mapstructure:"job_timeout"`
 	RescueAfter time.Duration `mapstructure:"rescue_after"`
+	// Floor sets the floor system's determinant lengths (config_floor.go).
+	Floor FloorConfig `mapstructure:"floor"`
 }
 
 // ScenarioConfig is one traffic scenario: the envelope over all its trains.
@@ -74,6 +76,7 @@ func setScreenDefaults(v *viper.Viper) {
 	v.SetDefault("jobs", 4)
 	v.SetDefault("job_timeout", "2m")
 	v.SetDefault("rescue_after", "5m")
+	setFloorDefaults(v)
 }
 
 func (s ScreenConfig) validate() []error {
@@ -126,5 +129,5 @@ func (s ScreenConfig) validate() []error {
 	if s.ChunkSize < 1 || s.ChunkSize > 10000 {
 		bad("chunk_size", "must be from 1 to 10000 bridges per job, got %d", s.ChunkSize)
 	}
-	return errs
+	return append(errs, s.Floor.validate()...)
 }

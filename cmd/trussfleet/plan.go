@@ -20,6 +20,7 @@ func buildPlan(ctx context.Context, db *store.DB, c Config) (screening.Plan, err
 		Flag: s.Thresholds.Flag, Review: s.Thresholds.Review, Worse: s.Thresholds.WorseFraction,
 		Reversal: s.Thresholds.ReversalFraction, FlagUnrated: s.Thresholds.FlagUnrated,
 	}
+	p.FloorLengths = s.Floor.planLengths()
 	if _, err := traffic.ParseDynamic(s.Dynamic); err != nil {
 		return p, fmt.Errorf("configuration key dynamic: %w", err)
 	}
