@@ -9,7 +9,8 @@ import (
 	"github.com/jackc/pgx/v5"
 )
 
-// Table bridges: sql/migrations/001_inventory.sql; input_version and its triggers, 010.
+// Table bridges: sql/migrations/001_inventory.sql; input_version and its triggers, 010; floor
+// system columns, 012.
 
 // Bridge is one span of the inventory, a row of the bridges table. Pointer fields are
 // optional (NULL when nil).
@@ -37,6 +38,11 @@ type Bridge struct {
 	// InputVersion is new whenever a screening input of the bridge changes: its geometry and
 	// loads, or any of its members' rows (sql/migrations/010_input_versions.sql). Read only.
 	InputVersion int64 `json:"-"`
+	// StringerSpacingM, StringerDeadKNPerM and FloorBeamDeadKNPerM are the floor system's
+	// data (migration 012): nil takes the screening's defaults.
+	StringerSpacingM    *float64 `json:"stringer_spacing_m,omitempty"`
+	StringerDeadKNPerM  *float64 `json:"stringer_dead_kn_per_m,omitempty"`
+	FloorBeamDeadKNPerM *float64 `json:"floor_beam_dead_kn_per_m,omitempty"`
 }
 
 // BridgeSummary is a bridge with what is stored about its members.
@@ -50,24 +56,26 @@ var bridgesTable = table{
 	name: "bridges",
 	key:  []string{"bridge_id"},
 	cols: []string{"name", "line", "chainage_km", "truss_type", "span_m", "panels", "depth_m", "deck", "end_posts",
-		"trusses", "truss_share", "tracks", "dead_load_kn_per_m", "year_built", "latitude", "longitude", "last_inspected"},
+		"trusses", "truss_share", "tracks", "dead_load_kn_per_m", "year_built", "latitude", "longitude", "last_inspected",
+		"stringer_spacing_m", "stringer_dead_kn_per_m", "floor_beam_dead_kn_per_m"},
 	touch: "updated_at",
 }
 
 // bridgeColumns is the select list matching scanBridge.
 const bridgeColumns = `b.bridge_id, b.name, b.line, b.chainage_km, b.truss_type, b.span_m, b.panels, b.depth_m, b.deck,
 	b.end_posts, b.trusses, b.truss_share, b.tracks, b.dead_load_kn_per_m, b.year_built, b.latitude, b.longitude,
-	b.last_inspected, b.input_version`
+	b.last_inspected, b.input_version, b.stringer_spacing_m, b.stringer_dead_kn_per_m, b.floor_beam_dead_kn_per_m`
 
 func (b Bridge) values() []any {
 	return []any{b.BridgeID, b.Name, b.Line, b.ChainageKM, b.TrussType, b.SpanM, b.Panels, b.DepthM, b.Deck, b.EndPosts,
-		b.Trusses, b.TrussShare, b.Tracks, b.DeadLoadKNPerM, b.YearBuilt, b.Latitude, b.Longitude, b.LastInspected}
+		b.Trusses, b.TrussShare, b.Tracks, b.DeadLoadKNPerM, b.YearBuilt, b.Latitude, b.Longitude, b.LastInspected,
+		b.StringerSpacingM, b.StringerDeadKNPerM, b.FloorBeamDeadKNPerM}
 }
 
 func (b *Bridge) pointers() []any {
 	return []any{&b.BridgeID, &b.Name, &b.Line, &b.ChainageKM, &b.TrussType, &b.SpanM, &b.Panels, &b.DepthM, &b.Deck,
 		&b.EndPosts, &b.Trusses, &b.TrussShare, &b.Tracks, &b.DeadLoadKNPerM, &b.YearBuilt, &b.Latitude, &b.Longitude,
-		&b.LastInspected, &b.InputVersion}
+		&b.LastInspected, &b.InputVersion, &b.StringerSpacingM, &b.StringerDeadKNPerM, &b.FloorBeamDeadKNPerM}
 }
 
 // ErrNotFound is returned (wrapped) when a named row does not exist.
