@@ -44,8 +44,11 @@ func ScreeningInput(b store.Bridge, members []store.Member) screening.Bridge {
 		DeadLoadKNPerM: b.DeadLoadKNPerM,
 		Members:        make(map[string]rating.Member, len(members)),
 	}
+	floorInput(b, &sb)
 	for _, m := range members {
-		sb.Members[m.Member] = RatingMember(m)
+		if !floorMember(m, &sb) {
+			sb.Members[m.Member] = RatingMember(m)
+		}
 	}
 	return sb
 }

@@ -35,6 +35,13 @@ type bridgeRecord struct {
 	Latitude         string `csv:"latitude"`
 	Longitude        string `csv:"longitude"`
 	LastInspected    string `csv:"last_inspected"`
+	// The floor system's columns (floor.go).
+	StringerSpacingM      string `csv:"stringer_spacing_m"`
+	StringerSpacingFt     string `csv:"stringer_spacing_ft"`
+	StringerDeadKNPerM    string `csv:"stringer_dead_kn_per_m"`
+	StringerDeadKipPerFt  string `csv:"stringer_dead_kip_per_ft"`
+	FloorBeamDeadKNPerM   string `csv:"floor_beam_dead_kn_per_m"`
+	FloorBeamDeadKipPerFt string `csv:"floor_beam_dead_kip_per_ft"`
 }
 
 var (
@@ -50,7 +57,7 @@ var (
 		{name: "truss_type", required: true}, colSpan, {name: "panels", required: true}, colDepth,
 		{name: "deck", required: true}, {name: "end_posts"}, {name: "trusses"}, {name: "truss_share"},
 		{name: "tracks"}, colDeadLoad, {name: "year_built"}, {name: "latitude"}, {name: "longitude"},
-		{name: "last_inspected"},
+		{name: "last_inspected"}, colStringerSpacing, colStringerDead, colFloorBeamDead,
 	}
 )
 
@@ -188,6 +195,7 @@ func parseBridge(r bridgeRecord, p *row) (store.Bridge, bool) {
 		p.fail("latitude", r.Latitude, "give latitude and longitude together, or neither")
 	}
 	b.LastInspected = p.date("last_inspected", r.LastInspected)
+	parseBridgeFloor(r, p, &b)
 	if span == nil || depth == nil {
 		return b, false
 	}

@@ -28,6 +28,11 @@ type memberRecord struct {
 	AreaMM2                string `csv:"area_mm2"`
 	AreaIn2                string `csv:"area_in2"`
 	FatigueCategory        string `csv:"fatigue_category"`
+	// A floor element's capacities (floor.go).
+	CapacityMomentKNM   string `csv:"capacity_moment_knm"`
+	CapacityMomentKipFt string `csv:"capacity_moment_kipft"`
+	CapacityShearKN     string `csv:"capacity_shear_kn"`
+	CapacityShearKip    string `csv:"capacity_shear_kip"`
 }
 
 func (r memberRecord) srcLine() string { return r.SrcLine }
@@ -42,6 +47,7 @@ var (
 		{name: "bridge_id", required: true, maxChars: maxIDChars}, {name: "member", required: true, maxChars: maxIDChars},
 		colTension, colCompression, {name: "rating_factor"}, {name: "reference_train", maxChars: maxNameChars},
 		{name: "rating_sense", maxChars: maxNameChars}, {name: "condition_factor"}, colArea, {name: "fatigue_category", maxChars: maxFatigueCategory},
+		colMoment, colShear,
 	}
 )
 
@@ -120,6 +126,7 @@ func (g *StoredGeometry) Labels(bridgeID string) (map[string]string, []string, s
 		for _, l := range ls.ordered {
 			ls.set[strings.ToUpper(l)] = l
 		}
+		floorLabels(ls, len(t.DeckJoints)-1, b.Tracks)
 	} else {
 		// Stored bridges were built on import; one that no longer builds has no labels.
 		ls.desc += fmt.Sprintf(" that cannot be built (%v)", err)
@@ -173,8 +180,8 @@ func parseMember(r memberRecord, p *row, geom Geometry) (store.Member, bool) {
 	if r.RatingSense != "" {
 		sense := strings.ToLower(strings.TrimSpace(r.RatingSense))
 		switch {
-		case sense != "tension" && sense != "compression":
-			p.fail("rating_sense", r.RatingSense, "must be tension or compression: the sense the rating_factor was rated in (leave it empty to take the sense its reference_train governs)")
+		case sense != "tension" && sense != "compression" && sense != "moment" && sense != "shear":
+			p.fail("rating_sense", r.RatingSense, "must be tension or compression (a floor element: moment or shear): the sense the rating_factor was rated in (leave it empty to take the sense its reference_train governs)")
 		case r.RatingFactor == "":
 			p.fail("rating_sense", r.RatingSense, "is given without a rating_factor")
 		default:
@@ -191,10 +198,11 @@ func parseMember(r memberRecord, p *row, geom Geometry) (store.Member, bool) {
 		}
 	}
 	noCapacity := r.CapacityTensionKN == "" && r.CapacityTensionKip == "" &&
-		r.CapacityCompressionKN == "" && r.CapacityCompressionKip == "" && r.RatingFactor == ""
+		r.CapacityCompressionKN == "" && r.CapacityCompressionKip == "" && r.RatingFactor == "" &&
+		!hasFloorCapacity(r)
 	if noCapacity {
-		p.fail(p.pick(colTension), "", "no capacity: give capacity_tension and/or capacity_compression, "+
-			"or a rating_factor with its reference_train")
+		p.fail(p.pick(colTension), "", "no capacity: give capacity_tension and/or capacity_compression "+
+			"(a floor element: capacity_moment and/or capacity_shear), or a rating_factor with its reference_train")
 	}
 	if m.BridgeID != "" && m.Member != "" {
 		set, ordered, desc, ok := geom.Labels(m.BridgeID)
@@ -206,6 +214,7 @@ func parseMember(r memberRecord, p *row, geom Geometry) (store.Member, bool) {
 				m.BridgeID, desc, strings.Join(ordered, ", "))
 		default:
 			m.Member = set[strings.ToUpper(m.Member)]
+			parseMemberFloor(r, p, &m)
 		}
 	}
 	return m, p.ok
