@@ -3,7 +3,6 @@ package screening
 import (
 	"fmt"
 	"math"
-	"strings"
 
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/floor"
@@ -27,8 +26,8 @@ type FloorNotes = floor.Notes
 
 // isFloorLabel says whether a member label is a floor element's result label.
 func isFloorLabel(label string) bool {
-	base, eff, ok := strings.Cut(label, ":")
-	return ok && (eff == "M" || eff == "V") && floor.IsLabel(base)
+	_, _, ok := floor.ResultEffect(label)
+	return ok
 }
 
 // floorSystem describes the bridge's floor system for package floor.
@@ -121,4 +120,14 @@ func (w *Screener) screenFloor(b Bridge, s *Settings, t *truss.Truss, res *Resul
 			Dead: e.Dead, Existing: exE, Proposed: prE, Assessment: a})
 	}
 	return assess, nil
+}
+
+// SenseName names the sense a rating factor of the result rates: "tension" or
+// "compression" for a truss member, the effect ("moment", "shear") for a floor element, whose
+// rating has the one positive sense.
+func (m MemberResult) SenseName(s rating.Sense) string {
+	if m.Effect != "" {
+		return m.Effect
+	}
+	return s.String()
 }

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"strconv"
+	"strings"
 
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/truss"
@@ -494,4 +495,33 @@ func (a *Analyser) Live(s System, els []Element, loads []*envelope.Load) ([]enve
 func (a *Analyser) Reset() {
 	clear(a.lines)
 	clear(a.peaks)
+}
+
+// ResultEffect reads a result's label ("S1-3:M", "FB4:V"): the element's label and the
+// effect; ok false for a label that is not a floor element's result (a truss member's).
+func ResultEffect(label string) (element string, eff Effect, ok bool) {
+	base, suffix, found := strings.Cut(label, ":")
+	if !found || !IsLabel(base) {
+		return "", "", false
+	}
+	switch suffix {
+	case "M":
+		return base, Moment, true
+	case "V":
+		return base, Shear, true
+	}
+	return "", "", false
+}
+
+// KindOf is the kind of the element a result's label names: stringer or floor-beam, or
+// "truss member" for any other label.
+func KindOf(label string) string {
+	base, _, ok := ResultEffect(label)
+	switch {
+	case !ok:
+		return "truss member"
+	case strings.HasPrefix(base, "FB"):
+		return string(KindFloorBeam)
+	}
+	return string(KindStringer)
 }
