@@ -59,13 +59,15 @@ func (w *Screener) screenFloor(b Bridge, s *Settings, t *truss.Truss, res *Resul
 		return nil, err
 	}
 	res.Floor = &notes
-	known := make(map[string]bool, len(els))
-	for _, e := range els {
-		known[e.Label] = true
+	// Every element of the system may hold data, also a floor beam left unrated because the
+	// truss spacing is not known.
+	known := map[string]bool{}
+	for _, l := range floor.Labels(len(sys.PanelX)-1, sys.Tracks) {
+		known[l] = true
 	}
 	for label := range b.Members {
-		if isFloorLabel(label) && !known[label] {
-			return nil, fmt.Errorf("inventory floor element %q is not in this bridge's floor system (%d panels, %d tracks; floor beams rated: %v)", label, len(sys.PanelX)-1, max(b.Tracks, 1), notes.FloorBeamsNotRated == 0)
+		if el, _, ok := floor.ResultEffect(label); ok && !known[el] {
+			return nil, fmt.Errorf("inventory floor element %q is not in this bridge's floor system (%d panels, %d tracks)", el, len(sys.PanelX)-1, sys.Tracks)
 		}
 	}
 	w.floor.Reset()
