@@ -7,8 +7,8 @@ import (
 	"testing"
 
 	"github.com/trussfleet/trussfleet/configs"
-	"github.com/trussfleet/trussfleet/screening/floor"
 	"github.com/trussfleet/trussfleet/screening/fleetgen"
+	"github.com/trussfleet/trussfleet/screening/floor"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 	"github.com/trussfleet/trussfleet/screening/truss"
 )

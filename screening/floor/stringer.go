@@ -1,9 +1,11 @@
 package floor
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"slices"
+	"sort"
 
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/traffic"
@@ -80,22 +82,27 @@ type item struct {
 	fixed bool    // a bearing
 }
 
-// beam is a simple span loaded by a train standing with its front at s.
+// beam is a simple span loaded by a train standing with its front at s. The train's axles
+// are in ascending offset, so those on the span are a window of them, [i0, i1).
 type beam struct {
-	span float64
-	t    *flatTrain
-	s    float64
-	ra   float64 // left reaction
+	span   float64
+	t      *flatTrain
+	s      float64
+	ra     float64 // left reaction
+	i0, i1 int
+	pts    []float64 // scratch of best
 }
 
 func (b *beam) place(s float64) {
 	b.s = s
 	L := b.span
+	ax := b.t.axles
+	// On the span: 0 < s - d < L, that is s - L < d < s.
+	b.i0 = sort.Search(len(ax), func(i int) bool { return ax[i].AtM > s-L })
+	b.i1 = b.i0 + sort.Search(len(ax)-b.i0, func(i int) bool { return ax[b.i0+i].AtM >= s })
 	ra := 0.0
-	for _, a := range b.t.axles {
-		if x := s - a.AtM; x > 0 && x < L {
-			ra += a.LoadKN * (L - x) / L
-		}
+	for _, a := range ax[b.i0:b.i1] {
+		ra += a.LoadKN * (L - (s - a.AtM)) / L
 	}
 	for _, p := range b.t.parts {
 		lo, hi := max(s-p.to, 0), min(s-p.from, L)
@@ -104,6 +111,26 @@ func (b *beam) place(s float64) {
 		}
 	}
 	b.ra = ra
+}
+
+// load is the total load on the span.
+func (b *beam) load() float64 {
+	w := 0.0
+	for _, a := range b.t.axles[b.i0:b.i1] {
+		w += a.LoadKN
+	}
+	return w + b.partLoad()
+}
+
+func (b *beam) partLoad() float64 {
+	w := 0.0
+	for _, p := range b.t.parts {
+		lo, hi := max(b.s-p.to, 0), min(b.s-p.from, b.span)
+		if hi > lo {
+			w += p.q * (hi - lo)
+		}
+	}
+	return w
 }
 
 // x is where an item stands.
@@ -117,8 +144,8 @@ func (b *beam) x(it item) float64 {
 // moment is the bending moment at xi (sagging positive).
 func (b *beam) moment(xi float64) float64 {
 	m := b.ra * xi
-	for _, a := range b.t.axles {
-		if x := b.s - a.AtM; x > 0 && x < xi {
+	for _, a := range b.t.axles[b.i0:b.i1] {
+		if x := b.s - a.AtM; x < xi {
 			m -= a.LoadKN * (xi - x)
 		}
 	}
@@ -134,8 +161,8 @@ func (b *beam) moment(xi float64) float64 {
 // shearRight is the shear just right of xi (the loads at xi included on its left).
 func (b *beam) shearRight(xi float64) float64 {
 	v := b.ra
-	for _, a := range b.t.axles {
-		if x := b.s - a.AtM; x > 0 && x <= xi {
+	for _, a := range b.t.axles[b.i0:b.i1] {
+		if x := b.s - a.AtM; x <= xi {
 			v -= a.LoadKN
 		}
 	}
@@ -162,20 +189,26 @@ func (b *beam) intensity(x float64) float64 {
 // best is the largest moment along the span for the current position: under a load point,
 // or where the shear vanishes inside a stretch of distributed load (for a fixed position the
 // moment is concave between axles, so these are its only maxima).
-func (b *beam) best(items []item) (m, at float64) {
-	pts := make([]float64, 0, len(items))
-	for _, it := range items {
-		if x := b.x(it); x >= 0 && x <= b.span {
-			pts = append(pts, x)
+func (b *beam) best() (m, at float64) {
+	pts := append(b.pts[:0], 0, b.span)
+	for _, a := range b.t.axles[b.i0:b.i1] {
+		pts = append(pts, b.s-a.AtM)
+	}
+	for _, p := range b.t.parts {
+		for _, e := range [2]float64{p.from, p.to} {
+			if x := b.s - e; x > 0 && x < b.span {
+				pts = append(pts, x)
+			}
 		}
 	}
 	slices.Sort(pts)
+	b.pts = pts
 	for k, x := range pts {
 		if v := b.moment(x); v > m {
 			m, at = v, x
 		}
-		if k+1 == len(pts) {
-			break
+		if k+1 == len(pts) || len(b.t.parts) == 0 {
+			continue
 		}
 		x1 := pts[k+1]
 		if w := b.intensity((x + x1) / 2); w > 0 {
@@ -232,24 +265,59 @@ func MaxMoment(t *traffic.Train, spanM float64) (Peak, error) {
 	events = append([]float64{events[0] - spanM}, events...)
 	events = append(events, events[len(events)-1]+spanM)
 
-	items := append(slices.Clone(moving), item{d: 0, fixed: true}, item{d: spanM, fixed: true})
 	b := &beam{span: spanM, t: &ft}
 	probe := &beam{span: spanM, t: &ft}
 	peak := Peak{}
 	try := func(s float64) {
 		probe.place(s)
-		if m, at := probe.best(items); m > peak.Value {
+		if m, at := probe.best(); m > peak.Value {
 			peak.Value, peak.SectionM = m, at
 			peak.Extreme.Placement.HeadM = s
 		}
 	}
-	var cand, ws []float64
+	// No loading of total W on a simple span makes a moment above WL/4: pieces whose bound
+	// cannot beat the peak found are skipped, the most promising first. Within a piece the
+	// axles on the span stay the same and the distributed load is linear in the position.
+	type piece struct{ s0, s1, bound float64 }
+	pieces := make([]piece, 0, len(events))
 	for k := 0; k+1 < len(events); k++ {
 		s0, s1 := events[k], events[k+1]
+		b.place((s0 + s1) / 2)
+		w := b.load() - b.partLoad()
+		b.place(s0)
+		w0 := b.partLoad()
+		b.place(s1)
+		w1 := b.partLoad()
+		pieces = append(pieces, piece{s0, s1, (w + max(w0, w1)) * spanM / 4})
+	}
+	slices.SortFunc(pieces, func(p, q piece) int { return cmp.Compare(q.bound, p.bound) })
+	var cand, ws []float64
+	var on []item
+	for _, pc := range pieces {
+		s0, s1 := pc.s0, pc.s1
+		if pc.bound <= peak.Value {
+			break
+		}
 		try(s0)
 		try(s1)
 		b.place((s0 + s1) / 2)
-		on := onSpan(b, items)
+		if b.partLoad() == 0 && pc.bound == b.load()*spanM/4 {
+			// Axles alone on the span throughout the piece: the moment under axle k is
+			// largest, the classical rule, where mid-span halves the distance between the
+			// axle and the resultant of the axles on the span (clamped to the piece).
+			w, wx := 0.0, 0.0
+			for _, a := range ft.axles[b.i0:b.i1] {
+				w += a.LoadKN
+				wx += a.LoadKN * (b.s - a.AtM)
+			}
+			xbar := wx / w
+			for _, a := range ft.axles[b.i0:b.i1] {
+				xk := b.s - a.AtM
+				try(min(max(b.s+(spanM-xbar-xk)/2, s0), s1))
+			}
+			continue
+		}
+		on = onSpan(b, on[:0])
 		pos := func(u float64) float64 { return s0 + u*(s1-s0) }
 		cand = cand[:0]
 		// Moments under the load points on the span.
@@ -300,12 +368,18 @@ func MaxMoment(t *traffic.Train, spanM float64) (Peak, error) {
 	return peak, nil
 }
 
-// onSpan lists the items standing on the span for b's position, in order along it.
-func onSpan(b *beam, items []item) []item {
-	var out []item
-	for _, it := range items {
-		if x := b.x(it); x >= 0 && x <= b.span {
-			out = append(out, it)
+// onSpan lists the items standing on the span for b's position, in order along it: the
+// bearings, the axles and the parts' ends.
+func onSpan(b *beam, out []item) []item {
+	out = append(out, item{d: 0, fixed: true}, item{d: b.span, fixed: true})
+	for _, a := range b.t.axles[b.i0:b.i1] {
+		out = append(out, item{d: a.AtM})
+	}
+	for _, p := range b.t.parts {
+		for _, e := range [2]float64{p.from, p.to} {
+			if x := b.s - e; !math.IsInf(e, 0) && x >= 0 && x <= b.span {
+				out = append(out, item{d: e})
+			}
 		}
 	}
 	slices.SortFunc(out, func(p, q item) int {

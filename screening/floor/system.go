@@ -347,11 +347,14 @@ func liveCoefficients(b float64, lines [][2]float64) (m, v float64) {
 }
 
 // Analyser computes the live effects of floor systems, reusing its scratch space; one per
-// goroutine.
+// goroutine. Within a bridge (between Resets) it sweeps each train once per distinct panel
+// pair and keeps each train's results, so that a train in both scenarios costs once.
 type Analyser struct {
 	calc  envelope.Calculator
 	lines map[[2]float64]*envelope.Lines
+	swept map[sweepKey][2]envelope.Extreme
 	peaks map[peakKey]Peak
+	track map[*envelope.Load]trackLive
 	ext   []envelope.Extremes
 }
 
@@ -360,83 +363,97 @@ type peakKey struct {
 	span float64
 }
 
+type sweepKey struct {
+	ld          *envelope.Load
+	left, right float64
+}
+
 // trackLive are one train's effects of one track's full load: the stringer spans' largest
 // moments and end shears per panel, and the floor beams' reactions per panel point.
 type trackLive struct {
 	moment, shear, reaction []envelope.Extreme
 }
 
-// linesFor gives the influence line of a floor beam's reaction between panels of lengths
-// left and right (a triangle of height 1 at the panel point), or, where right is 0, the line
-// 1 at a support falling to 0 over one panel of length left: a stringer's end shear, and an
-// end floor beam's reaction.
-func (a *Analyser) linesFor(left, right float64) (*envelope.Lines, error) {
+// pairSweep sweeps the train over two panels of lengths left and right (right 0: one panel)
+// and gives the largest end shear of the left panel's stringer (line 1 at the support falling
+// to 0 over the panel: also an end floor beam's reaction) and, with two panels, the largest
+// reaction of the floor beam between them (a triangle of height 1), each with the line
+// starting at 0. The two lines share one sweep.
+func (a *Analyser) pairSweep(left, right float64, ld *envelope.Load) ([2]envelope.Extreme, error) {
 	if a.lines == nil {
-		a.lines = map[[2]float64]*envelope.Lines{}
+		a.lines, a.swept = map[[2]float64]*envelope.Lines{}, map[sweepKey][2]envelope.Extreme{}
+	}
+	sk := sweepKey{ld, left, right}
+	if r, ok := a.swept[sk]; ok {
+		return r, nil
 	}
 	k := [2]float64{left, right}
-	if l, ok := a.lines[k]; ok {
-		return l, nil
+	l, ok := a.lines[k]
+	if !ok {
+		var err error
+		if right == 0 {
+			l, err = envelope.NewLines([]float64{0, left}, [][]float64{{1, 0}})
+		} else {
+			l, err = envelope.NewLines([]float64{0, left, left + right}, [][]float64{{1, 0, 0}, {0, 1, 0}})
+		}
+		if err != nil {
+			return [2]envelope.Extreme{}, err
+		}
+		a.lines[k] = l
 	}
-	var l *envelope.Lines
 	var err error
-	if right == 0 {
-		l, err = envelope.NewLines([]float64{0, left}, [][]float64{{1, 0}})
-	} else {
-		l, err = envelope.NewLines([]float64{0, left, left + right}, [][]float64{{0, 1, 0}})
-	}
-	if err != nil {
-		return nil, err
-	}
-	a.lines[k] = l
-	return l, nil
-}
-
-// sweep is the largest effect of the train on one line, placed in the bridge's coordinates
-// with the line starting at x0.
-func (a *Analyser) sweep(left, right, x0 float64, ld *envelope.Load) (envelope.Extreme, error) {
-	l, err := a.linesFor(left, right)
-	if err != nil {
-		return envelope.Extreme{}, err
-	}
 	a.ext, err = a.calc.Envelope(l, ld, envelope.Options{}, a.ext[:0])
 	if err != nil {
-		return envelope.Extreme{}, err
+		return [2]envelope.Extreme{}, err
 	}
-	return shift(a.ext[0].Max, x0), nil
+	var r [2]envelope.Extreme
+	r[0] = a.ext[0].Max
+	if right > 0 {
+		r[1] = a.ext[1].Max
+	}
+	a.swept[sk] = r
+	return r, nil
 }
 
 // live sweeps one train over the track's floor-system lines.
 func (a *Analyser) live(x []float64, ld *envelope.Load) (trackLive, error) {
+	if tl, ok := a.track[ld]; ok {
+		return tl, nil
+	}
 	n := len(x) - 1
 	tl := trackLive{moment: make([]envelope.Extreme, n), shear: make([]envelope.Extreme, n), reaction: make([]envelope.Extreme, n+1)}
 	if a.peaks == nil {
-		a.peaks = map[peakKey]Peak{}
+		a.peaks, a.track = map[peakKey]Peak{}, map[*envelope.Load]trackLive{}
 	}
-	var err error
 	for j := 0; j < n; j++ {
 		p := x[j+1] - x[j]
 		k := peakKey{ld, p}
 		pk, ok := a.peaks[k]
 		if !ok {
+			var err error
 			if pk, err = MaxMoment(ld.Train(), p); err != nil {
 				return tl, err
 			}
 			a.peaks[k] = pk
 		}
 		tl.moment[j] = shift(pk.Extreme, x[j])
-		// Both ends and both directions: the span is its own mirror image.
-		if tl.shear[j], err = a.sweep(p, 0, x[j], ld); err != nil {
+		right := 0.0
+		if j+1 < n {
+			right = x[j+2] - x[j+1]
+		}
+		r, err := a.pairSweep(p, right, ld)
+		if err != nil {
 			return tl, err
+		}
+		// Both ends and both directions: the span is its own mirror image.
+		tl.shear[j] = shift(r[0], x[j])
+		if j+1 < n {
+			tl.reaction[j+1] = shift(r[1], x[j])
 		}
 	}
 	tl.reaction[0] = tl.shear[0]
 	tl.reaction[n] = mirror(tl.shear[n-1], x[n-1], x[n])
-	for j := 1; j < n; j++ {
-		if tl.reaction[j], err = a.sweep(x[j]-x[j-1], x[j+1]-x[j], x[j-1], ld); err != nil {
-			return tl, err
-		}
-	}
+	a.track[ld] = tl
 	return tl, nil
 }
 
@@ -494,7 +511,9 @@ func (a *Analyser) Live(s System, els []Element, loads []*envelope.Load) ([]enve
 // panel lengths and trains, so keeping it only costs memory).
 func (a *Analyser) Reset() {
 	clear(a.lines)
+	clear(a.swept)
 	clear(a.peaks)
+	clear(a.track)
 }
 
 // ResultEffect reads a result's label ("S1-3:M", "FB4:V"): the element's label and the
