@@ -110,6 +110,7 @@ func Bridge(ctx context.Context, db *store.DB, run report.Run, bridgeID string) 
 		}
 		out.Members = append(out.Members, *m)
 	}
+	out.Members = append(out.Members, floorMembers(members, held, len(t.DeckJoints)-1, out.Tracks)...)
 	return out, nil
 }
 

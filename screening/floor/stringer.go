@@ -21,6 +21,9 @@ type flatTrain struct {
 	lenM  float64
 	axles []traffic.Axle // offsets behind the front
 	parts []flatPart
+	// cut is the start of a part cut at the unfavourable length (hasCut), for the placement.
+	cut    float64
+	hasCut bool
 }
 
 type flatPart struct {
@@ -40,6 +43,7 @@ func flatten(t *traffic.Train, spanM float64) flatTrain {
 		to := p.ToM
 		if p.Mode == traffic.CutUnfavourable {
 			to = math.Inf(1)
+			f.cut, f.hasCut = p.FromM, true
 		}
 		f.parts = append(f.parts, flatPart{from: p.FromM, to: to, q: p.QKNPerM})
 		for _, e := range []float64{p.FromM, p.ToM} {
@@ -418,6 +422,10 @@ func placement(ft *flatTrain, spanM float64, p Peak) envelope.Extreme {
 	}
 	if lo <= hi {
 		e.LoadedFromM, e.LoadedToM = lo, hi
+	}
+	if ft.hasCut {
+		// The cut part runs from its start back to the span's far bearing (x = 0).
+		e.TrailingM = max(0, s-ft.cut)
 	}
 	return e
 }

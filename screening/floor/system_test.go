@@ -267,3 +267,38 @@ func TestLabels(t *testing.T) {
 		t.Errorf("labels %v", got)
 	}
 }
+
+// TestResultLineReproducesLive: the train placed as the run found it on the element's line
+// gives the element's live effect (superposition, the definition of an influence line);
+// checked against the envelope package's exact sweep over the same line.
+func TestResultLineReproducesLive(t *testing.T) {
+	tr := cooperE80(t)
+	sys := System{PanelX: []float64{0, 5.5, 11, 16.5, 22}, TrussSpacingM: 5}
+	els, _, err := sys.Elements()
+	if err != nil {
+		t.Fatal(err)
+	}
+	var a Analyser
+	live, err := a.Live(sys, els, []*envelope.Load{prepare(t, tr)})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, label := range []string{"S1-2:M", "S1-4:V", "FB2:M", "FB0:V"} {
+		i, e := find(t, els, label)
+		x, eta, _, err := ResultLine(sys.PanelX, label, tr)
+		if err != nil {
+			t.Fatal(err)
+		}
+		res, err := envelope.Compute(x, [][]float64{eta}, tr, envelope.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		want := live[i].Max.Value
+		if e.Kind == KindFloorBeam {
+			want /= e.factor
+		}
+		if math.Abs(res[0].Max.Value-want) > 1e-6*want {
+			t.Errorf("%s: line gives %v, live %v", label, res[0].Max.Value, want)
+		}
+	}
+}
