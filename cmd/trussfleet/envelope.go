@@ -29,6 +29,7 @@ func newEnvelopeCmd(a *app) *cobra.Command {
 	var share float64
 	var dynamic, format string
 	var bridgeID string
+	var fl floorFlags
 	cmd := &cobra.Command{
 		Use:   "envelope",
 		Short: "Print every member's largest tension and compression under one or more trains",
@@ -71,6 +72,7 @@ func newEnvelopeCmd(a *app) *cobra.Command {
 			var calc envelope.Calculator
 			var all, one []envelope.Extremes
 			var names []string
+			var loads []*envelope.Load
 			for _, spec := range specs {
 				tr, err := look.Train(ctx, spec)
 				if err != nil {
@@ -81,6 +83,7 @@ func newEnvelopeCmd(a *app) *cobra.Command {
 					return fmt.Errorf("--train %s: %w", spec, err)
 				}
 				names = append(names, tr.Name)
+				loads = append(loads, ld)
 				one, err = calc.Envelope(lines, ld, opt, one)
 				if err != nil {
 					return fmt.Errorf("--train %s: %w", spec, err)
@@ -96,7 +99,14 @@ func newEnvelopeCmd(a *app) *cobra.Command {
 				DynamicFactor: dyn.Factor(lines.SpanM()),
 			}
 			for i, m := range il.Members {
-				doc.Members = append(doc.Members, memberEnvelope{Label: m.Label, Kind: string(m.Kind), Max: extremeDoc(all[i].Max), Min: extremeDoc(all[i].Min)})
+				doc.Members = append(doc.Members, memberEnvelope{Label: m.Label, Kind: string(m.Kind), Unit: "kN", Max: extremeDoc(all[i].Max), Min: extremeDoc(all[i].Min)})
+			}
+			fs, err := fl.system(ctx, &look, bridgeID, t)
+			if err != nil {
+				return err
+			}
+			if doc.Members, err = floorEnvelopes(doc.Members, fs, loads, dyn); err != nil {
+				return err
 			}
 			w := cmd.OutOrStdout()
 			switch format {
@@ -119,6 +129,7 @@ func newEnvelopeCmd(a *app) *cobra.Command {
 	f.Float64Var(&share, "share", 0.5, "share of the track load carried by one truss (0.5: one track centred between two trusses)")
 	f.StringVar(&dynamic, "dynamic", "none", "dynamic allowance: none, fixed:0.2, phi2, phi3, arema (optionally :l=M determinant length, arema :s=M truss spacing)")
 	f.StringVar(&format, "format", "table", "output: table, csv or json")
+	fl.add(cmd)
 	return cmd
 }
 
@@ -171,10 +182,13 @@ type envelopeDoc struct {
 }
 
 type memberEnvelope struct {
-	Label string      `json:"label"`
-	Kind  string      `json:"kind"`
-	Max   extremeJSON `json:"max"`
-	Min   extremeJSON `json:"min"`
+	Label string `json:"label"`
+	Kind  string `json:"kind"`
+	// Unit is the values' unit: kN for a truss member's force and a floor element's shear,
+	// kN·m for a floor element's moment.
+	Unit string      `json:"unit"`
+	Max  extremeJSON `json:"max"`
+	Min  extremeJSON `json:"min"`
 }
 
 // extremeJSON is one extreme; the placement fields are absent when no train is on the bridge.
@@ -236,6 +250,7 @@ func envelopeTable(w io.Writer, typ string, span float64, doc envelopeDoc) error
 		fmt.Fprintf(w, "Bridge %s: ", safetext.Terminal(doc.Bridge))
 	}
 	fmt.Fprintf(w, "%s truss, span %g m. Member forces in kN (tension +), share %g, dynamic %s (factor %.3f).\n", typ, span, doc.Share, doc.Dynamic, doc.DynamicFactor)
+	floorNote(w, doc)
 	fmt.Fprintf(w, "Trains: %s. Head: position of the train's front (m), arrow: direction of travel.\n\n", safetext.Terminal(strings.Join(doc.Trains, "; ")))
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "member\tmax\ttrain\thead\tcount\tloaded\t\tmin\ttrain\thead\tcount\tloaded\t")
@@ -252,7 +267,7 @@ func envelopeTable(w io.Writer, typ string, span float64, doc envelopeDoc) error
 
 func envelopeCSV(w io.Writer, doc envelopeDoc) error {
 	cw := csv.NewWriter(w)
-	_ = cw.Write([]string{"member", "kind", "sense", "value_kn", "train", "head_m", "direction", "count", "loaded_from_m", "loaded_to_m", "trailing_m"})
+	_ = cw.Write([]string{"member", "kind", "sense", "value_kn", "train", "head_m", "direction", "count", "loaded_from_m", "loaded_to_m", "trailing_m", "unit"})
 	num := func(p *float64) string {
 		if p == nil {
 			return ""
@@ -270,7 +285,7 @@ func envelopeCSV(w io.Writer, doc envelopeDoc) error {
 			if s.e.Count > 0 {
 				count = strconv.Itoa(s.e.Count)
 			}
-			_ = cw.Write([]string{text(m.Label), text(m.Kind), s.sense, strconv.FormatFloat(s.e.Value, 'g', 10, 64), text(s.e.Train), num(s.e.HeadM), text(s.e.Direction), count, num(s.e.LoadedFromM), num(s.e.LoadedToM), num(s.e.TrailingM)})
+			_ = cw.Write([]string{text(m.Label), text(m.Kind), s.sense, strconv.FormatFloat(s.e.Value, 'g', 10, 64), text(s.e.Train), num(s.e.HeadM), text(s.e.Direction), count, num(s.e.LoadedFromM), num(s.e.LoadedToM), num(s.e.TrailingM), text(m.Unit)})
 		}
 	}
 	cw.Flush()
