@@ -24,6 +24,21 @@ func prepare(t testing.TB, tr *traffic.Train) *envelope.Load {
 	return ld
 }
 
+// liveUnder lists the system's elements and their live effects under one train.
+func liveUnder(t testing.TB, sys System, tr *traffic.Train) ([]Element, []envelope.Extremes) {
+	t.Helper()
+	els, _, err := sys.Elements()
+	if err != nil {
+		t.Fatal(err)
+	}
+	var a Analyser
+	live, err := a.Live(sys, els, []*envelope.Load{prepare(t, tr)})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return els, live
+}
+
 func find(t testing.TB, els []Element, label string) (int, Element) {
 	for i, e := range els {
 		if e.Label == label {
@@ -90,15 +105,7 @@ func bruteReaction(tr *traffic.Train, left, right float64) float64 {
 func TestFloorBeamReactionCooperBruteForce(t *testing.T) {
 	tr := cooperE80(t)
 	sys := System{PanelX: []float64{0, 6.1, 12.2, 18.3, 24.4}, TrussSpacingM: 5.5}
-	els, _, err := sys.Elements()
-	if err != nil {
-		t.Fatal(err)
-	}
-	var a Analyser
-	live, err := a.Live(sys, els, []*envelope.Load{prepare(t, tr)})
-	if err != nil {
-		t.Fatal(err)
-	}
+	els, live := liveUnder(t, sys, tr)
 	i, e := find(t, els, "FB2:V")
 	r := live[i].Max.Value / e.factor
 	brute := bruteReaction(tr, 6.1, 6.1)
@@ -274,15 +281,7 @@ func TestLabels(t *testing.T) {
 func TestResultLineReproducesLive(t *testing.T) {
 	tr := cooperE80(t)
 	sys := System{PanelX: []float64{0, 5.5, 11, 16.5, 22}, TrussSpacingM: 5}
-	els, _, err := sys.Elements()
-	if err != nil {
-		t.Fatal(err)
-	}
-	var a Analyser
-	live, err := a.Live(sys, els, []*envelope.Load{prepare(t, tr)})
-	if err != nil {
-		t.Fatal(err)
-	}
+	els, live := liveUnder(t, sys, tr)
 	for _, label := range []string{"S1-2:M", "S1-4:V", "FB2:M", "FB0:V"} {
 		i, e := find(t, els, label)
 		x, eta, _, err := ResultLine(sys.PanelX, label, tr)

@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"sort"
 	"strings"
 	"text/tabwriter"
 
@@ -165,15 +164,7 @@ func floorPlan(run Run, b Bridge, t *truss.Truss, u units.System) *elevation {
 			add(floor.StringerLabel(tk, j), string(floor.KindStringer), px(xs[j-1])+3, y, px(xs[j])-3, y)
 		}
 	}
-	order := make([]int, len(ws))
-	for i := range order {
-		order[i] = i
-	}
-	sort.SliceStable(order, func(i, k int) bool { return rfs[order[i]] < rfs[order[k]] })
-	byRF := make([]wanted, len(ws))
-	for i, k := range order {
-		byRF[i] = ws[k]
-	}
+	byRF := mostSevereFirst(ws, rfs)
 	e.Labels, e.Key = placeLabels(byRF, nil, lines, box{2, 2, e.W - 2, e.H - 22})
 	e.Span = elevText{X: svgWidth / 2, Y: e.H - 8, Text: fmt.Sprintf("plan, span %s %s, %d panels, %d track(s); stringers of each track between the floor beams", qty(u, units.Length, span), u.Name(units.Length), n, tracks)}
 	return &e
