@@ -81,3 +81,25 @@ func TestFloorOnTheBridgePage(t *testing.T) {
 		t.Errorf("governing axles on the line give %v, L %v", got, m.Proposed.LiveMaxKN)
 	}
 }
+
+// TestDemoFleetFloorGoverns: in the invented demo fleet (fleetgen's, 40 bridges) the floor
+// system governs some bridges under the proposed heavier axles, and not all of them (a
+// property the demo data were made to show; the mechanics are checked in screening/floor).
+func TestDemoFleetFloorGoverns(t *testing.T) {
+	f := demoFleet(t, 40)
+	floorWorst, rated := 0, 0
+	for _, r := range f.Rows {
+		if r.Status == "failed" {
+			t.Fatalf("bridge %s failed: %s", r.BridgeID, r.Error)
+		}
+		if _, _, ok := floor.ResultEffect(r.WorstMember); ok {
+			floorWorst++
+		}
+		if r.WorstMember != "" {
+			rated++
+		}
+	}
+	if floorWorst == 0 || floorWorst == rated {
+		t.Errorf("a floor element governs %d of %d rated bridges; want some, not all", floorWorst, rated)
+	}
+}
