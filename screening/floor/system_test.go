@@ -4,8 +4,10 @@ import (
 	"math"
 	"testing"
 
+	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/traffic"
+	"github.com/trussfleet/trussfleet/screening/truss"
 )
 
 func cooperE80(t testing.TB) *traffic.Train {
@@ -298,6 +300,38 @@ func TestResultLineReproducesLive(t *testing.T) {
 		}
 		if math.Abs(res[0].Max.Value-want) > 1e-6*want {
 			t.Errorf("%s: line gives %v, live %v", label, res[0].Max.Value, want)
+		}
+	}
+}
+
+// TestHangerIsTheFloorBeamReaction: in a through Pratt truss the hanger L1-U1 carries the
+// floor beam's reaction at L1 and nothing else: its influence line from the truss analysis
+// (method of joints at L1, here by the stiffness method) is the floor beam's reaction line,
+// 1 at L1 and 0 at every other panel point. So the trusses' rating of the hanger is the
+// rating against R times the truss share (common practice), and the floor package does not
+// rate it again.
+func TestHangerIsTheFloorBeamReaction(t *testing.T) {
+	tr, err := truss.Build(truss.Params{Type: "pratt", SpanM: 48, Panels: 8, DepthM: 6})
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines, err := analysis.InfluenceLines(tr, analysis.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var hanger []float64
+	for _, m := range lines.Members {
+		if m.Label == "L1-U1" {
+			hanger = m.Ordinates
+		}
+	}
+	x, eta, _, err := ResultLine(tr.DeckX(), "FB1:V", nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for j, xj := range lines.X {
+		if want := analysis.Interpolate(x, eta, xj); math.Abs(hanger[j]-want) > 1e-9 {
+			t.Errorf("x = %g: hanger %v, floor-beam reaction %v", xj, hanger[j], want)
 		}
 	}
 }
