@@ -1,8 +1,12 @@
 package runreport
 
 import (
+	"fmt"
+
+	"github.com/trussfleet/trussfleet/fleetrun"
 	"github.com/trussfleet/trussfleet/screening/floor"
 	"github.com/trussfleet/trussfleet/screening/report"
+	"github.com/trussfleet/trussfleet/screening/truss"
 	"github.com/trussfleet/trussfleet/store"
 )
 
@@ -35,4 +39,22 @@ func floorMembers(results map[string]*report.Member, held map[string]store.Membe
 		}
 	}
 	return out
+}
+
+// floorNotes says, in words, what the screening of the bridge's floor system assumed and left
+// unrated (floor.Notes, from the inventory as it is now); nil where the floor is not rated.
+func floorNotes(b store.Bridge, inv []store.Member, t *truss.Truss) []string {
+	sb := fleetrun.ScreeningInput(b, inv)
+	if !sb.Floor.Rate {
+		return nil
+	}
+	_, n, err := sb.FloorSystemOf(t).Elements()
+	if err != nil {
+		return []string{err.Error()}
+	}
+	out := []string{}
+	if n.FloorBeamsNotRated > 0 {
+		out = append(out, fmt.Sprintf("%d floor beams not rated: the truss spacing, their span, is not known", n.FloorBeamsNotRated))
+	}
+	return append(out, n.Assumed...)
 }

@@ -30,8 +30,9 @@ func isFloorLabel(label string) bool {
 	return ok
 }
 
-// floorSystem describes the bridge's floor system for package floor.
-func floorSystem(b Bridge, t *truss.Truss) floor.System {
+// FloorSystemOf describes the bridge's floor system, on truss t's deck panel points, for
+// package floor.
+func (b Bridge) FloorSystemOf(t *truss.Truss) floor.System {
 	return floor.System{
 		PanelX: t.DeckX(), Tracks: max(b.Tracks, 1),
 		TrussSpacingM: b.TrussSpacingM, TrackOffsetsM: b.TrackOffsetsM,
@@ -53,7 +54,7 @@ func (w *Screener) screenFloor(b Bridge, s *Settings, t *truss.Truss, res *Resul
 		}
 		return assess, nil
 	}
-	sys := floorSystem(b, t)
+	sys := b.FloorSystemOf(t)
 	els, notes, err := sys.Elements()
 	if err != nil {
 		return nil, err

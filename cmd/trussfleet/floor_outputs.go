@@ -57,8 +57,8 @@ func (f *floorFlags) system(ctx context.Context, look *fleetrun.Lookup, bridgeID
 		if !b.Floor.Rate && !f.on {
 			return nil, nil
 		}
-		return &floor.System{PanelX: t.DeckX(), Tracks: b.Tracks, TrussSpacingM: b.TrussSpacingM, TrackOffsetsM: b.TrackOffsetsM,
-			StringerSpacingM: b.Floor.StringerSpacingM, StringerDeadKNPerM: b.Floor.StringerDeadKNPerM, FloorBeamDeadKNPerM: b.Floor.FloorBeamDeadKNPerM}, nil
+		fs := b.FloorSystemOf(t)
+		return &fs, nil
 	}
 	if !f.on {
 		return nil, nil

@@ -35,6 +35,17 @@ func senseName(label, sense string) string {
 	return sense
 }
 
+// floorFact says whether the floor system was rated, and what was assumed or left unrated.
+func floorFact(b Bridge) string {
+	if b.FloorNotes == nil {
+		return "not rated (the inventory does not describe it)"
+	}
+	if len(b.FloorNotes) == 0 {
+		return "rated as the inventory describes it"
+	}
+	return "rated; " + strings.Join(b.FloorNotes, "; ")
+}
+
 // floorSection draws a flagged floor element's influence line along the track with the
 // governing train's axles, and says how the element's effect follows from it.
 func floorSection(run Run, b Bridge, t *truss.Truss, s section, i int, u units.System) section {
@@ -185,6 +196,7 @@ func explainFloor(w io.Writer, run Run, b Bridge, t *truss.Truss, m Member, u un
 	p("Screening run %d (%s): %s\n\n", run.ID, orDash(run.Status), equation(run))
 	el, eff, _ := floor.ResultEffect(m.Label)
 	p("Floor element %s (%s), %s in %s\n", el, m.Kind, eff, qu)
+	p("Floor system: %s\n", floorFact(b))
 	if len(m.Flags) > 0 {
 		p("Flags: %s\n", strings.Join(m.Flags, ", "))
 	} else {

@@ -56,6 +56,9 @@ type Bridge struct {
 	Tracks         int
 	DeadLoadKNPerM float64
 	Members        []Member
+	// FloorNotes say what of the floor system was assumed or left unrated (package floor's
+	// Notes in words); nil for a bridge whose floor is not rated.
+	FloorNotes []string
 }
 
 // Member is one member's rating arithmetic under both scenarios.

@@ -480,6 +480,7 @@ func bridgePage(run Run, b Bridge, u units.System) bridgeView {
 		{"RF existing → proposed", rfText(r.RFExisting) + " → " + rfText(r.RFProposed)},
 		{"headroom", optNum(r.Headroom, 2) + " × proposed"},
 		{"unrated members", unratedFact(run, r.Unrated)},
+		{"floor system", floorFact(b)},
 		{"inspected", orDash(r.LastInspected)},
 	}
 	byLabel := map[string]Member{}
