@@ -3,6 +3,7 @@ package floor
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -149,10 +150,10 @@ func IsLabel(label string) bool {
 		}
 		return true
 	}
-	if rest, ok := cutPrefix(label, "FB"); ok {
+	if rest, ok := strings.CutPrefix(label, "FB"); ok {
 		return digits(rest)
 	}
-	if rest, ok := cutPrefix(label, "S"); ok {
+	if rest, ok := strings.CutPrefix(label, "S"); ok {
 		for i := 0; i < len(rest); i++ {
 			if rest[i] == '-' {
 				return digits(rest[:i]) && digits(rest[i+1:])
@@ -160,13 +161,6 @@ func IsLabel(label string) bool {
 		}
 	}
 	return false
-}
-
-func cutPrefix(s, p string) (string, bool) {
-	if len(s) >= len(p) && s[:len(p)] == p {
-		return s[len(p):], true
-	}
-	return s, false
 }
 
 // check validates the system and fills in the defaults.
@@ -356,6 +350,7 @@ type Analyser struct {
 	peaks map[peakKey]Peak
 	track map[*envelope.Load]trackLive
 	ext   []envelope.Extremes
+	x     []float64 // the panel points the kept results are for
 }
 
 type peakKey struct {
@@ -482,6 +477,11 @@ func shift(e envelope.Extreme, x0 float64) envelope.Extreme {
 // effects being one-signed) under the trains, before the dynamic allowance, each naming the
 // train that governs it.
 func (a *Analyser) Live(s System, els []Element, loads []*envelope.Load) ([]envelope.Extremes, error) {
+	if !slices.Equal(a.x, s.PanelX) {
+		// Another bridge: the trains' results kept are for the panels of the last one.
+		a.Reset()
+		a.x = slices.Clone(s.PanelX)
+	}
 	out := make([]envelope.Extremes, len(els))
 	for _, ld := range loads {
 		tl, err := a.live(s.PanelX, ld)
@@ -507,8 +507,9 @@ func (a *Analyser) Live(s System, els []Element, loads []*envelope.Load) ([]enve
 	return out, nil
 }
 
-// Reset forgets the cached lines and moments (call between bridges: the cache is keyed by
-// panel lengths and trains, so keeping it only costs memory).
+// Reset forgets the kept lines, sweeps and moments. Live resets by itself when the panel
+// points change; a caller resets between bridges to keep the memory small, and must reset
+// when a prepared train it swept before may have changed.
 func (a *Analyser) Reset() {
 	clear(a.lines)
 	clear(a.swept)
