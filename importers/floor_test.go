@@ -51,15 +51,7 @@ func TestFloorMembers(t *testing.T) {
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
-			n := 0
-			_, err := ParseMembers("members.csv", strings.NewReader(head+tc.row+"\n"), floorStub{}, func(store.Staged[store.Member]) bool { n++; return true })
-			if n != 0 {
-				t.Error("a bad row was passed on")
-			}
-			e := fieldErrors(t, err)[0]
-			if e.Line != 2 || e.Column != tc.column || e.Value != tc.value || !strings.Contains(e.Msg, tc.msg) {
-				t.Errorf("got %q (column %d, value %q); want column %d, value %q, message with %q", e.Error(), e.Column, e.Value, tc.column, tc.value, tc.msg)
-			}
+			badMemberRow(t, head+tc.row+"\n", floorStub{}, tc.column, tc.value, tc.msg)
 		})
 	}
 }
