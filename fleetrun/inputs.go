@@ -50,7 +50,11 @@ func ScreeningInput(b store.Bridge, members []store.Member) screening.Bridge {
 		Members:           make(map[string]rating.Member, len(members)),
 	}
 	sb.TrussSpacingM, sb.LineSpeedKmh, sb.FirstFrequencyHz = store.OrZero(b.TrussSpacingM), store.OrZero(b.LineSpeedKmh), store.OrZero(b.FirstFrequencyHz)
+	floorInput(b, &sb)
 	for _, m := range members {
+		if floorMember(m, &sb) {
+			continue
+		}
 		if m.Truss != "" {
 			if sb.TrussMembers == nil {
 				sb.TrussMembers = map[string]map[string]rating.Member{}

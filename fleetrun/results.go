@@ -267,7 +267,7 @@ func (e *resultEncoder) memberAssessment(setID int64, m screening.MemberResult) 
 	}
 	if a.HasPr {
 		e.ma.RFProposed = finite(a.WorstPr.RF)
-		e.ma.SenseProposed = a.WorstPr.Sense.String()
+		e.ma.SenseProposed = m.SenseName(a.WorstPr.Sense)
 	}
 	e.copy.MemberAssessment(&e.ma)
 }
@@ -300,7 +300,7 @@ func outcome(r screening.Result, hash string, set *int64) store.BridgeOutcome {
 		}
 	}
 	if g := r.Governing; g != nil && g.Loaded {
-		o.GoverningTrain, o.GoverningSense, o.GoverningDirection = g.Train, s.WorstPr.Sense.String(), g.Direction.String()
+		o.GoverningTrain, o.GoverningSense, o.GoverningDirection = g.Train, r.Members[s.Worst].SenseName(s.WorstPr.Sense), g.Direction.String()
 		o.GoverningHeadM, o.GoverningFromM, o.GoverningToM = num(g.HeadM), num(g.LoadedFromM), num(g.LoadedToM)
 	}
 	o.GoverningCase = governingCase(r)

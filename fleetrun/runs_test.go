@@ -5,6 +5,7 @@ import (
 	"context"
 	"encoding/json"
 	"io/fs"
+	"strings"
 	"testing"
 	"time"
 
@@ -38,11 +39,11 @@ func seedFleet(t *testing.T, db *store.DB, n int) {
 	}
 	defer conn.Release()
 	for table, data := range map[string]*bytes.Buffer{"bridges": &bridges} {
-		if _, err := conn.Conn().PgConn().CopyFrom(ctx, data, "COPY "+table+" (bridge_id, name, line, chainage_km, truss_type, span_m, panels, depth_m, deck, end_posts, trusses, truss_share, tracks, dead_load_kn_per_m, year_built, latitude, longitude, last_inspected) FROM STDIN (FORMAT csv, HEADER true, FORCE_NOT_NULL (end_posts))"); err != nil {
+		if _, err := conn.Conn().PgConn().CopyFrom(ctx, data, "COPY "+table+" ("+strings.Join(fleetgen.BridgeHeader, ", ")+") FROM STDIN (FORMAT csv, HEADER true, FORCE_NOT_NULL (end_posts))"); err != nil {
 			t.Fatal(err)
 		}
 	}
-	if _, err := conn.Conn().PgConn().CopyFrom(ctx, &members, "COPY members (bridge_id, member, capacity_tension_kn, capacity_compression_kn, rating_factor, reference_train, condition_factor, area_mm2, fatigue_category) FROM STDIN (FORMAT csv, HEADER true, FORCE_NOT_NULL (fatigue_category))"); err != nil {
+	if _, err := conn.Conn().PgConn().CopyFrom(ctx, &members, "COPY members ("+strings.Join(fleetgen.MemberHeader, ", ")+") FROM STDIN (FORMAT csv, HEADER true, FORCE_NOT_NULL (fatigue_category))"); err != nil {
 		t.Fatal(err)
 	}
 	names, _ := fs.Glob(configs.Trains(), "*.yaml")

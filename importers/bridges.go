@@ -51,6 +51,13 @@ type bridgeRecord struct {
 	EndDepthM           string `csv:"end_depth_m"`
 	EndDepthFt          string `csv:"end_depth_ft"`
 	Spans               string `csv:"spans"`
+	// The floor system's columns (floor.go).
+	StringerSpacingM      string `csv:"stringer_spacing_m"`
+	StringerSpacingFt     string `csv:"stringer_spacing_ft"`
+	StringerDeadKNPerM    string `csv:"stringer_dead_kn_per_m"`
+	StringerDeadKipPerFt  string `csv:"stringer_dead_kip_per_ft"`
+	FloorBeamDeadKNPerM   string `csv:"floor_beam_dead_kn_per_m"`
+	FloorBeamDeadKipPerFt string `csv:"floor_beam_dead_kip_per_ft"`
 }
 
 var (
@@ -67,6 +74,7 @@ var (
 		{name: "deck", required: true}, {name: "end_posts"}, {name: "trusses"}, {name: "truss_share"},
 		{name: "tracks"}, colDeadLoad, {name: "year_built"}, {name: "latitude"}, {name: "longitude"},
 		{name: "last_inspected"}, colDepths, colEndDepth, {name: "spans"},
+		colStringerSpacing, colStringerDead, colFloorBeamDead,
 	}, sectionColumns...)
 )
 
@@ -210,6 +218,7 @@ func parseBridge(r bridgeRecord, p *row) (store.Bridge, bool) {
 	}
 	b.LastInspected = p.date("last_inspected", r.LastInspected)
 	parseSection(r, p, &b, dead)
+	parseBridgeFloor(r, p, &b)
 	if span == nil || depth == nil {
 		return b, false
 	}

@@ -31,6 +31,11 @@ type memberRecord struct {
 	FatigueCategory        string `csv:"fatigue_category"`
 	// Truss is "A" or "B" for a row of one main truss's member, empty for both (section.go).
 	Truss string `csv:"truss"`
+	// A floor element's capacities (floor.go).
+	CapacityMomentKNM   string `csv:"capacity_moment_knm"`
+	CapacityMomentKipFt string `csv:"capacity_moment_kipft"`
+	CapacityShearKN     string `csv:"capacity_shear_kn"`
+	CapacityShearKip    string `csv:"capacity_shear_kip"`
 }
 
 func (r memberRecord) srcLine() string { return r.SrcLine }
@@ -46,6 +51,7 @@ var (
 		colTension, colCompression, {name: "rating_factor"}, {name: "reference_train", maxChars: maxNameChars},
 		{name: "rating_sense", maxChars: maxNameChars}, {name: "condition_factor"}, colArea, {name: "fatigue_category", maxChars: maxFatigueCategory},
 		{name: "truss"},
+		colMoment, colShear,
 	}
 )
 
@@ -125,6 +131,7 @@ func (g *StoredGeometry) Labels(bridgeID string) (map[string]string, []string, s
 		for _, l := range ls.ordered {
 			ls.set[strings.ToUpper(l)] = l
 		}
+		floorLabels(ls, len(t.DeckJoints)-1, b.Tracks)
 	} else {
 		// Stored bridges were built on import; one that no longer builds has no labels.
 		ls.desc += fmt.Sprintf(" that cannot be built (%v)", err)
@@ -178,8 +185,8 @@ func parseMember(r memberRecord, p *row, geom Geometry) (store.Member, bool) {
 	if r.RatingSense != "" {
 		sense := strings.ToLower(strings.TrimSpace(r.RatingSense))
 		switch {
-		case sense != "tension" && sense != "compression":
-			p.fail("rating_sense", r.RatingSense, "must be tension or compression: the sense the rating_factor was rated in (leave it empty to take the sense its reference_train governs)")
+		case sense != "tension" && sense != "compression" && sense != "moment" && sense != "shear":
+			p.fail("rating_sense", r.RatingSense, "must be tension or compression (a floor element: moment or shear): the sense the rating_factor was rated in (leave it empty to take the sense its reference_train governs)")
 		case r.RatingFactor == "":
 			p.fail("rating_sense", r.RatingSense, "is given without a rating_factor")
 		default:
@@ -196,10 +203,11 @@ func parseMember(r memberRecord, p *row, geom Geometry) (store.Member, bool) {
 		}
 	}
 	noCapacity := r.CapacityTensionKN == "" && r.CapacityTensionKip == "" &&
-		r.CapacityCompressionKN == "" && r.CapacityCompressionKip == "" && r.RatingFactor == ""
+		r.CapacityCompressionKN == "" && r.CapacityCompressionKip == "" && r.RatingFactor == "" &&
+		!hasFloorCapacity(r)
 	if noCapacity {
-		p.fail(p.pick(colTension), "", "no capacity: give capacity_tension and/or capacity_compression, "+
-			"or a rating_factor with its reference_train")
+		p.fail(p.pick(colTension), "", "no capacity: give capacity_tension and/or capacity_compression "+
+			"(a floor element: capacity_moment and/or capacity_shear), or a rating_factor with its reference_train")
 	}
 	if m.BridgeID != "" && m.Member != "" {
 		set, ordered, desc, ok := geom.Labels(m.BridgeID)
@@ -211,6 +219,7 @@ func parseMember(r memberRecord, p *row, geom Geometry) (store.Member, bool) {
 				m.BridgeID, desc, strings.Join(ordered, ", "))
 		default:
 			m.Member = set[strings.ToUpper(m.Member)]
+			parseMemberFloor(r, p, &m)
 		}
 	}
 	m.Truss = parseTruss(r, p)

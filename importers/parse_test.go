@@ -274,6 +274,21 @@ func (geometryStub) Labels(id string) (map[string]string, []string, string, bool
 	return set, ordered, "pratt through truss, 8 panels", true
 }
 
+// badMemberRow parses a members file whose second line is bad: no row passes, and the first
+// error names line 2, the column and value given, with msg in its message.
+func badMemberRow(t *testing.T, text string, geom Geometry, column int, value, msg string) {
+	t.Helper()
+	n := 0
+	_, err := ParseMembers("members.csv", strings.NewReader(text), geom, func(store.Staged[store.Member]) bool { n++; return true })
+	if n != 0 {
+		t.Error("a bad row was passed on")
+	}
+	e := fieldErrors(t, err)[0]
+	if e.Line != 2 || e.Column != column || e.Value != value || !strings.Contains(e.Msg, msg) {
+		t.Errorf("got %q (column %d, value %q); want column %d, value %q, message with %q", e.Error(), e.Column, e.Value, column, value, msg)
+	}
+}
+
 func TestBadMembers(t *testing.T) {
 	head := "bridge_id,member,capacity_tension_kn,capacity_compression_kn,rating_factor,reference_train,condition_factor\n"
 	tests := []struct {
@@ -313,19 +328,11 @@ func TestBadMembers(t *testing.T) {
 	)
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
-			n := 0
 			h := head
 			if strings.HasPrefix(tc.name, "rating sense") {
 				h = senseHead
 			}
-			_, err := ParseMembers("members.csv", strings.NewReader(h+tc.row+"\n"), geometryStub{}, func(store.Staged[store.Member]) bool { n++; return true })
-			if n != 0 {
-				t.Error("a bad row was passed on")
-			}
-			e := fieldErrors(t, err)[0]
-			if e.Line != 2 || e.Column != tc.column || e.Value != tc.value || !strings.Contains(e.Msg, tc.msg) {
-				t.Errorf("got %q (column %d, value %q); want column %d, value %q, message with %q", e.Error(), e.Column, e.Value, tc.column, tc.value, tc.msg)
-			}
+			badMemberRow(t, h+tc.row+"\n", geometryStub{}, tc.column, tc.value, tc.msg)
 		})
 	}
 	t.Run("rating sense read in either case", func(t *testing.T) {

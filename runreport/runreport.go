@@ -126,6 +126,8 @@ func Bridge(ctx context.Context, db *store.DB, run report.Run, bridgeID string) 
 		}
 		out.Members = append(out.Members, *m)
 	}
+	out.Members = append(out.Members, floorMembers(members, held, len(t.DeckJoints)-1, out.Tracks)...)
+	out.FloorNotes = floorNotes(b, inv, t)
 	return out, nil
 }
 

@@ -11,6 +11,7 @@ import (
 
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/floor"
 	"github.com/trussfleet/trussfleet/screening/rating"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 	"github.com/trussfleet/trussfleet/screening/truss"
@@ -47,6 +48,8 @@ type Bridge struct {
 	Members map[string]rating.Member
 	// Table is the joint table of a bridge whose Truss.Type is "table" (geometry.go).
 	Table *truss.Table
+	// Floor is the inventory's floor system (floor.go).
+	Floor FloorSystem
 }
 
 // LiveShare is the factor on a train's load for the analysed truss.
@@ -95,6 +98,8 @@ type Settings struct {
 	Presence Presence
 	// Lengths is the rule for each member's determinant length (dynamic.go; "": by member).
 	Lengths string
+	// FloorLengths are the floor elements' determinant lengths; nil: floor.DefaultLengths.
+	FloorLengths *floor.Lengths
 }
 
 // ShareTrains makes the trains that are defined alike, in either scenario or among the
@@ -159,6 +164,9 @@ type MemberResult struct {
 	Truss string
 	// Dynamic is the member's dynamic allowance and its inputs (dynamic.go).
 	Dynamic MemberDynamic
+	// Effect is "moment" (kN·m) or "shear" (kN) for a floor element; "" for a truss
+	// member's axial force (kN).
+	Effect string
 }
 
 // Result is one bridge's outcome.
@@ -173,6 +181,8 @@ type Result struct {
 
 	// NoRocking says AREMA's rocking term was left out: the truss spacing is not known.
 	NoRocking bool
+	// Floor says what of the floor system was assumed or not rated; nil where it is not rated.
+	Floor *FloorNotes
 }
 
 // Screener screens bridges one after another, reusing its buffers; one per goroutine.
@@ -183,6 +193,7 @@ type Screener struct {
 	swept []sweptTrain
 	// scaled holds a train's extremes scaled by its speed factor (speed.go), while merged.
 	scaled []envelope.Extremes
+	floor floor.Analyser
 }
 
 type sweptTrain struct {
@@ -232,7 +243,7 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 	}
 	for _, ms := range b.allMembers() {
 		for label := range ms {
-			if t.Member(label) < 0 {
+			if t.Member(label) < 0 && !isFloorLabel(label) {
 				return fail(fmt.Errorf("inventory member %q is not in the %s geometry (members: %s)", label, t.Params.Type, strings.Join(t.Labels(), ", ")))
 			}
 		}
@@ -307,6 +318,9 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 				res.Members[i] = m
 			}
 		}
+	}
+	if assess, err = w.screenFloor(b, s, t, &res, assess); err != nil {
+		return fail(fmt.Errorf("floor system: %w", err))
 	}
 	res.Summary = rating.Summarise(assess)
 	if w := res.Summary.Worst; w >= 0 {

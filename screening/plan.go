@@ -8,6 +8,7 @@ import (
 	"sort"
 
 	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/floor"
 	"github.com/trussfleet/trussfleet/screening/rating"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 )
@@ -70,6 +71,9 @@ type Plan struct {
 	ProposedSpeeds    map[string]float64 `json:"proposed_speeds_kmh,omitempty"`
 	ExistingLineSpeed []string           `json:"existing_at_line_speed,omitempty"`
 	ProposedLineSpeed []string           `json:"proposed_at_line_speed,omitempty"`
+	// FloorLengths are the floor elements' determinant lengths where they differ from
+	// floor.DefaultLengths (nil otherwise, which keeps the plans of earlier runs' hashes).
+	FloorLengths *floor.Lengths `json:"floor_lengths,omitempty"`
 }
 
 // Hash is a stable digest of the plan.
@@ -137,6 +141,13 @@ func (p Plan) Settings() (*Settings, error) {
 	}
 	if err := p.sectionSettings(s); err != nil {
 		return nil, err
+	}
+	if p.FloorLengths != nil {
+		if err := p.FloorLengths.Validate(); err != nil {
+			return nil, err
+		}
+		l := *p.FloorLengths
+		s.FloorLengths = &l
 	}
 	s.Thresholds = rating.Thresholds{Flag: p.Flag, Review: p.Review, WorseFraction: p.Worse,
 		ReversalFraction: p.Reversal, FlagUnrated: p.FlagUnrated}

@@ -10,7 +10,8 @@ import (
 )
 
 // Table bridges: sql/migrations/001_inventory.sql; input_version and its triggers, 010; the
-// cross-section, 012_cross_section.sql.
+// cross-section, 012_cross_section.sql; the truss forms, 013_truss_forms.sql; the floor
+// system, 014_floor_system.sql.
 
 // Bridge is one span of the inventory, a row of the bridges table. Pointer fields are
 // optional (NULL when nil).
@@ -49,13 +50,18 @@ type Bridge struct {
 	// DepthsM is a polygonal top chord's depth at every top-chord joint, left to right
 	// (nil: parallel chords or a parabola); EndDepthM a parabolic top chord's depth at its
 	// first and last joints (0: none); Spans the number of equal spans over which the truss
-	// is continuous (migration 012_truss_forms.sql).
+	// is continuous (migration 013_truss_forms.sql).
 	DepthsM   []float64 `json:"depths_m,omitempty"`
 	EndDepthM float64   `json:"end_depth_m,omitempty"`
 	Spans     int       `json:"spans,omitempty"`
 	// InputVersion is new whenever a screening input of the bridge changes: its geometry and
 	// loads, or any of its members' rows (sql/migrations/010_input_versions.sql). Read only.
 	InputVersion int64 `json:"-"`
+	// StringerSpacingM, StringerDeadKNPerM and FloorBeamDeadKNPerM are the floor system's
+	// data (migration 014): nil takes the screening's defaults.
+	StringerSpacingM    *float64 `json:"stringer_spacing_m,omitempty"`
+	StringerDeadKNPerM  *float64 `json:"stringer_dead_kn_per_m,omitempty"`
+	FloorBeamDeadKNPerM *float64 `json:"floor_beam_dead_kn_per_m,omitempty"`
 }
 
 // BridgeSummary is a bridge with what is stored about its members.
@@ -78,20 +84,22 @@ var bridgesTable = table{
 const bridgeColumns = `b.bridge_id, b.name, b.line, b.chainage_km, b.truss_type, b.span_m, b.panels, b.depth_m, b.deck,
 	b.end_posts, b.trusses, b.truss_share, b.tracks, b.dead_load_kn_per_m, b.year_built, b.latitude, b.longitude,
 	b.last_inspected, b.truss_spacing_m, b.track_offsets_m, b.line_speed_kmh, b.first_frequency_hz,
-	b.truss_weight_kn_per_m, b.input_version, b.depths_m, b.end_depth_m, b.spans`
+	b.truss_weight_kn_per_m, b.input_version, b.depths_m, b.end_depth_m, b.spans,
+	b.stringer_spacing_m, b.stringer_dead_kn_per_m, b.floor_beam_dead_kn_per_m`
 
 func (b Bridge) values() []any {
 	return []any{b.BridgeID, b.Name, b.Line, b.ChainageKM, b.TrussType, b.SpanM, b.Panels, b.DepthM, b.Deck, b.EndPosts,
 		b.Trusses, b.TrussShare, b.Tracks, b.DeadLoadKNPerM, b.YearBuilt, b.Latitude, b.Longitude, b.LastInspected,
 		b.TrussSpacingM, b.TrackOffsetsM, b.LineSpeedKmh, b.FirstFrequencyHz, b.TrussWeightKNPerM,
-		b.DepthsM, b.EndDepthM, max(b.Spans, 1)}
+		b.DepthsM, b.EndDepthM, max(b.Spans, 1), b.StringerSpacingM, b.StringerDeadKNPerM, b.FloorBeamDeadKNPerM}
 }
 
 func (b *Bridge) pointers() []any {
 	return []any{&b.BridgeID, &b.Name, &b.Line, &b.ChainageKM, &b.TrussType, &b.SpanM, &b.Panels, &b.DepthM, &b.Deck,
 		&b.EndPosts, &b.Trusses, &b.TrussShare, &b.Tracks, &b.DeadLoadKNPerM, &b.YearBuilt, &b.Latitude, &b.Longitude,
 		&b.LastInspected, &b.TrussSpacingM, &b.TrackOffsetsM, &b.LineSpeedKmh, &b.FirstFrequencyHz,
-		&b.TrussWeightKNPerM, &b.InputVersion, &b.DepthsM, &b.EndDepthM, &b.Spans}
+		&b.TrussWeightKNPerM, &b.InputVersion, &b.DepthsM, &b.EndDepthM, &b.Spans,
+		&b.StringerSpacingM, &b.StringerDeadKNPerM, &b.FloorBeamDeadKNPerM}
 }
 
 // OrZero is an optional number's value, 0 where it is NULL (nil).

@@ -7,7 +7,7 @@ import (
 	"github.com/jackc/pgx/v5"
 )
 
-// Table members: sql/migrations/001_inventory.sql; rating_sense, 011; truss, 012_cross_section.sql.
+// Table members: sql/migrations/001_inventory.sql; rating_sense, 011; truss, 012_cross_section.sql; floor capacities, 013_floor_system.sql.
 
 // Member is one member's stored capacity, a row of the members table. A member has a
 // tension capacity, a compression capacity, or both; or instead a rating factor for a named
@@ -29,27 +29,32 @@ type Member struct {
 
 	// Truss is "A" or "B" for a row of one main truss's member, "" for the row of both.
 	Truss string
+	// CapacityMomentKNM and CapacityShearKN are a floor element's capacities (kN·m, kN;
+	// migration 014); RatingSense is then "moment" or "shear".
+	CapacityMomentKNM *float64
+	CapacityShearKN   *float64
 }
 
 var membersTable = table{
 	name: "members",
 	key:  []string{"bridge_id", "member", "truss"},
 	cols: []string{"capacity_tension_kn", "capacity_compression_kn", "rating_factor", "reference_train",
-		"rating_sense", "condition_factor", "area_mm2", "fatigue_category"},
+		"rating_sense", "condition_factor", "area_mm2", "fatigue_category", "capacity_moment_knm", "capacity_shear_kn"},
 	touch: "updated_at",
 }
 
 const memberColumns = `bridge_id, member, capacity_tension_kn, capacity_compression_kn, rating_factor, reference_train,
-	rating_sense, condition_factor, area_mm2, fatigue_category, truss`
+	rating_sense, condition_factor, area_mm2, fatigue_category, truss, capacity_moment_knm, capacity_shear_kn`
 
 func (m Member) values() []any {
 	return []any{m.BridgeID, m.Member, m.Truss, m.CapacityTensionKN, m.CapacityCompressionKN, m.RatingFactor, m.ReferenceTrain,
-		m.RatingSense, m.ConditionFactor, m.AreaMM2, m.FatigueCategory}
+		m.RatingSense, m.ConditionFactor, m.AreaMM2, m.FatigueCategory, m.CapacityMomentKNM, m.CapacityShearKN}
 }
 
 func (m *Member) pointers() []any {
 	return []any{&m.BridgeID, &m.Member, &m.CapacityTensionKN, &m.CapacityCompressionKN, &m.RatingFactor,
-		&m.ReferenceTrain, &m.RatingSense, &m.ConditionFactor, &m.AreaMM2, &m.FatigueCategory, &m.Truss}
+		&m.ReferenceTrain, &m.RatingSense, &m.ConditionFactor, &m.AreaMM2, &m.FatigueCategory, &m.Truss,
+		&m.CapacityMomentKNM, &m.CapacityShearKN}
 }
 
 // Members returns the stored members of one bridge, ordered by label.

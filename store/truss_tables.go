@@ -8,7 +8,7 @@ import (
 	"github.com/jackc/pgx/v5"
 )
 
-// Table truss_tables: sql/migrations/012_truss_forms.sql.
+// Table truss_tables: sql/migrations/013_truss_forms.sql.
 
 // TrussTable is the joint/member table of one bridge whose truss_type is "table": the table
 // as the importer checked it, as JSON (the screening's truss.Table; the store does not read

@@ -28,6 +28,7 @@ type runOptions struct {
 	chunk, jobs      int
 	workers, streams int
 	floorRepeats     int
+	floorShare       float64
 	keep             bool
 	trussfleet       string
 }
@@ -62,6 +63,7 @@ one built from the module in the working directory into DIR/n-N.`,
 	f.IntVar(&o.bridges, "bridges", 10000, "number of invented bridges")
 	f.StringVar(&o.dir, "dir", filepath.Join(os.TempDir(), "trussfleet-bench"), "folder for the fleet files, the database and the screen log")
 	f.Uint64Var(&o.seed, "seed", 1893, "random seed of the invented fleet")
+	f.Float64Var(&o.floorShare, "floor-share", -1, "share of bridges with floor-system data (default: fleet generate's); a fleet already in --dir is reused as it is")
 	f.IntVar(&o.chunk, "chunk-size", 0, "bridges per job (default: the chunk_size setting)")
 	f.IntVar(&o.jobs, "jobs", 0, "jobs at once (default: the jobs setting)")
 	f.IntVar(&o.workers, "workers", 0, "goroutines per job (default: the workers setting)")
@@ -76,8 +78,15 @@ func benchRun(ctx context.Context, out io.Writer, cfgFile string, dbc database, 
 	if o.bridges < 1 {
 		return fmt.Errorf("--bridges must be at least 1, got %d", o.bridges)
 	}
-	dir, tf, db, err := prepareFleet(ctx, out, cfgFile, dbc, filepath.Join(o.dir, "n-"+strconv.Itoa(o.bridges)),
-		o.bridges, o.seed, o.trussfleet)
+	name, gen := "n-"+strconv.Itoa(o.bridges), []string(nil)
+	if o.floorShare >= 0 {
+		// A fleet of its own folder: the share changes the fleet.
+		share := strconv.FormatFloat(o.floorShare, 'g', -1, 64)
+		name += "-floor-" + share
+		gen = []string{"--floor-share", share}
+	}
+	dir, tf, db, err := prepareFleet(ctx, out, cfgFile, dbc, filepath.Join(o.dir, name),
+		o.bridges, o.seed, o.trussfleet, gen...)
 	if err != nil {
 		return err
 	}
@@ -193,7 +202,7 @@ func benchRun(ctx context.Context, out io.Writer, cfgFile string, dbc database, 
 // fleet of the given size (generated unless the folder holds one), imported with the example
 // trains into the configured database or one of its own (dir/pg), migrated and open.
 func prepareFleet(ctx context.Context, out io.Writer, cfgFile string, dbc database, dir string, bridges int, seed uint64,
-	named string) (string, trussfleet, *store.DB, error) {
+	named string, genArgs ...string) (string, trussfleet, *store.DB, error) {
 	dir, err := filepath.Abs(dir)
 	if err != nil {
 		return "", trussfleet{}, nil, err
@@ -211,8 +220,8 @@ func prepareFleet(ctx context.Context, out io.Writer, cfgFile string, dbc databa
 	tf := trussfleet{exe: exe, cfgFile: cfgFile, db: dbc}
 	fleet := filepath.Join(dir, "fleet")
 	if _, err := os.Stat(filepath.Join(fleet, "members.csv")); err != nil {
-		if err := tf.run(ctx, out, "fleet", "generate", "--bridges", strconv.Itoa(bridges),
-			"--seed", strconv.FormatUint(seed, 10), "--out", fleet); err != nil {
+		if err := tf.run(ctx, out, append([]string{"fleet", "generate", "--bridges", strconv.Itoa(bridges),
+			"--seed", strconv.FormatUint(seed, 10), "--out", fleet}, genArgs...)...); err != nil {
 			return "", tf, nil, err
 		}
 	}

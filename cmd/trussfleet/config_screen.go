@@ -26,6 +26,8 @@ type ScreenConfig struct {
 	MultiplePresence string `mapstructure:"multiple_presence"`
 	// DynamicLengths is the rule for members' determinant lengths: by-member or span.
 	DynamicLengths string `mapstructure:"dynamic_lengths"`
+	// Floor sets the floor system's determinant lengths (config_floor.go).
+	Floor FloorConfig `mapstructure:"floor"`
 }
 
 // ScenarioConfig is one traffic scenario: the envelope over all its trains.
@@ -88,6 +90,7 @@ func setScreenDefaults(v *viper.Viper) {
 	v.SetDefault("jobs", 4)
 	v.SetDefault("job_timeout", "2m")
 	v.SetDefault("rescue_after", "5m")
+	setFloorDefaults(v)
 }
 
 func (s ScreenConfig) validate() []error {
@@ -140,5 +143,5 @@ func (s ScreenConfig) validate() []error {
 	if s.ChunkSize < 1 || s.ChunkSize > 10000 {
 		bad("chunk_size", "must be from 1 to 10000 bridges per job, got %d", s.ChunkSize)
 	}
-	return errs
+	return append(errs, s.Floor.validate()...)
 }

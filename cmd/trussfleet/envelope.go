@@ -31,6 +31,7 @@ func newEnvelopeCmd(a *app) *cobra.Command {
 	var dynamic, format string
 	var bridgeID string
 	var sf sectionFlags
+	var fl floorFlags
 	cmd := &cobra.Command{
 		Use:   "envelope",
 		Short: "Print every member's largest tension and compression under one or more trains",
@@ -88,6 +89,7 @@ func newEnvelopeCmd(a *app) *cobra.Command {
 			var calc envelope.Calculator
 			var all, one []envelope.Extremes
 			var names []string
+			var loads []*envelope.Load
 			for _, spec := range specs {
 				tr, err := look.Train(ctx, spec)
 				if err != nil {
@@ -98,6 +100,7 @@ func newEnvelopeCmd(a *app) *cobra.Command {
 					return fmt.Errorf("--train %s: %w", spec, err)
 				}
 				names = append(names, tr.Name)
+				loads = append(loads, ld)
 				one, err = calc.Envelope(lines, ld, opt, one)
 				if err != nil {
 					return fmt.Errorf("--train %s: %w", spec, err)
@@ -121,11 +124,19 @@ func newEnvelopeCmd(a *app) *cobra.Command {
 				}
 			}
 			for i, m := range il.Members {
-				me := memberEnvelope{Label: m.Label, Kind: string(m.Kind), Max: extremeDoc(all[i].Max), Min: extremeDoc(all[i].Min)}
+				me := memberEnvelope{Label: m.Label, Kind: string(m.Kind), Unit: "kN", Max: extremeDoc(all[i].Max), Min: extremeDoc(all[i].Min)}
 				if cases != nil {
 					me.MaxCase, me.MinCase = cases[i].MaxCase.String(), cases[i].MinCase.String()
 				}
 				doc.Members = append(doc.Members, me)
+			}
+			fl.trussSpacing = sf.spacing
+			fs, err := fl.system(ctx, &look, bridgeID, t)
+			if err != nil {
+				return err
+			}
+			if doc.Members, err = floorEnvelopes(doc.Members, fs, loads, dyn); err != nil {
+				return err
 			}
 			w := cmd.OutOrStdout()
 			switch format {
@@ -149,6 +160,7 @@ func newEnvelopeCmd(a *app) *cobra.Command {
 	f.Float64Var(&share, "share", 0.5, "share of the track load carried by one truss (0.5: one track centred between two trusses)")
 	f.StringVar(&dynamic, "dynamic", "none", "dynamic allowance: none, fixed:0.2, phi2, phi3, arema (optionally :l=M determinant length, arema :s=M truss spacing)")
 	f.StringVar(&format, "format", "table", "output: table, csv or json")
+	fl.add(cmd)
 	return cmd
 }
 
@@ -207,10 +219,13 @@ type envelopeDoc struct {
 }
 
 type memberEnvelope struct {
-	Label string      `json:"label"`
-	Kind  string      `json:"kind"`
-	Max   extremeJSON `json:"max"`
-	Min   extremeJSON `json:"min"`
+	Label string `json:"label"`
+	Kind  string `json:"kind"`
+	// Unit is the values' unit: kN for a truss member's force and a floor element's shear,
+	// kN·m for a floor element's moment.
+	Unit string      `json:"unit"`
+	Max  extremeJSON `json:"max"`
+	Min  extremeJSON `json:"min"`
 	// The loading cases of the extremes, with a cross-section.
 	MaxCase string `json:"max_case,omitempty"`
 	MinCase string `json:"min_case,omitempty"`
@@ -283,6 +298,7 @@ func envelopeTable(w io.Writer, typ string, span float64, doc envelopeDoc) error
 		share = "truss " + doc.Truss + " carrying " + strings.Join(s, ", ") + " (lever rule; trains on each track placed independently)"
 	}
 	fmt.Fprintf(w, "%s truss, span %g m. Member forces in kN (tension +), share %s, dynamic %s (factor %.3f).\n", typ, span, share, doc.Dynamic, doc.DynamicFactor)
+	floorNote(w, doc)
 	fmt.Fprintf(w, "Trains: %s. Head: position of the train's front (m), arrow: direction of travel.\n\n", safetext.Terminal(strings.Join(doc.Trains, "; ")))
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "member\tmax\ttrain\thead\tcount\tloaded\t\tmin\ttrain\thead\tcount\tloaded\t")
@@ -299,7 +315,7 @@ func envelopeTable(w io.Writer, typ string, span float64, doc envelopeDoc) error
 
 func envelopeCSV(w io.Writer, doc envelopeDoc) error {
 	cw := csv.NewWriter(w)
-	_ = cw.Write([]string{"member", "kind", "sense", "value_kn", "train", "head_m", "direction", "count", "loaded_from_m", "loaded_to_m", "trailing_m"})
+	_ = cw.Write([]string{"member", "kind", "sense", "value_kn", "train", "head_m", "direction", "count", "loaded_from_m", "loaded_to_m", "trailing_m", "unit"})
 	num := func(p *float64) string {
 		if p == nil {
 			return ""
@@ -317,7 +333,7 @@ func envelopeCSV(w io.Writer, doc envelopeDoc) error {
 			if s.e.Count > 0 {
 				count = strconv.Itoa(s.e.Count)
 			}
-			_ = cw.Write([]string{text(m.Label), text(m.Kind), s.sense, strconv.FormatFloat(s.e.Value, 'g', 10, 64), text(s.e.Train), num(s.e.HeadM), text(s.e.Direction), count, num(s.e.LoadedFromM), num(s.e.LoadedToM), num(s.e.TrailingM)})
+			_ = cw.Write([]string{text(m.Label), text(m.Kind), s.sense, strconv.FormatFloat(s.e.Value, 'g', 10, 64), text(s.e.Train), num(s.e.HeadM), text(s.e.Direction), count, num(s.e.LoadedFromM), num(s.e.LoadedToM), num(s.e.TrailingM), text(m.Unit)})
 		}
 	}
 	cw.Flush()

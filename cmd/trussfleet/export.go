@@ -57,7 +57,7 @@ people: rounded, and with --units imperial in ft and kip under unit-suffixed col
 func bridgeExportHeader(u units.System) []string {
 	l := u.Column(units.Length)
 	return []string{"rank", "bridge_id", "name", "line", "chainage_km", "truss_type", "span_" + l, "panels",
-		"worst_member", "rf_existing", "rf_proposed", "rf_change_pct", "demand_increase_pct", "flags", "unrated_members",
+		"worst_member", "worst_kind", "rf_existing", "rf_proposed", "rf_change_pct", "demand_increase_pct", "flags", "unrated_members",
 		"headroom", "governing_train", "governing_sense", "governing_head_" + l, "governing_direction", "loaded_from_" + l, "loaded_to_" + l,
 		"last_inspected", "status", "error", "governing_case", "no_rocking_term"}
 }
@@ -68,7 +68,7 @@ func memberExportHeader(u units.System) []string {
 	l, f := u.Column(units.Length), u.Column(units.Force)
 	return []string{"bridge_rank", "bridge_id", "name", "member", "kind", "rf_existing", "rf_proposed",
 		"sense", "demand_increase_pct", "flags", "dead_" + f, "live_max_" + f, "live_min_" + f, "impact", "governing_train",
-		"head_" + l, "direction", "loaded_from_" + l, "loaded_to_" + l, "truss", "loading_case", "dynamic_allowance"}
+		"head_" + l, "direction", "loaded_from_" + l, "loaded_to_" + l, "truss", "loading_case", "dynamic_allowance", "effect_unit"}
 }
 
 // exportRun writes the bridge-level and member-level priority lists of a run: CSV for people
@@ -206,7 +206,7 @@ func bridgeRecord(r report.BridgeRow, d digits) []string {
 		change = &c
 	}
 	return []string{strconv.Itoa(r.Rank), r.BridgeID, r.Name, r.Line, d.opt(r.ChainageKm, 3), r.TrussType,
-		d.qty(units.Length, r.SpanM), strconv.Itoa(r.Panels), r.WorstMember, d.opt(r.RFExisting, 4),
+		d.qty(units.Length, r.SpanM), strconv.Itoa(r.Panels), r.WorstMember, worstKind(r.WorstMember), d.opt(r.RFExisting, 4),
 		d.opt(r.RFProposed, 4), d.opt(change, 1), d.num(100*r.DemandIncrease, 1),
 		strings.Join(r.Flags, ";"), strconv.Itoa(r.Unrated), d.opt(r.Headroom, 4), r.GoverningTrain, r.GoverningSense, d.optQty(units.Length, r.GoverningHeadM),
 		r.GoverningDirection, d.optQty(units.Length, r.GoverningFromM), d.optQty(units.Length, r.GoverningToM), r.LastInspected, r.Status, r.Error,
@@ -214,10 +214,11 @@ func bridgeRecord(r report.BridgeRow, d digits) []string {
 }
 
 func memberRecord(m store.FlaggedMember, d digits) []string {
+	f := effectQuantity(m.Member)
 	return []string{strconv.Itoa(m.BridgeRank), m.BridgeID, m.Name, m.Member, m.Kind, d.opt(m.RFExisting, 4),
-		d.opt(m.RFProposed, 4), m.Sense, d.num(100*m.DemandIncrease, 1), strings.Join(m.Flags, ";"), d.qty(units.Force, m.DeadKN),
-		d.qty(units.Force, m.LiveMaxKN), d.qty(units.Force, m.LiveMinKN), d.num(m.Impact, 4), m.Train, d.optQty(units.Length, m.HeadM),
-		m.Direction, d.optQty(units.Length, m.FromM), d.optQty(units.Length, m.ToM), m.Truss, m.Case, m.Dynamic}
+		d.opt(m.RFProposed, 4), m.Sense, d.num(100*m.DemandIncrease, 1), strings.Join(m.Flags, ";"), d.qty(f, m.DeadKN),
+		d.qty(f, m.LiveMaxKN), d.qty(f, m.LiveMinKN), d.num(m.Impact, 4), m.Train, d.optQty(units.Length, m.HeadM),
+		m.Direction, d.optQty(units.Length, m.FromM), d.optQty(units.Length, m.ToM), m.Truss, m.Case, m.Dynamic, d.u.Name(f)}
 }
 
 // writeCSV writes a caution line, a header and the records. Every cell of a column that is

@@ -19,6 +19,7 @@ func newFleetCmd(a *app) *cobra.Command {
 	var n int
 	var seed uint64
 	var out, ref string
+	var floorShare float64
 	gen := &cobra.Command{
 		Use:   "generate",
 		Short: "Write bridges.csv and members.csv of an invented fleet of the Northmoor & Eastfell Railway",
@@ -36,6 +37,10 @@ func newFleetCmd(a *app) *cobra.Command {
 			}
 			opt := fleetgen.Defaults(n)
 			opt.Seed, opt.Reference = seed, refTrain
+			if !(floorShare >= 0 && floorShare <= 1) {
+				return fmt.Errorf("--floor-share must be from 0 to 1, got %v", floorShare)
+			}
+			opt.FloorShare = floorShare
 			return writeFleet(opt, out, func(b, m string) {
 				fmt.Fprintf(cmd.OutOrStdout(), "wrote %s: %s, %s\n", plural(n, "invented bridge"), b, m)
 			})
@@ -44,6 +49,7 @@ func newFleetCmd(a *app) *cobra.Command {
 	gen.Flags().IntVar(&n, "bridges", 40, "number of bridges")
 	gen.Flags().Uint64Var(&seed, "seed", 1893, "random seed (the same seed gives the same fleet)")
 	gen.Flags().StringVar(&out, "out", "fleet", "output folder")
+	gen.Flags().Float64Var(&floorShare, "floor-share", fleetgen.Defaults(0).FloorShare, "share of bridges whose floor system (stringers, floor beams) the inventory describes")
 	gen.Flags().StringVar(&ref, "reference-train", "northmoor-freight-today", "reference train of the stored rating factors")
 	cmd.AddCommand(gen)
 	return cmd

@@ -22,6 +22,7 @@ func newLinesCmd(a *app) *cobra.Command {
 	var g geometryFlags
 	var format string
 	var sf sectionFlags
+	var withFloor bool
 	cmd := &cobra.Command{
 		Use:   "lines",
 		Short: "Print every member's influence line for one parametric truss or joint table",
@@ -62,7 +63,7 @@ func newLinesCmd(a *app) *cobra.Command {
 			}
 			switch format {
 			case "json":
-				return linesJSON(w, t, l)
+				return linesJSON(w, t, l, withFloor)
 			case "csv":
 				// The caution goes to standard error so that the CSV stays machine-readable.
 				printCaution(cmd.ErrOrStderr())
@@ -74,6 +75,7 @@ func newLinesCmd(a *app) *cobra.Command {
 	g.add(cmd, false)
 	sf.add(cmd)
 	cmd.Flags().StringVar(&format, "format", "table", "output: table, csv or json")
+	cmd.Flags().BoolVar(&withFloor, "floor", false, "with --format json: add the floor system's lines along the track (one track; stringer moments at mid-span)")
 	return cmd
 }
 
@@ -151,15 +153,20 @@ type linesDoc struct {
 }
 
 type memberLine struct {
-	Label       string     `json:"label"`
-	Kind        truss.Kind `json:"kind"`
-	Ordinates   []float64  `json:"ordinates"`
-	AreaPos     float64    `json:"area_positive"`
-	AreaNeg     float64    `json:"area_negative"`
-	SignChanges []float64  `json:"sign_changes_m"`
+	Label string     `json:"label"`
+	Kind  truss.Kind `json:"kind"`
+	// Unit is the effect's unit per kN of load: kN for a force, kN·m for a floor moment.
+	Unit string `json:"unit"`
+	// X are a floor element's own points along the track (m); a member's ordinates stand at
+	// deck_x.
+	X           []float64 `json:"x_m,omitempty"`
+	Ordinates   []float64 `json:"ordinates"`
+	AreaPos     float64   `json:"area_positive"`
+	AreaNeg     float64   `json:"area_negative"`
+	SignChanges []float64 `json:"sign_changes_m"`
 }
 
-func linesJSON(w io.Writer, t *truss.Truss, l *analysis.Lines) error {
+func linesJSON(w io.Writer, t *truss.Truss, l *analysis.Lines, withFloor bool) error {
 	doc := linesDoc{Truss: t.Params, Caution: caution, DeckX: l.X}
 	for _, m := range l.Members {
 		ord := make([]float64, len(m.Ordinates))
@@ -171,7 +178,14 @@ func linesJSON(w io.Writer, t *truss.Truss, l *analysis.Lines) error {
 		if sc == nil {
 			sc = []float64{}
 		}
-		doc.Members = append(doc.Members, memberLine{m.Label, m.Kind, ord, clean(pos), clean(neg), sc})
+		doc.Members = append(doc.Members, memberLine{Label: m.Label, Kind: m.Kind, Unit: "kN", Ordinates: ord, AreaPos: clean(pos), AreaNeg: clean(neg), SignChanges: sc})
+	}
+	if withFloor {
+		fl, err := floorLines(t)
+		if err != nil {
+			return err
+		}
+		doc.Members = append(doc.Members, fl...)
 	}
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")

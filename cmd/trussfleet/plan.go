@@ -28,6 +28,7 @@ func buildPlan(ctx context.Context, db *store.DB, c Config) (screening.Plan, err
 		ExistingTracks:    s.Scenarios[scenarioExisting].Tracks,
 		ProposedTracks:    s.Scenarios[scenarioProposed].Tracks,
 	}
+	p.FloorLengths = s.Floor.planLengths()
 	if _, err := traffic.ParseDynamic(s.Dynamic); err != nil {
 		return p, fmt.Errorf("configuration key dynamic: %w", err)
 	}

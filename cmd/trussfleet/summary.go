@@ -53,10 +53,10 @@ func (a *app) printSummary(ctx context.Context, db *store.DB, w io.Writer, id in
 	}
 	fmt.Fprintln(w, "\nTop of the priority list:")
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-	fmt.Fprintln(tw, "rank\tbridge\tname\tworst member\tRF existing\tRF proposed\tflags\tunrated")
+	fmt.Fprintln(tw, "rank\tbridge\tname\tworst member\tkind\tRF existing\tRF proposed\tflags\tunrated")
 	cell := safetext.Cell
 	for _, r := range rows {
-		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%s\t%d\n", r.Rank, cell(r.BridgeID), cell(r.Name), cell(r.WorstMember), fmtRF(r.RFExisting), fmtRF(r.RFProposed), flagsText(r), r.Unrated)
+		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%d\n", r.Rank, cell(r.BridgeID), cell(r.Name), cell(r.WorstMember), worstKind(r.WorstMember), fmtRF(r.RFExisting), fmtRF(r.RFProposed), flagsText(r), r.Unrated)
 	}
 	if err := tw.Flush(); err != nil {
 		return err

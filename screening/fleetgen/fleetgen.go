@@ -30,11 +30,14 @@ type Options struct {
 	// Tables, when set, receives the joint tables (trusses.csv) of the bridges the
 	// generator gives as tables; without it none is.
 	Tables io.Writer
+	// FloorShare is the share of bridges whose floor system (stringers and floor beams) the
+	// inventory describes (floor.go).
+	FloorShare float64
 }
 
 // Defaults gives the options the demo uses, apart from the reference train.
 func Defaults(n int) Options {
-	return Options{Bridges: n, Seed: 1893, StoredRatingShare: 0.3, MarginLow: 0.7, MarginHigh: 1.3}
+	return Options{Bridges: n, Seed: 1893, StoredRatingShare: 0.3, MarginLow: 0.7, MarginHigh: 1.3, FloorShare: 0.3}
 }
 
 var (
@@ -48,8 +51,9 @@ var (
 var (
 	BridgeHeader = []string{"bridge_id", "name", "line", "chainage_km", "truss_type", "span_m", "panels", "depth_m", "deck", "end_posts", "trusses", "truss_share", "tracks", "dead_load_kn_per_m", "year_built", "latitude", "longitude", "last_inspected",
 		"truss_spacing_m", "track_offsets_m", "line_speed_kmh", "first_frequency_hz", "truss_weight_kn_per_m",
-		"depths_m", "end_depth_m", "spans"}
-	MemberHeader = []string{"bridge_id", "member", "capacity_tension_kn", "capacity_compression_kn", "rating_factor", "reference_train", "condition_factor", "area_mm2", "fatigue_category"}
+		"depths_m", "end_depth_m", "spans", "stringer_spacing_m", "stringer_dead_kn_per_m", "floor_beam_dead_kn_per_m"}
+	MemberHeader = []string{"bridge_id", "member", "capacity_tension_kn", "capacity_compression_kn", "rating_factor", "reference_train", "condition_factor", "area_mm2", "fatigue_category",
+		"capacity_moment_knm", "capacity_shear_kn"}
 )
 
 // Generate writes the bridges and members CSV files of an invented fleet.
@@ -74,6 +78,7 @@ func Generate(opt Options, bridgesOut, membersOut io.Writer) error {
 	var w screening.Screener
 	byEra := map[float64]*screening.Settings{}
 	tw := newTableWriter(opt.Tables)
+	fr := floorRand(opt.Seed)
 	for i := 0; i < opt.Bridges; i++ {
 		li := r.IntN(len(lines))
 		chainage[li] += 0.4 + r.Float64()*6
@@ -81,6 +86,7 @@ func Generate(opt Options, bridgesOut, membersOut io.Writer) error {
 		if err := inventForm(r, &b, row, tw); err != nil {
 			return err
 		}
+		row = inventFloor(fr, opt.FloorShare, &b, row)
 		year, _ := strconv.Atoi(row[14])
 		set, ok := byEra[designE(year)]
 		if !ok {
@@ -101,6 +107,9 @@ func Generate(opt Options, bridgesOut, membersOut io.Writer) error {
 		stored := r.Float64() < opt.StoredRatingShare
 		margin := opt.MarginLow + r.Float64()*(opt.MarginHigh-opt.MarginLow)
 		if err := writeMembers(mw, r, b, year, res, margin, stored, opt.Reference.Name); err != nil {
+			return err
+		}
+		if err := writeFloor(mw, fr, b, res, margin); err != nil {
 			return err
 		}
 	}
@@ -207,11 +216,17 @@ func writeMembers(w *csv.Writer, r *rand.Rand, b screening.Bridge, year int, res
 	// The smallest section an old truss would use, as a share of its largest member demand.
 	largest := 0.0
 	for _, m := range res.Members {
+		if m.Effect != "" {
+			continue // a floor element (floor.go)
+		}
 		largest = math.Max(largest, demandT(m.Dead, m.Existing))
 		largest = math.Max(largest, demandC(m.Dead, m.Existing))
 	}
 	floor := 0.12 * largest
 	for _, m := range res.Members {
+		if m.Effect != "" {
+			continue
+		}
 		k := margin * (0.95 + 0.25*r.Float64())
 		// A member that the design left short for today's traffic (the reference train) was
 		// strengthened to carry it with a little to spare.
@@ -223,13 +238,13 @@ func writeMembers(w *csv.Writer, r *rand.Rand, b screening.Bridge, year int, res
 			cond = round(0.8+0.18*r.Float64(), 0.01)
 		}
 		area := round(math.Max(ct, cc)/0.165, 100) // mm² at about 165 MPa working stress
-		row := []string{b.ID, m.Label, f(ct), f(cc), "", "", f(cond), f(area), "71"}
+		row := []string{b.ID, m.Label, f(ct), f(cc), "", "", f(cond), f(area), "71", "", ""}
 		if stored {
 			rf, ok := storedRF(m, ct*cond, cc*cond)
 			if !ok {
 				continue // a member the reference train does not load: nothing to store
 			}
-			row = []string{b.ID, m.Label, "", "", f(round(rf, 0.01)), refName, "1", f(area), "71"}
+			row = []string{b.ID, m.Label, "", "", f(round(rf, 0.01)), refName, "1", f(area), "71", "", ""}
 		}
 		if err := w.Write(row); err != nil {
 			return err

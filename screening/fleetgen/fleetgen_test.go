@@ -9,6 +9,7 @@ import (
 
 	"github.com/trussfleet/trussfleet/configs"
 	"github.com/trussfleet/trussfleet/screening/fleetgen"
+	"github.com/trussfleet/trussfleet/screening/floor"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 	"github.com/trussfleet/trussfleet/screening/truss"
 )
@@ -54,6 +55,7 @@ func TestFleet(t *testing.T) {
 	labels := map[string]map[string]bool{}
 	forms := map[string]bool{}
 	types := map[string]bool{}
+	floors := 0
 	for _, r := range b1[1:] {
 		span, _ := strconv.ParseFloat(r[5], 64)
 		n, _ := strconv.Atoi(r[6])
@@ -81,6 +83,13 @@ func TestFleet(t *testing.T) {
 		for _, l := range tr.Labels() {
 			labels[r[0]][l] = true
 		}
+		tracks, _ := strconv.Atoi(r[12])
+		for _, l := range floor.Labels(len(tr.DeckJoints)-1, tracks) {
+			labels[r[0]][l] = true
+		}
+		if r[18] != "" {
+			floors++
+		}
 	}
 	if len(types) != len(truss.Types) {
 		t.Errorf("types %v, want all %d", types, len(truss.Types))
@@ -88,7 +97,7 @@ func TestFleet(t *testing.T) {
 	if len(forms) != 4 || !forms["listed depths"] || !forms["parabolic chord"] || !forms["continuous"] || !forms["deck warren"] {
 		t.Errorf("forms %v, want every one", forms)
 	}
-	stored := 0
+	stored, floorRows := 0, 0
 	for _, r := range m1[1:] {
 		if !labels[r[0]][r[1]] {
 			t.Errorf("member %s of %s is not in its geometry", r[1], r[0])
@@ -97,9 +106,14 @@ func TestFleet(t *testing.T) {
 		case r[2] != "" && r[3] != "" && r[4] == "":
 		case r[2] == "" && r[3] == "" && r[4] != "" && r[5] == "Northmoor freight today":
 			stored++
+		case floor.IsLabel(r[1]) && r[2] == "" && r[3] == "" && r[4] == "" && r[9] != "" && r[10] != "":
+			floorRows++
 		default:
 			t.Errorf("member row %v holds neither capacities nor a stored rating", r)
 		}
+	}
+	if floors == 0 || floors == len(b1)-1 || floorRows == 0 {
+		t.Errorf("%d of %d bridges with floor data, %d floor rows; want some", floors, len(b1)-1, floorRows)
 	}
 	if stored == 0 || stored == len(m1)-1 {
 		t.Errorf("%d of %d members with stored ratings; want some of both kinds", stored, len(m1)-1)

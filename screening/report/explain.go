@@ -13,6 +13,7 @@ import (
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/floor"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 	"github.com/trussfleet/trussfleet/screening/truss"
 )
@@ -56,6 +57,9 @@ func ExplainIn(w io.Writer, run Run, b Bridge, member string, u units.System) er
 			labels = t.Labels()
 		}
 		return fmt.Errorf("bridge %s has no member %q; its members: %s", safetext.Terminal(b.Row.BridgeID), safetext.Terminal(member), safetext.Terminal(strings.Join(labels, ", ")))
+	}
+	if _, _, ok := floor.ResultEffect(member); ok {
+		return explainFloor(w, run, b, t, b.Members[idx], u)
 	}
 	k := t.Member(member)
 	if k < 0 {
@@ -175,9 +179,20 @@ func ExplainIn(w io.Writer, run Run, b Bridge, member string, u units.System) er
 		}
 	}
 
-	p("\nRating (%s)\n", equation(run))
-	tw = tabwriter.NewWriter(ew, 0, 0, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprintf(tw, "  traffic\tsense\tbasis\theld %[1]s\tcond.\tC %[1]s\tD %[1]s\tL %[1]s\t1 + I\tRF\t\n", kN)
+	explainRating(ew, run, m, u)
+	for _, c := range Caution {
+		p("CAUTION: %s\n", c)
+	}
+	return ew.err
+}
+
+// explainRating writes a result's rating arithmetic under both scenarios and why it is
+// flagged; a floor element's effects are in its own unit (kN·m for a moment).
+func explainRating(w io.Writer, run Run, m Member, u units.System) {
+	q := u.Name(effectQty(m.Label))
+	fmt.Fprintf(w, "\nRating (%s)\n", equation(run))
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprintf(tw, "  traffic\tsense\tbasis\theld %[1]s\tcond.\tC %[1]s\tD %[1]s\tL %[1]s\t1 + I\tRF\t\n", q)
 	for _, c := range append(senses(m, "existing", m.Existing), senses(m, "proposed", m.Proposed)...) {
 		v := calcOf(c, u)
 		mark := ""
@@ -187,35 +202,31 @@ func ExplainIn(w io.Writer, run Run, b Bridge, member string, u units.System) er
 		fmt.Fprintf(tw, "  %s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s%s\t\n", v.Scenario, v.Sense, v.Basis, v.Held, v.Cond, v.C, v.D, v.L, v.Impact, v.RF, mark)
 	}
 	_ = tw.Flush()
-	p("  * the lowest RF of the traffic\n")
+	fmt.Fprintf(w, "  * the lowest RF of the traffic\n")
 	if n := storedNote(m, safetext.Terminal(m.ReferenceTrain)); n != "" {
-		p("  %s\n", n)
+		fmt.Fprintf(w, "  %s\n", n)
 	}
 	if u := unratedSenses(m); len(u) > 0 {
-		p("  unrated in %s: no capacity and no stored RF rated in that sense; counted in the bridge's unrated members", strings.Join(u, " and "))
+		fmt.Fprintf(w, "  unrated in %s: no capacity and no stored RF rated in that sense; counted in the bridge's unrated members", strings.Join(u, " and "))
 		if !run.FlagUnrated {
-			p(", not flagged (thresholds.flag_unrated is off)")
+			fmt.Fprintf(w, ", not flagged (thresholds.flag_unrated is off)")
 		}
-		p("\n")
+		fmt.Fprintf(w, "\n")
 	}
-	p("  existing RF %s, proposed RF %s", rfText(m.RFExisting), rfText(m.RFProposed))
+	fmt.Fprintf(w, "  existing RF %s, proposed RF %s", rfText(m.RFExisting), rfText(m.RFProposed))
 	if m.SenseProposed != "" {
-		p(" (%s)", m.SenseProposed)
+		fmt.Fprintf(w, " (%s)", m.SenseProposed)
 	}
-	p("\n\nWhy flagged\n")
+	fmt.Fprintf(w, "\n\nWhy flagged\n")
 	if rs := reasons(run, m, u); len(rs) > 0 {
 		for _, s := range rs {
-			p("  - %s\n", s)
+			fmt.Fprintf(w, "  - %s\n", s)
 		}
 	} else {
 		flag, review := thresholds(run)
-		p("  not flagged: the proposed RF %s is at or above the review threshold %s (flag threshold %s) and no other flag applies.\n", rfText(m.RFProposed), num(review, 2), num(flag, 2))
+		fmt.Fprintf(w, "  not flagged: the proposed RF %s is at or above the review threshold %s (flag threshold %s) and no other flag applies.\n", rfText(m.RFProposed), num(review, 2), num(flag, 2))
 	}
-	p("\n")
-	for _, c := range Caution {
-		p("CAUTION: %s\n", c)
-	}
-	return ew.err
+	fmt.Fprintf(w, "\n")
 }
 
 // explainTrains lists each train's extremes on the member, recomputed exactly from the

@@ -13,6 +13,7 @@ import (
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/fleetgen"
+	"github.com/trussfleet/trussfleet/screening/floor"
 	"github.com/trussfleet/trussfleet/screening/rating"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 	"github.com/trussfleet/trussfleet/screening/truss"
@@ -298,8 +299,20 @@ func demoFleet(t testing.TB, n int) *fixture {
 			Name: r["name"], Line: r["line"], ChainageKm: fl(r["chainage_km"]), LastInspected: r["last_inspected"],
 		})
 	}
+	for _, r := range bridges {
+		if r["stringer_spacing_m"] != "" {
+			fleet[byID[r["bridge_id"]]].Floor = screening.FloorSystem{Rate: true, StringerSpacingM: fl(r["stringer_spacing_m"]),
+				StringerDeadKNPerM: fl(r["stringer_dead_kn_per_m"]), FloorBeamDeadKNPerM: fl(r["floor_beam_dead_kn_per_m"])}
+		}
+	}
 	for _, r := range members {
 		b := &fleet[byID[r["bridge_id"]]]
+		if floor.IsLabel(r["member"]) {
+			// A floor element's two effects (as fleetrun reads them from the store).
+			b.Members[r["member"]+floor.Moment.Suffix()] = rating.Member{CapacityTension: fl(r["capacity_moment_knm"]), ConditionFactor: fl(r["condition_factor"])}
+			b.Members[r["member"]+floor.Shear.Suffix()] = rating.Member{CapacityTension: fl(r["capacity_shear_kn"]), ConditionFactor: fl(r["condition_factor"])}
+			continue
+		}
 		b.Members[r["member"]] = rating.Member{
 			CapacityTension: fl(r["capacity_tension_kn"]), CapacityCompression: fl(r["capacity_compression_kn"]),
 			ConditionFactor: fl(r["condition_factor"]), RatingFactor: fl(r["rating_factor"]), ReferenceTrain: r["reference_train"],

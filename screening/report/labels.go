@@ -2,6 +2,7 @@ package report
 
 import (
 	"math"
+	"sort"
 	"strconv"
 	"unicode/utf8"
 )
@@ -168,4 +169,19 @@ func meetsAny(b box, bs []box) bool {
 		}
 	}
 	return false
+}
+
+// mostSevereFirst orders the wanted labels by their rating factors rfs, lowest first (stable),
+// so that the worst members get the places nearest their middles.
+func mostSevereFirst(ws []wanted, rfs []float64) []wanted {
+	order := make([]int, len(ws))
+	for i := range order {
+		order[i] = i
+	}
+	sort.SliceStable(order, func(i, k int) bool { return rfs[order[i]] < rfs[order[k]] })
+	out := make([]wanted, len(ws))
+	for i, k := range order {
+		out[i] = ws[k]
+	}
+	return out
 }

@@ -61,6 +61,9 @@ type Bridge struct {
 
 	// The cross-section (screening/section.go): 0 and nil where not given.
 	Section Section
+	// FloorNotes say what of the floor system was assumed or left unrated (package floor's
+	// Notes in words); nil for a bridge whose floor is not rated.
+	FloorNotes []string
 }
 
 // Section is a bridge's cross-section and what else its dynamic allowance and dead load rest

@@ -22,6 +22,7 @@ import (
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/floor"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 	"github.com/trussfleet/trussfleet/screening/truss"
 )
@@ -422,6 +423,7 @@ type bridgeView struct {
 	Facts     []keyValue
 	Problem   string
 	Elevation *elevation
+	FloorPlan *elevation // floor.go
 	Bands     []band
 	DeckWord  string
 	// SupportWord says where the bearings are (forms.go).
@@ -480,6 +482,7 @@ func bridgePage(run Run, b Bridge, u units.System) bridgeView {
 		{"RF existing → proposed", rfText(r.RFExisting) + " → " + rfText(r.RFProposed)},
 		{"headroom", optNum(r.Headroom, 2) + " × proposed"},
 		{"unrated members", unratedFact(run, r.Unrated)},
+		{"floor system", floorFact(b)},
 		{"inspected", orDash(r.LastInspected)},
 	}
 	v.Facts = sectionFacts(v.Facts, b, u)
@@ -504,6 +507,7 @@ func bridgePage(run Run, b Bridge, u units.System) bridgeView {
 	} else {
 		e := drawElevation(t, run, byLabel, u)
 		v.Elevation = &e
+		v.FloorPlan = floorPlan(run, b, t, u)
 	}
 	// Most severe first: the member that matters is not to be found 24th in the geometry's
 	// order.
@@ -513,11 +517,12 @@ func bridgePage(run Run, b Bridge, u units.System) bridgeView {
 		if len(m.Flags) > 0 {
 			anchor = fmt.Sprintf("m-%d", i)
 		}
+		q := effectQty(m.Label)
 		v.MemberRows = append(v.MemberRows, memberRow{
 			Label: m.Label, Kind: m.Kind, Anchor: anchor, Sense: orDash(m.SenseProposed),
-			D: signedQty(u, units.Force, m.DeadKN), DKey: sortKey(&m.DeadKN),
-			LMax: qty(u, units.Force, m.Proposed.LiveMaxKN), LMaxKey: sortKey(&m.Proposed.LiveMaxKN),
-			LMin: qty(u, units.Force, m.Proposed.LiveMinKN), LMinKey: sortKey(&m.Proposed.LiveMinKN),
+			D: signedQty(u, q, m.DeadKN), DKey: sortKey(&m.DeadKN),
+			LMax: qty(u, q, m.Proposed.LiveMaxKN), LMaxKey: sortKey(&m.Proposed.LiveMaxKN),
+			LMin: qty(u, q, m.Proposed.LiveMinKN), LMinKey: sortKey(&m.Proposed.LiveMinKN),
 			RFEx: rfText(m.RFExisting), RFExKey: sortKey(m.RFExisting),
 			RFPr: rfText(m.RFProposed), RFPrKey: sortKey(m.RFProposed), RFClass: rfClass(run, m.RFProposed),
 			Flags: m.Flags,
@@ -540,6 +545,9 @@ func memberSection(run Run, b Bridge, t *truss.Truss, lines *analysis.Lines, i i
 	}
 	if lines == nil {
 		return s
+	}
+	if _, _, ok := floor.ResultEffect(m.Label); ok {
+		return floorSection(run, b, t, s, i, u)
 	}
 	k := t.Member(m.Label)
 	if k < 0 {
@@ -621,6 +629,9 @@ func placementText(ex envelope.Extreme, tr *traffic.Train, ob onBridge, xs, eta 
 // calcOf is the arithmetic of one sense as shown, forces in units u.
 func calcOf(c senseCalc, u units.System) calcView {
 	f := units.Force
+	if c.Moment {
+		f = units.Moment
+	}
 	v := calcView{Scenario: c.Scenario, Sense: c.Sense, Basis: orDash(c.Basis), Held: optQty(u, f, c.HeldKN), Cond: num(c.Condition, 2), C: optQty(u, f, c.CKN),
 		D: signedQty(u, f, c.DKN), L: qty(u, f, c.LKN), Impact: num(c.Impact, 3), RF: rfText(c.RF), Governs: c.Governs}
 	if c.HeldKN == nil {

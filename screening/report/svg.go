@@ -3,7 +3,6 @@ package report
 import (
 	"fmt"
 	"math"
-	"sort"
 	"strings"
 
 	"github.com/trussfleet/trussfleet/internal/units"
@@ -111,15 +110,7 @@ func drawElevation(t *truss.Truss, run Run, members map[string]Member, u units.S
 		}
 	}
 	// Most severe first, so that the worst members get the places nearest their middles.
-	order := make([]int, len(ws))
-	for i := range order {
-		order[i] = i
-	}
-	sort.SliceStable(order, func(i, k int) bool { return rfs[order[i]] < rfs[order[k]] })
-	byRF := make([]wanted, len(ws))
-	for i, k := range order {
-		byRF[i] = ws[k]
-	}
+	byRF := mostSevereFirst(ws, rfs)
 	var taken []box
 	for _, j := range e.Joints {
 		taken = append(taken, textBox(j, jointFont, 1))

@@ -107,6 +107,8 @@ type senseCalc struct {
 	Impact   float64
 	RF       *float64
 	Basis    string
+	// Moment: a floor element's moment (kN·m), not a force.
+	Moment bool
 	// Governs marks the sense that gives the scenario's lowest RF.
 	Governs bool
 }
@@ -139,7 +141,8 @@ func senses(m Member, name string, s Scenario) []senseCalc {
 		default:
 			basis = "not needed: D + L keeps the other sense"
 		}
-		c := senseCalc{Scenario: name, Sense: sense, HeldKN: held, Condition: cond, DKN: dead, LKN: live, Impact: s.Impact, RF: rf, Basis: basis}
+		c := senseCalc{Scenario: name, Sense: senseName(m.Label, sense), HeldKN: held, Condition: cond, DKN: dead, LKN: live, Impact: s.Impact, RF: rf, Basis: basis,
+			Moment: effectQty(m.Label) == units.Moment}
 		if held != nil {
 			c.CKN = ptr(*held * cond)
 		}

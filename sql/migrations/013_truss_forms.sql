@@ -2,9 +2,9 @@
 -- given as a list of depths or by its end depth (a parabola to the midspan depth), trusses
 -- continuous over two or three equal spans, and trusses given as a joint/member table.
 --
--- The new geometry columns are screening inputs: the trigger that renews a bridge's
--- input_version (migration 010) is replaced by one that watches them too, and a change of a
--- bridge's joint table renews its version as well.
+-- The new geometry columns are screening inputs: a trigger of their own renews a bridge's
+-- input_version (migration 010) when they change, and so does a change of its joint table.
+
 
 ALTER TABLE bridges
     -- Depth at every top-chord joint, left to right, m; NULL: parallel chords or a parabola.
@@ -27,13 +27,9 @@ ALTER TABLE import_batches DROP CONSTRAINT import_batches_kind_check;
 ALTER TABLE import_batches ADD CONSTRAINT import_batches_kind_check
     CHECK (kind IN ('bridges', 'members', 'trains', 'trusses'));
 
-DROP TRIGGER bridges_input_version ON bridges;
-CREATE TRIGGER bridges_input_version BEFORE UPDATE ON bridges FOR EACH ROW
-WHEN ((OLD.truss_type, OLD.span_m, OLD.panels, OLD.depth_m, OLD.deck, OLD.end_posts, OLD.trusses,
-       OLD.truss_share, OLD.tracks, OLD.dead_load_kn_per_m, OLD.depths_m, OLD.end_depth_m, OLD.spans)
-      IS DISTINCT FROM
-      (NEW.truss_type, NEW.span_m, NEW.panels, NEW.depth_m, NEW.deck, NEW.end_posts, NEW.trusses,
-       NEW.truss_share, NEW.tracks, NEW.dead_load_kn_per_m, NEW.depths_m, NEW.end_depth_m, NEW.spans))
+-- A trigger of its own, beside the one that watches the other geometry columns.
+CREATE TRIGGER bridges_forms_input_version BEFORE UPDATE ON bridges FOR EACH ROW
+WHEN ((OLD.depths_m, OLD.end_depth_m, OLD.spans) IS DISTINCT FROM (NEW.depths_m, NEW.end_depth_m, NEW.spans))
 EXECUTE FUNCTION bridge_inputs_changed();
 
 CREATE FUNCTION truss_tables_changed() RETURNS trigger LANGUAGE plpgsql AS $$
@@ -59,12 +55,5 @@ DELETE FROM import_batches WHERE kind = 'trusses';
 ALTER TABLE import_batches DROP CONSTRAINT import_batches_kind_check;
 ALTER TABLE import_batches ADD CONSTRAINT import_batches_kind_check
     CHECK (kind IN ('bridges', 'members', 'trains'));
-DROP TRIGGER bridges_input_version ON bridges;
-CREATE TRIGGER bridges_input_version BEFORE UPDATE ON bridges FOR EACH ROW
-WHEN ((OLD.truss_type, OLD.span_m, OLD.panels, OLD.depth_m, OLD.deck, OLD.end_posts, OLD.trusses,
-       OLD.truss_share, OLD.tracks, OLD.dead_load_kn_per_m)
-      IS DISTINCT FROM
-      (NEW.truss_type, NEW.span_m, NEW.panels, NEW.depth_m, NEW.deck, NEW.end_posts, NEW.trusses,
-       NEW.truss_share, NEW.tracks, NEW.dead_load_kn_per_m))
-EXECUTE FUNCTION bridge_inputs_changed();
+DROP TRIGGER bridges_forms_input_version ON bridges;
 ALTER TABLE bridges DROP COLUMN spans, DROP COLUMN end_depth_m, DROP COLUMN depths_m;
