@@ -70,6 +70,9 @@ type Settings struct {
 	Dynamic    traffic.Dynamic
 	Method     rating.Method
 	Thresholds rating.Thresholds
+	// Network, when set, rates every bridge by line category and Cooper E rating as well
+	// (categories.go).
+	Network *NetworkTrains
 }
 
 // ShareTrains makes the trains that are defined alike, in either scenario or among the
@@ -99,6 +102,9 @@ func (s *Settings) ShareTrains() {
 	sort.Strings(names)
 	for _, n := range names {
 		s.References[n] = share(s.References[n])
+	}
+	if s.Network != nil {
+		s.Network.E80 = share(s.Network.E80)
 	}
 }
 
@@ -130,6 +136,9 @@ type Result struct {
 	Summary rating.Bridge
 	// Governing is the proposed-traffic extreme behind the worst member's lowest RF.
 	Governing *Extreme
+	// Network is the bridge's line categories and Cooper E rating; nil unless the settings
+	// ask for them.
+	Network *NetworkResult
 }
 
 // Screener screens bridges one after another, reusing its buffers; one per goroutine.
@@ -244,6 +253,11 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 		res.Members[i] = MemberResult{Label: l.Label, Kind: l.Kind, Dead: dead, Existing: ex[i], Proposed: pr[i], Assessment: a}
 	}
 	res.Summary = rating.Summarise(assess)
+	if s.Network != nil {
+		if res.Network, err = w.rateNetwork(b, s, el, res.Members, refs, share, impact); err != nil {
+			return fail(err)
+		}
+	}
 	if w := res.Summary.Worst; w >= 0 {
 		e := res.Members[w].Proposed.Max
 		if res.Summary.WorstPr.Sense == rating.Compression {

@@ -57,6 +57,9 @@ type Plan struct {
 	// reversal to count; FlagUnrated flags unrated members.
 	Reversal    float64 `json:"reversal_fraction"`
 	FlagUnrated bool    `json:"flag_unrated"`
+	// Network rates every bridge by line category and Cooper E rating as well (9 sweeps a
+	// bridge more; screening/categories.go).
+	Network bool `json:"network"`
 }
 
 // Hash is a stable digest of the plan.
@@ -121,6 +124,11 @@ func (p Plan) Settings() (*Settings, error) {
 		}
 	default:
 		return nil, fmt.Errorf("rating method %q: allowed working-stress, factored", p.Method)
+	}
+	if p.Network {
+		if s.Network, err = NewNetworkTrains(); err != nil {
+			return nil, err
+		}
 	}
 	s.Thresholds = rating.Thresholds{Flag: p.Flag, Review: p.Review, WorseFraction: p.Worse,
 		ReversalFraction: p.Reversal, FlagUnrated: p.FlagUnrated}

@@ -1,0 +1,144 @@
+package screening
+
+import (
+	"fmt"
+	"math"
+
+	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/network"
+	"github.com/trussfleet/trussfleet/screening/rating"
+	"github.com/trussfleet/trussfleet/screening/traffic"
+)
+
+// NetworkTrains are the trains of the network view, prepared once per run: the reference
+// wagon trains of the line categories, one per wagon geometry (screening/network), and
+// Cooper E80. Rating a bridge by them costs a sweep per geometry and one for E80 (9 in all)
+// more than the screening alone, fewer where E80 is among the scenarios' trains (swept once);
+// BENCHMARKS.md, "Network view", has the measured cost.
+type NetworkTrains struct {
+	Geometries []network.Geometry
+	loads      []*envelope.Load // Geometries' unit trains
+	E80        *envelope.Load
+}
+
+// NewNetworkTrains prepares the trains of the network view.
+func NewNetworkTrains() (*NetworkTrains, error) {
+	nt := &NetworkTrains{Geometries: network.Geometries()}
+	for _, g := range nt.Geometries {
+		ld, err := envelope.Prepare(g.Unit)
+		if err != nil {
+			return nil, fmt.Errorf("reference wagons %s: %w", g.Unit.Name, err)
+		}
+		nt.loads = append(nt.loads, ld)
+	}
+	e80, err := envelope.Prepare(traffic.Cooper(network.CooperE))
+	if err != nil {
+		return nil, fmt.Errorf("Cooper E80: %w", err)
+	}
+	nt.E80 = e80
+	return nt, nil
+}
+
+// NetworkResult is a bridge's network outcome: its line categories and Cooper E rating, and
+// each member's E rating (MemberE, indexing Result.Members; NaN where the member is not rated
+// under Cooper E80).
+type NetworkResult struct {
+	network.Rating
+	MemberE []float64
+}
+
+// rateNetwork rates the bridge's members under the network trains, with the bridge's dynamic
+// allowance and truss share, by rating.Rate with each member's capacities (or stored rating
+// factor and its reference train, refs) as the scenarios are rated. members holds the dead
+// loads and labels; the sweeps go through w.sweep, so a train already swept for this bridge
+// is not swept again.
+func (w *Screener) rateNetwork(b Bridge, s *Settings, el *envelope.Lines, members []MemberResult, refs map[string][]Envelope, share, impact float64) (*NetworkResult, error) {
+	nt := s.Network
+	opt := envelope.Options{Share: share}
+	unit := make([][]envelope.Extremes, len(nt.loads))
+	for g, ld := range nt.loads {
+		ext, err := w.sweep(el, ld, opt)
+		if err != nil {
+			return nil, fmt.Errorf("network view, %s: %w", ld.Name(), err)
+		}
+		unit[g] = ext
+	}
+	e80, err := w.sweep(el, nt.E80, opt)
+	if err != nil {
+		return nil, fmt.Errorf("network view, Cooper E80: %w", err)
+	}
+	// worst is member i's lowest rating factor under a live envelope scaled by f.
+	worst := func(i int, ext envelope.Extremes, f float64) (rating.Factor, bool) {
+		m := members[i]
+		inv := b.Members[m.Label]
+		l := rating.Loading{Demand: rating.Demand{Dead: m.Dead, LiveMax: f * ext.Max.Value, LiveMin: f * ext.Min.Value, Impact: impact}}
+		if r, ok := refs[inv.ReferenceTrain]; ok && inv.HasStoredRating() {
+			d := demand(m.Dead, r[i])
+			l.Reference = &d
+		}
+		rfs, _ := rating.Rate(inv, l, s.Method)
+		return rating.Worst(rfs)
+	}
+	out := &NetworkResult{Rating: network.Rating{ERating: math.NaN()}, MemberE: make([]float64, len(members))}
+	for i := range members {
+		out.MemberE[i] = math.NaN()
+		if f, ok := worst(i, e80[i], 1); ok && !math.IsInf(f.RF, 0) {
+			out.MemberE[i] = network.ERating(f.RF)
+			if math.IsNaN(out.ERating) || out.MemberE[i] < out.ERating {
+				out.ERating, out.EMember = out.MemberE[i], members[i].Label
+			}
+		}
+	}
+	geomOf := make([]int, len(network.Categories))
+	for g, geo := range nt.Geometries {
+		for _, c := range geo.Categories {
+			geomOf[c] = g
+		}
+	}
+	short, long := 0, len(nt.Geometries)-1
+	pass := make([]bool, len(network.Categories))
+	rated := false
+	for c, cat := range network.Categories {
+		cr := network.CategoryRating{Category: cat.Name, RF: math.Inf(1)}
+		lim, sense := -1, rating.Tension
+		for i := range members {
+			f, ok := worst(i, unit[geomOf[c]][i], cat.AxleLoadKN())
+			if !ok {
+				continue
+			}
+			rated = true
+			if f.RF < cr.RF {
+				cr.RF, lim, sense = f.RF, i, f.Sense
+			}
+		}
+		if lim >= 0 {
+			cr.Member = members[lim].Label
+			cr.Limit = network.LimitMassPerMetre
+			if network.AxleLoadGoverns(live(unit[short][lim], sense), live(unit[long][lim], sense),
+				nt.Geometries[short].LengthM, nt.Geometries[long].LengthM) {
+				cr.Limit = network.LimitAxleLoad
+			}
+		}
+		cr.Pass = cr.RF >= 1
+		pass[c] = cr.Pass
+		out.Categories = append(out.Categories, cr)
+	}
+	if !rated {
+		// Nothing rated: no category can be said to be carried.
+		clear(pass)
+	}
+	carried := network.Closure(pass)
+	for c := range out.Categories {
+		out.Categories[c].Carried = carried[c]
+	}
+	out.Highest = network.Highest(carried)
+	return out, nil
+}
+
+// live is the magnitude of a member's live extreme in the sense.
+func live(e envelope.Extremes, s rating.Sense) float64 {
+	if s == rating.Compression {
+		return -e.Min.Value
+	}
+	return e.Max.Value
+}
