@@ -8,7 +8,7 @@ import (
 )
 
 // Table member_results: sql/migrations/002_screening.sql, 003 (the counts), 004, 009 (made
-// anew, keyed by result set).
+// anew, keyed by result set), 012 (e_rating).
 
 // MemberResult is a row of member_results: one member's live-load envelope under one
 // scenario, in a result set. Forces are kN, positions m.
@@ -35,6 +35,9 @@ type MemberResult struct {
 	MinDirection       string
 	MinFromM, MinToM   pgtype.Float8
 	MaxCount, MinCount pgtype.Int4
+	// ERating is the member's Cooper E rating, 80 x its RF under Cooper E80 (migration 012);
+	// NULL where the run did not ask for it or the member is not rated under E80.
+	ERating pgtype.Float8
 }
 
 // memberResultColumns are member_results' columns: the COPY that writes the rows, the
@@ -63,6 +66,7 @@ var memberResultColumns = []column[MemberResult]{
 	{"min_to_m", func(r *MemberResult) any { return &r.MinToM }},
 	{"max_count", func(r *MemberResult) any { return &r.MaxCount }},
 	{"min_count", func(r *MemberResult) any { return &r.MinCount }},
+	{"e_rating", func(r *MemberResult) any { return &r.ERating }},
 }
 
 // MemberResultColumns are the names of member_results' columns, in the order MemberResult

@@ -11,7 +11,8 @@ import (
 )
 
 // Table run_bridges: sql/migrations/002_screening.sql, 005 (hashes taken at load), 006 (the
-// pending index), 007 (requeues), 009 (result sets, removed rows, run_picture).
+// pending index), 007 (requeues), 009 (result sets, removed rows, run_picture), 012 (line
+// categories, E rating).
 
 // RunProgress counts a run's bridges by status.
 type RunProgress struct {
@@ -182,6 +183,12 @@ type BridgeOutcome struct {
 	// with.
 	InputHash string
 	SetID     *int64 // the bridge's result set; nil for a failed bridge
+	// Categories are the highest line categories the bridge carries, ERating its Cooper E
+	// rating and EMember the member that has it (migration 012); nil where the run did not
+	// ask for the network view.
+	Categories []string
+	ERating    *float64
+	EMember    *string
 }
 
 // outcomeColumn is a run_bridges column a BridgeOutcome sets: its values travel to the server
@@ -226,6 +233,20 @@ var outcomeColumns = []outcomeColumn{
 	{"input_hash", "text[]", "CASE WHEN u.input_hash = '' THEN r.input_hash ELSE u.input_hash END",
 		each(func(o *BridgeOutcome) string { return o.InputHash })},
 	{"set_id", "int8[]", "u.set_id", each(func(o *BridgeOutcome) *int64 { return o.SetID })},
+	{"categories", "text[]", "CASE WHEN u.categories IS NULL THEN NULL ELSE string_to_array(u.categories, ',') END",
+		each(func(o *BridgeOutcome) *string { return joinedOrNil(o.Categories) })},
+	{"e_rating", "float8[]", "u.e_rating", each(func(o *BridgeOutcome) *float64 { return o.ERating })},
+	{"e_member", "text[]", "u.e_member", each(func(o *BridgeOutcome) *string { return o.EMember })},
+}
+
+// joinedOrNil joins a list by commas for its travel in an array of text: nil stays NULL, and
+// an empty list is the empty string (an empty array).
+func joinedOrNil(list []string) *string {
+	if list == nil {
+		return nil
+	}
+	s := strings.Join(list, ",")
+	return &s
 }
 
 // flagCountsJSON is an outcome's flag counts as a JSON object ({} for none).
@@ -272,7 +293,8 @@ func SetOutcomes(ctx context.Context, tx pgx.Tx, runID int64, outcomes []BridgeO
 // a run that depends on it (run_id, status and source_run_id are set apart).
 var carriedColumns = []string{"bridge_id", "input_hash", "error", "worst_member", "rf_existing", "rf_proposed",
 	"demand_increase", "headroom", "flags", "flag_counts", "unrated_members", "governing_train", "governing_sense", "governing_head_m",
-	"governing_direction", "governing_from_m", "governing_to_m", "screened_at", "requeues", "set_id"}
+	"governing_direction", "governing_from_m", "governing_to_m", "screened_at", "requeues", "set_id",
+	"categories", "e_rating", "e_member"}
 
 // squashStatement copies the picture of run $1 into run $2, for every bridge that run $2
 // holds no row of: a screened bridge as carried, a failed one as failed (a failure is never

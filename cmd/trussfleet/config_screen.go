@@ -21,6 +21,8 @@ type ScreenConfig struct {
 	// JobTimeout bounds one job; RescueAfter hands a job whose worker died to another.
 	JobTimeout  time.Duration `mapstructure:"job_timeout"`
 	RescueAfter time.Duration `mapstructure:"rescue_after"`
+	// Network rates every bridge by line category and Cooper E rating as well.
+	Network bool `mapstructure:"network"`
 }
 
 // ScenarioConfig is one traffic scenario: the envelope over all its trains.
@@ -74,6 +76,7 @@ func setScreenDefaults(v *viper.Viper) {
 	v.SetDefault("jobs", 4)
 	v.SetDefault("job_timeout", "2m")
 	v.SetDefault("rescue_after", "5m")
+	v.SetDefault("network", true)
 }
 
 func (s ScreenConfig) validate() []error {

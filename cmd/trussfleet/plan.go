@@ -19,6 +19,7 @@ func buildPlan(ctx context.Context, db *store.DB, c Config) (screening.Plan, err
 		GammaL: s.Rating.GammaL, GammaDFav: s.Rating.GammaDFavourable,
 		Flag: s.Thresholds.Flag, Review: s.Thresholds.Review, Worse: s.Thresholds.WorseFraction,
 		Reversal: s.Thresholds.ReversalFraction, FlagUnrated: s.Thresholds.FlagUnrated,
+		Network: s.Network,
 	}
 	if _, err := traffic.ParseDynamic(s.Dynamic); err != nil {
 		return p, fmt.Errorf("configuration key dynamic: %w", err)
