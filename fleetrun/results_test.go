@@ -129,7 +129,7 @@ var (
 		pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID,
 		pgtype.TextOID, pgtype.TextOID, pgtype.Float8OID, pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID,
 		pgtype.TextOID, pgtype.Float8OID, pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Int4OID, pgtype.Int4OID, pgtype.Float8OID}
-	categoryResultOIDs = []uint32{pgtype.Int8OID, pgtype.TextOID, pgtype.TextOID, pgtype.Float8OID, pgtype.TextOID, pgtype.TextOID}
+	categoryResultOIDs   = []uint32{pgtype.Int8OID, pgtype.TextOID, pgtype.TextOID, pgtype.Float8OID, pgtype.TextOID, pgtype.TextOID}
 	memberAssessmentOIDs = []uint32{pgtype.Int8OID, pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID,
 		pgtype.TextOID, pgtype.Float8OID, pgtype.TextArrayOID}
 )
