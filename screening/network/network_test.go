@@ -169,3 +169,84 @@ func TestERating(t *testing.T) {
 		t.Errorf("E ratings %v, %v", ERating(1.25), ERating(0.5))
 	}
 }
+
+// TestCorridorWeakestLinks works a line of five invented bridges by hand (the partial order
+// of EN 15528 categories, values from memory; the rest is set arithmetic worked here):
+//
+//	km 12.4  N-3  carries up to E5           (every category)
+//	km  3.1  N-1  carries up to D4           (all but E4, E5)
+//	km  7.9  N-2  carries C4 and D2          (and all they dominate; not D3, D4, E4, E5)
+//	km  9.0  N-4  carries up to D3           (not C4, D4, E4, E5)
+//	(no km)  N-5  not rated                  (keeps the line from everything)
+//
+// In chainage order: N-1, N-2, N-4, N-3, then N-5. Without N-5 the line would carry the
+// categories all of N-1, N-2, N-4 carry: A, B1, B2, C2, C3, D2 (C4 is missing at N-4, D3 at
+// N-2), highest C3 and D2. With N-5 unrated the line carries nothing.
+//
+// D3: weakest links N-2 and N-5; upgrading both to D3 (they then carry D3, D2, C3, C2, B2,
+// B1, A) opens A, B1, B2, C2, C3, D2, D3 (C4 still fails at N-4 and N-5 is only raised to D3).
+// C4: weakest N-4 and N-5; upgrading them to C4 opens A, B1, B2, C2, C3, C4 (D2 not: N-5
+// raised to C4 does not carry D2).
+// E5: weakest N-1, N-2, N-4, N-5; upgrading all to E5 opens every category.
+func TestCorridorWeakestLinks(t *testing.T) {
+	km := func(v float64) *float64 { return &v }
+	stops := []Stop{
+		{BridgeID: "N-3", ChainageKm: km(12.4), Highest: []string{"E5"}, Rated: true},
+		{BridgeID: "N-1", ChainageKm: km(3.1), Highest: []string{"D4"}, Rated: true},
+		{BridgeID: "N-5"},
+		{BridgeID: "N-2", ChainageKm: km(7.9), Highest: []string{"C4", "D2"}, Rated: true},
+		{BridgeID: "N-4", ChainageKm: km(9.0), Highest: []string{"D3"}, Rated: true},
+	}
+	c := NewCorridor("Invented Line", stops)
+	var order []string
+	for _, s := range c.Stops {
+		order = append(order, s.BridgeID)
+	}
+	if got, want := join(order), "N-1 N-2 N-4 N-3 N-5"; got != want {
+		t.Errorf("chainage order %s, want %s", got, want)
+	}
+	if len(c.Highest) != 0 {
+		t.Errorf("line carries %v, want nothing (N-5 unrated)", c.Highest)
+	}
+	links := map[string]Links{}
+	for _, l := range c.Categories {
+		links[l.Category] = l
+	}
+	for _, w := range []struct{ cat, weakest, opens string }{
+		{"D3", "N-2 N-5", "A B1 B2 C2 C3 D2 D3"},                     // worked above
+		{"C4", "N-4 N-5", "A B1 B2 C2 C3 C4"},                        // worked above
+		{"E5", "N-1 N-2 N-4 N-5", "A B1 B2 C2 C3 C4 D2 D3 D4 E4 E5"}, // worked above
+		{"A", "N-5", "A"}, // only N-5 lacks A; raised to A it carries A alone
+	} {
+		l := links[w.cat]
+		if l.Open || join(l.Weakest) != w.weakest || join(l.Opens) != w.opens {
+			t.Errorf("%s: open %v, weakest %q, opens %q; want false, %q, %q", w.cat, l.Open, join(l.Weakest), join(l.Opens), w.weakest, w.opens)
+		}
+	}
+	// Once N-5 is rated D4 the line carries A, B1, B2, C2, C3, D2 (worked above): highest C3
+	// and D2, both open, and C4's weakest link is N-4 alone.
+	stops[2] = Stop{BridgeID: "N-5", Highest: []string{"D4"}, Rated: true}
+	c = NewCorridor("Invented Line", stops)
+	if join(c.Highest) != "C3 D2" {
+		t.Errorf("line carries %v, want [C3 D2]", c.Highest)
+	}
+	for _, l := range c.Categories {
+		if l.Category == "C4" && (l.Open || join(l.Weakest) != "N-4" || join(l.Opens) != "C4") {
+			t.Errorf("C4: %+v; want weakest N-4, opens C4", l)
+		}
+		if l.Category == "D2" && (!l.Open || len(l.Weakest) != 0) {
+			t.Errorf("D2: %+v; want open", l)
+		}
+	}
+}
+
+func join(s []string) string {
+	out := ""
+	for i, v := range s {
+		if i > 0 {
+			out += " "
+		}
+		out += v
+	}
+	return out
+}
