@@ -2,6 +2,7 @@ package store
 
 import (
 	"context"
+	"fmt"
 
 	"github.com/jackc/pgx/v5"
 	"github.com/jackc/pgx/v5/pgtype"
@@ -54,4 +55,26 @@ func CopyCategoryResults(ctx context.Context, tx pgx.Tx, stream []byte) error {
 // network view).
 func (db *DB) CategoryResults(ctx context.Context, setID int64) ([]CategoryResult, error) {
 	return selectRows(ctx, db, "category_results", categoryResultColumns, "set_id = $1 ORDER BY category", setID)
+}
+
+// RunCategoryResults reads the category_results of a run's picture, by bridge: the outcome
+// of each line category on each bridge the run rated by category.
+func (db *DB) RunCategoryResults(ctx context.Context, runID int64) (map[string][]CategoryResult, error) {
+	rows, err := db.Pool.Query(ctx, `SELECT r.bridge_id, c.set_id, c.category, c.status, c.rf, c.member, c.limit_by
+		FROM run_picture($1) r JOIN category_results c ON c.set_id = r.set_id
+		ORDER BY r.bridge_id, c.category`, runID)
+	if err != nil {
+		return nil, fmt.Errorf("category results of run %d: %w", runID, err)
+	}
+	out := map[string][]CategoryResult{}
+	var id string
+	var c CategoryResult
+	_, err = pgx.ForEachRow(rows, []any{&id, &c.SetID, &c.Category, &c.Status, &c.RF, &c.Member, &c.LimitBy}, func() error {
+		out[id] = append(out[id], c)
+		return nil
+	})
+	if err != nil {
+		return nil, fmt.Errorf("category results of run %d: %w", runID, err)
+	}
+	return out, nil
 }
