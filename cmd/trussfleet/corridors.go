@@ -251,7 +251,7 @@ func corridorsJSON(run store.Run, cs []network.Corridor, byID map[string]ranking
 	}
 	return map[string]any{"caution": caution, "run": run.ID, "run_status": run.Status, "run_started_at": run.StartedAt,
 		"categories_note": "EN 15528 line categories, values from memory; trussfleet's own reference wagons stand in for the standard's",
-		"lines": out}
+		"lines":           out}
 }
 
 // num is a finite number, nil for NaN or an infinity.
