@@ -259,6 +259,8 @@ type indexView struct {
 	FlagRows []flagRow
 	Config   []keyValue
 	Rows     []rowView
+	// Network is the strip diagram of each line (strips.go).
+	Network stripsView
 }
 
 type flagRow struct {
@@ -302,6 +304,7 @@ func indexPage(run Run, rows []BridgeRow, names map[string]string, u units.Syste
 		v.FlagRows = append(v.FlagRows, flagRow{Flags: []string{f}, Meaning: orText(flagMeaning[f], "set by the screening run"), Members: run.FlagCounts[f], Bridges: bridgesPer[f]})
 	}
 	v.Config = runConfig(run)
+	v.Network = stripsView{Strips: drawStrips(run, rows, names), Bands: bands(run)}
 	for _, r := range rows {
 		v.Rows = append(v.Rows, rowOf(run, r, names[r.BridgeID], u))
 	}
