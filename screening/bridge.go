@@ -254,7 +254,7 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 	}
 	res.Summary = rating.Summarise(assess)
 	if s.Network != nil {
-		if res.Network, err = w.rateNetwork(b, s, el, res.Members, refs, share, impact); err != nil {
+		if res.Network, err = w.rateNetwork(b, s, el, ords, res.Members, refs, share, impact); err != nil {
 			return fail(err)
 		}
 	}

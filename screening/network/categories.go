@@ -85,9 +85,9 @@ const (
 // WagonLengthM is the reference wagon's length over buffers, L = 4 P / w, m.
 func (c Category) WagonLengthM() float64 { return WagonAxles * c.AxleLoadT / c.MassPerMT }
 
-// wagonTrain is a train of 1 to WagonsMax reference wagons of the length, each axle carrying
-// axleKN.
-func wagonTrain(name string, lengthM, axleKN float64) *traffic.Train {
+// wagonTrain is a train of minCount to WagonsMax reference wagons of the length, each axle
+// carrying axleKN.
+func wagonTrain(name string, lengthM, axleKN float64, minCount int) *traffic.Train {
 	v := traffic.Vehicle{Name: name + " reference wagon", LengthM: lengthM}
 	for _, at := range []float64{EndAxleM, EndAxleM + BogieAxlesM, lengthM - EndAxleM - BogieAxlesM, lengthM - EndAxleM} {
 		v.Axles = append(v.Axles, traffic.Axle{AtM: at, LoadKN: axleKN})
@@ -95,13 +95,13 @@ func wagonTrain(name string, lengthM, axleKN float64) *traffic.Train {
 	return &traffic.Train{
 		Name:    name,
 		Note:    "trussfleet reference wagons standing in for the EN 15528 ones (category values from memory)",
-		Consist: []traffic.Group{{Vehicle: v, Min: 1, Max: WagonsMax}},
+		Consist: []traffic.Group{{Vehicle: v, Min: minCount, Max: WagonsMax}},
 	}
 }
 
 // Train is the category's reference wagon train (see the package comment).
 func (c Category) Train() *traffic.Train {
-	return wagonTrain("category "+c.Name, c.WagonLengthM(), c.AxleLoadKN())
+	return wagonTrain("category "+c.Name, c.WagonLengthM(), c.AxleLoadKN(), 1)
 }
 
 // Geometry is a wagon geometry shared by categories of equal P / w.
@@ -110,6 +110,10 @@ type Geometry struct {
 	// Unit is the train of this geometry with a unit axle load (1 kN): a category's envelope
 	// is Unit's times its AxleLoadKN.
 	Unit *traffic.Train
+	// Long is Unit always WagonsMax wagons long. Where every influence line changes sign at
+	// most once, its envelope is Unit's (LongSuffices), and it is swept at one count instead of
+	// one for each count of wagons the span can hold.
+	Long *traffic.Train
 	// Categories index Categories.
 	Categories []int
 }
@@ -135,7 +139,8 @@ func Geometries() []Geometry {
 	}
 	sort.Slice(out, func(a, b int) bool { return out[a].LengthM < out[b].LengthM })
 	for k := range out {
-		out[k].Unit = wagonTrain(fmt.Sprintf("reference wagons %.4g m", out[k].LengthM), out[k].LengthM, 1)
+		out[k].Unit = wagonTrain(fmt.Sprintf("reference wagons %.4g m", out[k].LengthM), out[k].LengthM, 1, 1)
+		out[k].Long = wagonTrain(fmt.Sprintf("reference wagons %.4g m", out[k].LengthM), out[k].LengthM, 1, WagonsMax)
 	}
 	return out
 }
@@ -203,3 +208,43 @@ const (
 	LimitAxleLoad     Limit = "axle load"
 	LimitMassPerMetre Limit = "mass per metre"
 )
+
+// signTol is the share of a line's largest ordinate below which an ordinate counts as zero
+// (rounding residue of the analysis) in LongSuffices.
+const signTol = 1e-9
+
+// LongSuffices says whether, for influence lines with these ordinates at the deck panel
+// points, the envelope of a reference train of WagonsMax wagons equals that of 1 to
+// WagonsMax wagons (Geometry.Long for Geometry.Unit). It does where every line changes sign
+// at most once along the span (the signs of its non-zero ordinates, in order, change at most
+// once): then each sign's region is an interval reaching a bearing, or the whole span. Why:
+// the wagons are symmetric and all alike, so any rake of n wagons is part of the long train
+// at the same place, in either direction. For the largest effect of one sign, the rake's
+// farthest axle from its front stands where the line has that sign or beyond (else the rake
+// only takes from the effect); the long train run with its front where the rake's is, the
+// body trailing towards the bearing the region reaches, adds axles only beyond that axle,
+// where the line has that sign or the bridge has ended. So the long train does at least as
+// much as any rake, and a rake of WagonsMax wagons is the long train. A line with two sign
+// changes or more (a region that reaches neither bearing) needs the rakes.
+func LongSuffices(ordinates [][]float64) bool {
+	for _, eta := range ordinates {
+		big := 0.0
+		for _, v := range eta {
+			big = math.Max(big, math.Abs(v))
+		}
+		changes, last := 0, 0.0
+		for _, v := range eta {
+			if math.Abs(v) <= signTol*big {
+				continue
+			}
+			if last != 0 && (v > 0) != (last > 0) {
+				changes++
+			}
+			last = v
+		}
+		if changes > 1 {
+			return false
+		}
+	}
+	return true
+}

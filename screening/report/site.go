@@ -276,7 +276,10 @@ type rowView struct {
 	RFEx, RFExKey, RFPr, RFPrKey, RFClass   string
 	Change, ChangeKey, Rise, RiseKey        string
 	Unrated, UnratedKey                     string
-	Flags                                   []string
+	// ERating is the Cooper E rating, Categories the highest line categories carried
+	// (strips.go).
+	ERating, ERatingKey, Categories string
+	Flags                           []string
 	Governing, GovSense, Inspected, Error   string
 }
 
@@ -391,6 +394,7 @@ func rowOf(run Run, r BridgeRow, href string, u units.System) rowView {
 	if r.GoverningTrain != "" {
 		v.Governing, v.GovSense = r.GoverningTrain, r.GoverningSense
 	}
+	v.ERating, v.ERatingKey, v.Categories = eText(r.ERating), sortKey(r.ERating), orDash(categoryWords(r))
 	return v
 }
 

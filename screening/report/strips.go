@@ -201,3 +201,11 @@ func decimalsFor(step float64) int {
 	}
 	return d
 }
+
+// eText is a Cooper E rating as the tables show it (E64), or a dash.
+func eText(e *float64) string {
+	if e == nil {
+		return dash
+	}
+	return fmt.Sprintf("E%.0f", *e)
+}
