@@ -278,9 +278,9 @@ type rowView struct {
 	Unrated, UnratedKey                     string
 	// ERating is the Cooper E rating, Categories the highest line categories carried
 	// (strips.go).
-	ERating, ERatingKey, Categories string
-	Flags                           []string
-	Governing, GovSense, Inspected, Error   string
+	ERating, ERatingKey, Categories       string
+	Flags                                 []string
+	Governing, GovSense, Inspected, Error string
 }
 
 func indexPage(run Run, rows []BridgeRow, names map[string]string, u units.System) indexView {
