@@ -276,11 +276,12 @@ type rowView struct {
 	RFEx, RFExKey, RFPr, RFPrKey, RFClass   string
 	Change, ChangeKey, Rise, RiseKey        string
 	Unrated, UnratedKey                     string
+	Flags                                   []string
+	Governing, GovSense, Inspected, Error   string
+
 	// ERating is the Cooper E rating, Categories the highest line categories carried
 	// (strips.go).
-	ERating, ERatingKey, Categories       string
-	Flags                                 []string
-	Governing, GovSense, Inspected, Error string
+	ERating, ERatingKey, Categories string
 }
 
 func indexPage(run Run, rows []BridgeRow, names map[string]string, u units.System) indexView {
