@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/jackc/pgx/v5"
@@ -433,6 +434,34 @@ func TestWriteResultsMatchesPgxCopy(t *testing.T) {
 	if nanDead == 0 || nullRF == 0 || noTrain == 0 || emptyFlags == 0 || wide == 0 {
 		t.Errorf("special cases stored: NaN dead load %d, no factor %d, no train %d, empty flags %d, non-ASCII %d; want each > 0",
 			nanDead, nullRF, noTrain, emptyFlags, wide)
+	}
+	// Each screened bridge's row holds its network outcome as screened (nil categories for a
+	// result without one, an empty list for one that carries none).
+	rated := 0
+	for _, r := range pending {
+		if r.Err != nil {
+			continue
+		}
+		var cats []string
+		var e *float64
+		if err := db.Pool.QueryRow(ctx, `SELECT categories, e_rating FROM run_bridges WHERE run_id = $1 AND bridge_id = $2`,
+			runID, r.BridgeID).Scan(&cats, &e); err != nil {
+			t.Fatal(err)
+		}
+		if r.Network == nil {
+			if cats != nil || e != nil {
+				t.Errorf("%s: categories %v, E rating %v without a network outcome", r.BridgeID, cats, e)
+			}
+			continue
+		}
+		rated++
+		want := fleetrun.Num(r.Network.ERating)
+		if strings.Join(cats, " ") != strings.Join(r.Network.Highest, " ") || cats == nil || (e == nil) != (want == nil) || (e != nil && *e != *want) {
+			t.Errorf("%s: categories %v, E rating %v; screened %v, %v", r.BridgeID, cats, e, r.Network.Highest, r.Network.ERating)
+		}
+	}
+	if rated == 0 {
+		t.Error("no bridge with a network outcome among those written")
 	}
 }
 

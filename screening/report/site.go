@@ -279,9 +279,8 @@ type rowView struct {
 	Flags                                   []string
 	Governing, GovSense, Inspected, Error   string
 
-	// ERating is the Cooper E rating, Categories the highest line categories carried
-	// (strips.go).
-	ERating, ERatingKey, Categories string
+	// ERating is the Cooper E rating (strips.go); the line categories are in the strips.
+	ERating, ERatingKey string
 }
 
 func indexPage(run Run, rows []BridgeRow, names map[string]string, u units.System) indexView {
@@ -395,7 +394,7 @@ func rowOf(run Run, r BridgeRow, href string, u units.System) rowView {
 	if r.GoverningTrain != "" {
 		v.Governing, v.GovSense = r.GoverningTrain, r.GoverningSense
 	}
-	v.ERating, v.ERatingKey, v.Categories = eText(r.ERating), sortKey(r.ERating), orDash(categoryWords(r))
+	v.ERating, v.ERatingKey = eText(r.ERating), sortKey(r.ERating)
 	return v
 }
 
@@ -488,6 +487,7 @@ func bridgePage(run Run, b Bridge, u units.System) bridgeView {
 		{"unrated members", unratedFact(run, r.Unrated)},
 		{"inspected", orDash(r.LastInspected)},
 	}
+	v.Facts = append(v.Facts, networkFacts(r)...)
 	byLabel := map[string]Member{}
 	for _, m := range b.Members {
 		byLabel[m.Label] = m

@@ -209,3 +209,16 @@ func eText(e *float64) string {
 	}
 	return fmt.Sprintf("E%.0f", *e)
 }
+
+// networkFacts are a bridge page's facts of the network view: its Cooper E rating and the
+// highest line categories it carries; none where the run did not rate them.
+func networkFacts(r BridgeRow) []keyValue {
+	if r.Categories == nil && r.ERating == nil {
+		return nil
+	}
+	e := eText(r.ERating)
+	if r.EMember != "" {
+		e += " (" + r.EMember + ")"
+	}
+	return []keyValue{{"Cooper E rating", e}, {"line categories carried", orText(categoryWords(r), "none")}}
+}
