@@ -209,8 +209,10 @@ const (
 	LimitMassPerMetre Limit = "mass per metre"
 )
 
-// signTol is the share of a line's largest ordinate below which an ordinate counts as zero
-// (rounding residue of the analysis) in LongSuffices.
+// signTol is the size below which an ordinate counts as zero in LongSuffices (rounding
+// residue of the analysis): this share of the line's largest ordinate, or of a unit force
+// per unit load where that is larger (a member the deck loads do not reach, such as a Pratt
+// truss's unloaded middle vertical, has only residue).
 const signTol = 1e-9
 
 // LongSuffices says whether, for influence lines with these ordinates at the deck panel
@@ -234,7 +236,7 @@ func LongSuffices(ordinates [][]float64) bool {
 		}
 		changes, last := 0, 0.0
 		for _, v := range eta {
-			if math.Abs(v) <= signTol*big {
+			if math.Abs(v) <= signTol*math.Max(big, 1) {
 				continue
 			}
 			if last != 0 && (v > 0) != (last > 0) {
