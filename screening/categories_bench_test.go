@@ -6,7 +6,6 @@ import (
 
 	"github.com/trussfleet/trussfleet/configs"
 	"github.com/trussfleet/trussfleet/screening"
-	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/network"
 	"github.com/trussfleet/trussfleet/screening/rating"
@@ -73,18 +72,7 @@ func BenchmarkScreenNetwork(b *testing.B) {
 // BenchmarkNetworkTrains is the envelope of each network train over the 96 m Pratt truss,
 // beside the proposed freight train, to show where the network view's time goes.
 func BenchmarkNetworkTrains(b *testing.B) {
-	t, err := truss.Build(truss.Params{Type: "pratt", SpanM: 96, Panels: 16, DepthM: 11})
-	if err != nil {
-		b.Fatal(err)
-	}
-	lines, err := analysis.InfluenceLines(t, analysis.Options{})
-	if err != nil {
-		b.Fatal(err)
-	}
-	ords := make([][]float64, len(lines.Members))
-	for i, m := range lines.Members {
-		ords[i] = m.Ordinates
-	}
+	lines, ords := influenceLines(b, truss.Params{Type: "pratt", SpanM: 96, Panels: 16, DepthM: 11})
 	el, err := envelope.NewLines(lines.X, ords)
 	if err != nil {
 		b.Fatal(err)

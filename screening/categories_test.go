@@ -23,19 +23,10 @@ import (
 func categoryBridge(t *testing.T) (screening.Bridge, *screening.Settings, map[string][]envelope.Extremes, []float64, float64) {
 	t.Helper()
 	p := truss.Params{Type: "pratt", SpanM: 48, Panels: 8, DepthM: 6}
-	tr, err := truss.Build(p)
-	if err != nil {
-		t.Fatal(err)
-	}
-	lines, err := analysis.InfluenceLines(tr, analysis.Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	ords := make([][]float64, len(lines.Members))
+	lines, ords := influenceLines(t, p)
 	dead := make([]float64, len(lines.Members))
 	const q, share = 30.0, 0.5
 	for i, m := range lines.Members {
-		ords[i] = m.Ordinates
 		dead[i] = analysis.DeadLoad(lines.X, m.Ordinates, q)
 	}
 	dyn := traffic.Dynamic{Kind: traffic.Phi3}
@@ -66,6 +57,7 @@ func categoryBridge(t *testing.T) (screening.Bridge, *screening.Settings, map[st
 	b := screening.Bridge{ID: "CAT-1", Truss: p, TrussShare: share, Tracks: 1, DeadLoadKNPerM: q, Members: members}
 	s := settings(t, axle("existing axle", 100), axle("proposed axle", 200))
 	s.Dynamic = dyn
+	var err error
 	if s.Network, err = screening.NewNetworkTrains(); err != nil {
 		t.Fatal(err)
 	}
@@ -191,4 +183,22 @@ func TestCategoryLimits(t *testing.T) {
 			}
 		}
 	}
+}
+
+// influenceLines are the truss's influence lines and their ordinates, member by member.
+func influenceLines(tb testing.TB, p truss.Params) (*analysis.Lines, [][]float64) {
+	tb.Helper()
+	tr, err := truss.Build(p)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	lines, err := analysis.InfluenceLines(tr, analysis.Options{})
+	if err != nil {
+		tb.Fatal(err)
+	}
+	ords := make([][]float64, len(lines.Members))
+	for i, m := range lines.Members {
+		ords[i] = m.Ordinates
+	}
+	return lines, ords
 }
