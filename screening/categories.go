@@ -13,8 +13,9 @@ import (
 // NetworkTrains are the trains of the network view, prepared once per run: the reference
 // wagon trains of the line categories, one per wagon geometry (screening/network), and
 // Cooper E80. Rating a bridge by them costs a sweep per geometry and one for E80 (9 in all)
-// more than the screening alone, fewer where E80 is among the scenarios' trains (swept once);
-// BENCHMARKS.md, "Network view", has the measured cost.
+// more than the screening alone, fewer where E80 is among the scenarios' trains (swept once),
+// the wagons swept as one long train where that gives the same envelope
+// (network.LongSuffices); BENCHMARKS.md, "Network view", has the measured cost.
 type NetworkTrains struct {
 	Geometries []network.Geometry
 	loads      []*envelope.Load // Geometries' unit trains
