@@ -1,7 +1,6 @@
 package main
 
 import (
-	"context"
 	"encoding/json"
 	"fmt"
 	"os"
@@ -11,7 +10,6 @@ import (
 
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
-	"github.com/trussfleet/trussfleet/importers"
 	"github.com/trussfleet/trussfleet/screening/network"
 	"github.com/trussfleet/trussfleet/screening/truss"
 	"github.com/trussfleet/trussfleet/store/pgtest"
@@ -49,23 +47,11 @@ func TestNetworkCommands(t *testing.T) {
 	}
 	write("members.csv", members.String())
 	cfg := write("trussfleet.yaml", "scenarios:\n  existing:\n    trains: [axle100]\n  proposed:\n    trains: [axle100]\ndynamic: none\n")
-	ctx := context.Background()
-	db, err := (&app{cfg: Config{Database: DatabaseConfig{URL: url}}}).openDatabase(ctx)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer db.Close()
-	if _, err := importers.ImportTrains(ctx, db, filepath.Join(dir, "trains"), importers.Options{}); err != nil {
-		t.Fatal(err)
-	}
-	if _, err := importers.ImportBridgesFile(ctx, db, filepath.Join(dir, "bridges.csv"), importers.Options{}); err != nil {
-		t.Fatal(err)
-	}
-	if _, err := importers.ImportMembersFile(ctx, db, filepath.Join(dir, "members.csv"), importers.Options{}); err != nil {
-		t.Fatal(err)
-	}
-	if out, err := runCmd(t, "--database-url", url, "--config", cfg, "screen", "--workers", "2"); err != nil {
-		t.Fatalf("screen: %v\n%s", err, out)
+	for _, args := range [][]string{{"import", "trains", filepath.Join(dir, "trains")}, {"import", "bridges", filepath.Join(dir, "bridges.csv")},
+		{"import", "members", filepath.Join(dir, "members.csv")}, {"screen", "--workers", "2"}} {
+		if out, err := runCmd(t, append([]string{"--database-url", url, "--config", cfg}, args...)...); err != nil {
+			t.Fatalf("%v: %v\n%s", args, err, out)
+		}
 	}
 
 	out, err := runCmd(t, "--database-url", url, "--config", cfg, "corridors", "--format", "json")
