@@ -49,6 +49,9 @@ the standard's. --format csv writes one row per line, category and weakest link.
 				if err != nil {
 					return err
 				}
+				if !anyRated(cs) {
+					return fmt.Errorf("run %d holds no line categories (it was screened with network: false, or before trussfleet rated them): screen again with network: true", run.ID)
+				}
 				if line != "" {
 					var only []network.Corridor
 					for _, c := range cs {
@@ -260,4 +263,16 @@ func num(v float64) *float64 {
 		return nil
 	}
 	return &v
+}
+
+// anyRated says whether any bridge of the corridors was rated by line category.
+func anyRated(cs []network.Corridor) bool {
+	for _, c := range cs {
+		for _, s := range c.Stops {
+			if s.Rated {
+				return true
+			}
+		}
+	}
+	return false
 }
