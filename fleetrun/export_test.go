@@ -41,6 +41,12 @@ func EncodeMemberAssessments(buf []byte, setIDs []int64, results []screening.Res
 	return testEncoder.memberAssessments(results, setIDs)
 }
 
+// EncodeCategoryResults gives the binary COPY stream of results' category_results rows.
+func EncodeCategoryResults(buf []byte, setIDs []int64, results []screening.Result) []byte {
+	testEncoder.copy = *store.NewCopyEncoder(buf)
+	return testEncoder.categoryResults(results, setIDs)
+}
+
 // CancelJob cancels a job through River's own API.
 func (c *Client) CancelJob(ctx context.Context, id int64) (any, error) {
 	return c.river.JobCancel(ctx, id)

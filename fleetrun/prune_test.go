@@ -123,6 +123,12 @@ func TestPruneRuns(t *testing.T) {
 		t.Errorf("result sets %d -> %d, member rows %d -> %d, reported %v; want 8 -> 6 and the reported rows gone",
 			sets, setsAfter, setRows, setRowsAfter, p.Rows)
 	}
+	// A set's line categories (one row a category, testPlan rates them) go with it.
+	var catRows int
+	if err := db.Pool.QueryRow(ctx, `SELECT count(*) FROM category_results`).Scan(&catRows); err != nil ||
+		catRows != 11*setsAfter || p.Rows["category_results"] != 22 {
+		t.Errorf("category rows %d for %d sets, %d removed with the pruned sets (%v); want 11 a set, 22 removed", catRows, setsAfter, p.Rows["category_results"], err)
+	}
 	if err := db.Pool.QueryRow(ctx, `SELECT count(*) FROM run_bridges WHERE run_id = $1`, fourth).Scan(&own); err != nil || own != 0 {
 		t.Errorf("the unchanged nightly run holds %d rows of its own (%v), want 0", own, err)
 	}

@@ -169,6 +169,9 @@ func copyResults(ctx context.Context, tx pgx.Tx, results []screening.Result, set
 	if err := store.CopyMemberAssessments(ctx, tx, e.memberAssessments(results, setIDs)); err != nil {
 		return err
 	}
+	if err := store.CopyCategoryResults(ctx, tx, e.categoryResults(results, setIDs)); err != nil {
+		return err
+	}
 	resultEncoders.Put(e)
 	return nil
 }
@@ -180,6 +183,7 @@ type resultEncoder struct {
 	copy  store.CopyEncoder
 	mr    store.MemberResult
 	ma    store.MemberAssessment
+	cr    store.CategoryResult
 	flags []string
 }
 
@@ -190,13 +194,14 @@ var resultEncoders = sync.Pool{New: func() any { return new(resultEncoder) }}
 // written but with set id 0: equal digests, equal stored results.
 func (e *resultEncoder) setDigest(r screening.Result) [sha256.Size]byte {
 	e.copy.Reset()
-	for _, m := range r.Members {
-		e.memberResult(0, "existing", m, m.Existing, m.Assessment.Existing)
-		e.memberResult(0, "proposed", m, m.Proposed, m.Assessment.Proposed)
+	for i, m := range r.Members {
+		e.memberResult(0, "existing", m, m.Existing, m.Assessment.Existing, memberE(r, i))
+		e.memberResult(0, "proposed", m, m.Proposed, m.Assessment.Proposed, memberE(r, i))
 	}
 	for _, m := range r.Members {
 		e.memberAssessment(0, m)
 	}
+	e.categoryRows(0, r)
 	return sha256.Sum256(e.copy.Bytes())
 }
 
@@ -205,9 +210,9 @@ func (e *resultEncoder) setDigest(r screening.Result) [sha256.Size]byte {
 func (e *resultEncoder) memberResults(results []screening.Result, setIDs []int64) []byte {
 	e.copy.Begin()
 	for i, r := range results {
-		for _, m := range r.Members {
-			e.memberResult(setIDs[i], "existing", m, m.Existing, m.Assessment.Existing)
-			e.memberResult(setIDs[i], "proposed", m, m.Proposed, m.Assessment.Proposed)
+		for k, m := range r.Members {
+			e.memberResult(setIDs[i], "existing", m, m.Existing, m.Assessment.Existing, memberE(r, k))
+			e.memberResult(setIDs[i], "proposed", m, m.Proposed, m.Assessment.Proposed, memberE(r, k))
 		}
 	}
 	return e.copy.End()
@@ -228,12 +233,12 @@ func (e *resultEncoder) memberAssessments(results []screening.Result, setIDs []i
 // memberResult encodes a member's member_results row under one scenario. Its forces and
 // dynamic factor are stored as they are, NaN and ±Inf included; a factor without a finite
 // value, and the placement of an extreme with no train on the bridge, are NULL.
-func (e *resultEncoder) memberResult(setID int64, scenario string, m screening.MemberResult, env screening.Envelope, rfs []rating.Factor) {
+func (e *resultEncoder) memberResult(setID int64, scenario string, m screening.MemberResult, env screening.Envelope, rfs []rating.Factor, eRating float64) {
 	r := &e.mr
 	*r = store.MemberResult{SetID: setID, Scenario: scenario, Member: m.Label, Kind: string(m.Kind),
 		DeadKN: m.Dead, LiveMaxKN: env.Max.Value, LiveMinKN: env.Min.Value, Impact: env.Impact,
 		Truss: m.Truss, MaxCase: env.MaxCase.String(), MinCase: env.MinCase.String(), Dynamic: screening.DynamicText(m, env),
-		MaxShare: env.MaxShare, MinShare: env.MinShare}
+		MaxShare: env.MaxShare, MinShare: env.MinShare, ERating: finite(eRating)}
 	for _, f := range rfs {
 		if f.Sense == rating.Tension {
 			r.RFTension = finite(f.RF)
@@ -297,6 +302,13 @@ func outcome(r screening.Result, hash string, set *int64) store.BridgeOutcome {
 		if n := s.FlagCounts[f]; n > 0 {
 			o.Flags = append(o.Flags, string(f))
 			o.FlagCounts[string(f)] = n
+		}
+	}
+	if n := r.Network; n != nil {
+		o.Categories = append([]string{}, n.Highest...)
+		o.ERating = num(n.ERating)
+		if o.ERating != nil {
+			o.EMember = &n.EMember
 		}
 	}
 	if g := r.Governing; g != nil && g.Loaded {

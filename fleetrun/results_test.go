@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/jackc/pgx/v5"
@@ -30,9 +31,13 @@ import (
 // result i under set setIDs[i].
 func referenceRows(setIDs []int64, results []screening.Result) (mr, ma [][]any) {
 	for i, r := range results {
-		for _, m := range r.Members {
-			mr = append(mr, memberResultRow(setIDs[i], "existing", m, m.Existing, m.Assessment.Existing))
-			mr = append(mr, memberResultRow(setIDs[i], "proposed", m, m.Proposed, m.Assessment.Proposed))
+		for k, m := range r.Members {
+			e := math.NaN()
+			if r.Network != nil {
+				e = r.Network.MemberE[k]
+			}
+			mr = append(mr, append(memberResultRow(setIDs[i], "existing", m, m.Existing, m.Assessment.Existing), fleetrun.Num(e)))
+			mr = append(mr, append(memberResultRow(setIDs[i], "proposed", m, m.Proposed, m.Assessment.Proposed), fleetrun.Num(e)))
 			a := m.Assessment
 			flags := make([]string, len(a.Flags))
 			for i, f := range a.Flags {
@@ -47,6 +52,24 @@ func referenceRows(setIDs []int64, results []screening.Result) (mr, ma [][]any) 
 		}
 	}
 	return mr, ma
+}
+
+// categoryRows builds the category_results rows of results, as []any, straight from the
+// screening results (the reference the encoder is compared with).
+func categoryRows(setIDs []int64, results []screening.Result) (cr [][]any) {
+	for i, r := range results {
+		if r.Network == nil {
+			continue
+		}
+		for _, c := range r.Network.Categories {
+			status := map[bool]string{true: "passes", false: "fails"}[c.Pass]
+			if c.Carried {
+				status = "carried"
+			}
+			cr = append(cr, []any{setIDs[i], c.Category, status, fleetrun.Num(c.RF), c.Member, string(c.Limit)})
+		}
+	}
+	return cr
 }
 
 func memberResultRow(setID int64, scenario string, m screening.MemberResult, e screening.Envelope, rfs []rating.Factor) []any {
@@ -108,7 +131,8 @@ var (
 		pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID,
 		pgtype.TextOID, pgtype.TextOID, pgtype.Float8OID, pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID,
 		pgtype.TextOID, pgtype.Float8OID, pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Int4OID, pgtype.Int4OID,
-		pgtype.TextOID, pgtype.TextOID, pgtype.TextOID, pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID}
+		pgtype.TextOID, pgtype.TextOID, pgtype.TextOID, pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID}
+	categoryResultOIDs   = []uint32{pgtype.Int8OID, pgtype.TextOID, pgtype.TextOID, pgtype.Float8OID, pgtype.TextOID, pgtype.TextOID}
 	memberAssessmentOIDs = []uint32{pgtype.Int8OID, pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID,
 		pgtype.TextOID, pgtype.Float8OID, pgtype.TextArrayOID}
 )
@@ -221,6 +245,9 @@ func jobResults(tb testing.TB, n int) []screening.Result {
 	}
 	set := &screening.Settings{Existing: ex, Proposed: pr, References: map[string]*envelope.Load{}, Dynamic: dyn,
 		Method: rating.WorkingStress, Thresholds: rating.Thresholds{Flag: 1, Review: 1.1, WorseFraction: 0.2}}
+	if set.Network, err = screening.NewNetworkTrains(); err != nil {
+		tb.Fatal(err)
+	}
 	set.ShareTrains()
 	types := []string{"pratt", "howe", "warren", "warren-verticals"}
 	bridges := make([]screening.Bridge, n)
@@ -283,6 +310,7 @@ func TestCopyEncoderMatchesPgxBytes(t *testing.T) {
 	}{
 		{"member_results", fleetrun.EncodeMemberResults(nil, ids, results), memberResultOIDs, mr},
 		{"member_assessments", fleetrun.EncodeMemberAssessments(nil, ids, results), memberAssessmentOIDs, ma},
+		{"category_results", fleetrun.EncodeCategoryResults(nil, ids, results), categoryResultOIDs, categoryRows(ids, results)},
 	} {
 		want, err := pgxCopyStream(nil, m, c.oids, c.rows)
 		if err != nil {
@@ -329,7 +357,7 @@ func TestWriteResultsMatchesPgxCopy(t *testing.T) {
 			t.Fatal(err)
 		}
 	}
-	for _, table := range []string{"member_results", "member_assessments"} {
+	for _, table := range []string{"member_results", "member_assessments", "category_results"} {
 		if _, err := db.Pool.Exec(ctx, fmt.Sprintf("CREATE TABLE pgx_%s (LIKE %[1]s INCLUDING ALL)", table)); err != nil {
 			t.Fatal(err)
 		}
@@ -361,8 +389,12 @@ func TestWriteResultsMatchesPgxCopy(t *testing.T) {
 		}
 	}
 	mr, ma := referenceRows(ids, pending)
+	cr := categoryRows(ids, pending)
 	err = pgx.BeginFunc(ctx, db.Pool, func(tx pgx.Tx) error {
 		if _, err := tx.CopyFrom(ctx, pgx.Identifier{"pgx_member_results"}, store.MemberResultColumns, pgx.CopyFromRows(mr)); err != nil {
+			return err
+		}
+		if _, err := tx.CopyFrom(ctx, pgx.Identifier{"pgx_category_results"}, store.CategoryResultColumns, pgx.CopyFromRows(cr)); err != nil {
 			return err
 		}
 		_, err := tx.CopyFrom(ctx, pgx.Identifier{"pgx_member_assessments"}, store.MemberAssessmentColumns, pgx.CopyFromRows(ma))
@@ -374,7 +406,7 @@ func TestWriteResultsMatchesPgxCopy(t *testing.T) {
 	for _, c := range []struct {
 		table string
 		rows  int
-	}{{"member_results", len(mr)}, {"member_assessments", len(ma)}} {
+	}{{"member_results", len(mr)}, {"member_assessments", len(ma)}, {"category_results", len(cr)}} {
 		var onlyNew, onlyPgx, n, nPgx int
 		err := db.Pool.QueryRow(ctx, fmt.Sprintf(`SELECT
 			(SELECT count(*) FROM (TABLE %[1]s EXCEPT ALL TABLE pgx_%[1]s) x),
@@ -404,6 +436,34 @@ func TestWriteResultsMatchesPgxCopy(t *testing.T) {
 	if nanDead == 0 || nullRF == 0 || noTrain == 0 || emptyFlags == 0 || wide == 0 {
 		t.Errorf("special cases stored: NaN dead load %d, no factor %d, no train %d, empty flags %d, non-ASCII %d; want each > 0",
 			nanDead, nullRF, noTrain, emptyFlags, wide)
+	}
+	// Each screened bridge's row holds its network outcome as screened (nil categories for a
+	// result without one, an empty list for one that carries none).
+	rated := 0
+	for _, r := range pending {
+		if r.Err != nil {
+			continue
+		}
+		var cats []string
+		var e *float64
+		if err := db.Pool.QueryRow(ctx, `SELECT categories, e_rating FROM run_bridges WHERE run_id = $1 AND bridge_id = $2`,
+			runID, r.BridgeID).Scan(&cats, &e); err != nil {
+			t.Fatal(err)
+		}
+		if r.Network == nil {
+			if cats != nil || e != nil {
+				t.Errorf("%s: categories %v, E rating %v without a network outcome", r.BridgeID, cats, e)
+			}
+			continue
+		}
+		rated++
+		want := fleetrun.Num(r.Network.ERating)
+		if strings.Join(cats, " ") != strings.Join(r.Network.Highest, " ") || cats == nil || (e == nil) != (want == nil) || (e != nil && *e != *want) {
+			t.Errorf("%s: categories %v, E rating %v; screened %v, %v", r.BridgeID, cats, e, r.Network.Highest, r.Network.ERating)
+		}
+	}
+	if rated == 0 {
+		t.Error("no bridge with a network outcome among those written")
 	}
 }
 

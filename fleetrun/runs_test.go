@@ -63,7 +63,7 @@ func seedFleet(t *testing.T, db *store.DB, n int) {
 func testPlan(t *testing.T, db *store.DB) screening.Plan {
 	t.Helper()
 	ctx := context.Background()
-	p := screening.Plan{Dynamic: "phi3", Method: "working-stress", Flag: 1, Review: 1.1, Worse: 0.2}
+	p := screening.Plan{Dynamic: "phi3", Method: "working-stress", Flag: 1, Review: 1.1, Worse: 0.2, Network: true}
 	for _, n := range []string{"northmoor-freight-today", "eastfell-multiple-unit"} {
 		r, err := fleetrun.ResolveTrain(ctx, db, n)
 		if err != nil {

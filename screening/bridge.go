@@ -100,6 +100,9 @@ type Settings struct {
 	Lengths string
 	// FloorLengths are the floor elements' determinant lengths; nil: floor.DefaultLengths.
 	FloorLengths *floor.Lengths
+	// Network, when set, rates every bridge by line category and Cooper E rating as well
+	// (categories.go).
+	Network *NetworkTrains
 }
 
 // ShareTrains makes the trains that are defined alike, in either scenario or among the
@@ -129,6 +132,9 @@ func (s *Settings) ShareTrains() {
 	sort.Strings(names)
 	for _, n := range names {
 		s.References[n] = share(s.References[n])
+	}
+	if s.Network != nil {
+		s.Network.E80 = share(s.Network.E80)
 	}
 }
 
@@ -183,6 +189,9 @@ type Result struct {
 	NoRocking bool
 	// Floor says what of the floor system was assumed or not rated; nil where it is not rated.
 	Floor *FloorNotes
+	// Network is the bridge's line categories and Cooper E rating; nil unless the settings
+	// ask for them.
+	Network *NetworkResult
 }
 
 // Screener screens bridges one after another, reusing its buffers; one per goroutine.
@@ -323,6 +332,12 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 		return fail(fmt.Errorf("floor system: %w", err))
 	}
 	res.Summary = rating.Summarise(assess)
+	if s.Network != nil {
+		// The truss members only (the floor elements follow them in res.Members).
+		if res.Network, err = w.rateNetwork(b, s, el, ords, res.Members[:len(lines.Members)], refs, trusses, md); err != nil {
+			return fail(err)
+		}
+	}
 	if w := res.Summary.Worst; w >= 0 {
 		e := res.Members[w].Proposed.Max
 		if res.Summary.WorstPr.Sense == rating.Compression {

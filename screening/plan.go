@@ -74,6 +74,9 @@ type Plan struct {
 	// FloorLengths are the floor elements' determinant lengths where they differ from
 	// floor.DefaultLengths (nil otherwise, which keeps the plans of earlier runs' hashes).
 	FloorLengths *floor.Lengths `json:"floor_lengths,omitempty"`
+	// Network rates every bridge by line category and Cooper E rating as well (9 sweeps a
+	// bridge more; screening/categories.go).
+	Network bool `json:"network"`
 }
 
 // Hash is a stable digest of the plan.
@@ -148,6 +151,11 @@ func (p Plan) Settings() (*Settings, error) {
 		}
 		l := *p.FloorLengths
 		s.FloorLengths = &l
+	}
+	if p.Network {
+		if s.Network, err = NewNetworkTrains(); err != nil {
+			return nil, err
+		}
 	}
 	s.Thresholds = rating.Thresholds{Flag: p.Flag, Review: p.Review, WorseFraction: p.Worse,
 		ReversalFraction: p.Reversal, FlagUnrated: p.FlagUnrated}

@@ -8,7 +8,7 @@ import (
 )
 
 // Table member_results: sql/migrations/002_screening.sql, 003 (the counts), 004, 009 (made
-// anew, keyed by result set), 012_cross_section.sql (truss and loading cases).
+// anew, keyed by result set), 012_cross_section.sql (truss and loading cases), 015_network.sql (e_rating).
 
 // MemberResult is a row of member_results: one member's live-load envelope under one
 // scenario, in a result set. Forces are kN, positions m.
@@ -45,6 +45,9 @@ type MemberResult struct {
 	// MaxShare and MinShare are the factors on the governing train's own force at its
 	// placement that give each extreme (0: none, or a row from before migration 012).
 	MaxShare, MinShare float64
+	// ERating is the member's Cooper E rating, 80 x its RF under Cooper E80 (migration 015);
+	// NULL where the run did not ask for it or the member is not rated under E80.
+	ERating pgtype.Float8
 }
 
 // memberResultColumns are member_results' columns: the COPY that writes the rows, the
@@ -79,6 +82,7 @@ var memberResultColumns = []column[MemberResult]{
 	{"dynamic", func(r *MemberResult) any { return &r.Dynamic }},
 	{"max_share", func(r *MemberResult) any { return &r.MaxShare }},
 	{"min_share", func(r *MemberResult) any { return &r.MinShare }},
+	{"e_rating", func(r *MemberResult) any { return &r.ERating }},
 }
 
 // MemberResultColumns are the names of member_results' columns, in the order MemberResult

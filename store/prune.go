@@ -205,6 +205,6 @@ func (db *DB) VacuumRuns(ctx context.Context, full bool) error {
 	if full {
 		q = "VACUUM (FULL, ANALYZE) "
 	}
-	_, err := db.Pool.Exec(ctx, q+"runs, run_bridges, result_sets, member_results, member_assessments, river_job")
+	_, err := db.Pool.Exec(ctx, q+"runs, run_bridges, result_sets, member_results, member_assessments, category_results, river_job")
 	return err
 }

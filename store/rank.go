@@ -38,7 +38,8 @@ func (db *DB) RankedBridge(ctx context.Context, runID int64, bridgeID string) (r
 func (db *DB) ranked(ctx context.Context, runID int64, limit int, only string) ([]ranking.Row, error) {
 	q := `SELECT rank, bridge_id, name, line, chainage_km, truss_type, span_m, panels, worst_member, rf_existing, rf_proposed,
 		demand_increase, headroom, flags, flag_counts, unrated, governing_train, governing_sense, governing_head_m,
-		governing_direction, governing_from_m, governing_to_m, last_inspected, status, error, governing_case, no_rocking
+		governing_direction, governing_from_m, governing_to_m, last_inspected, status, error, governing_case, no_rocking,
+		categories, e_rating, e_member, latitude, longitude
 		FROM (SELECT row_number() OVER (ORDER BY ` + rankOrder + `) AS rank, r.bridge_id, coalesce(b.name, '') AS name,
 		coalesce(b.line, '') AS line, b.chainage_km, coalesce(b.truss_type, '') AS truss_type, coalesce(b.span_m, 0) AS span_m,
 		coalesce(b.panels, 0) AS panels, coalesce(r.worst_member, '') AS worst_member,
@@ -46,7 +47,8 @@ func (db *DB) ranked(ctx context.Context, runID int64, limit int, only string) (
 		coalesce(r.unrated_members, 0) AS unrated, coalesce(r.governing_train, '') AS governing_train, coalesce(r.governing_sense, '') AS governing_sense, r.governing_head_m,
 		coalesce(r.governing_direction, '') AS governing_direction, r.governing_from_m, r.governing_to_m,
 		coalesce(to_char(b.last_inspected, 'YYYY-MM-DD'), '') AS last_inspected, r.status, r.error,
-		coalesce(r.governing_case, '') AS governing_case, coalesce(r.no_rocking, false) AS no_rocking
+		coalesce(r.governing_case, '') AS governing_case, coalesce(r.no_rocking, false) AS no_rocking,
+		r.categories, r.e_rating, coalesce(r.e_member, '') AS e_member, b.latitude, b.longitude
 		FROM run_picture($1) r LEFT JOIN bridges b ON b.bridge_id = r.bridge_id
 		WHERE r.status <> 'pending') AS ranked
 		WHERE $2 = '' OR bridge_id = $2
@@ -67,7 +69,8 @@ func (db *DB) ranked(ctx context.Context, runID int64, limit int, only string) (
 		err := row.Scan(&b.Rank, &b.BridgeID, &b.Name, &b.Line, &b.ChainageKm, &b.TrussType, &b.SpanM, &b.Panels,
 			&b.WorstMember, &b.RFExisting, &b.RFProposed, &inc, &b.Headroom, &b.Flags, &counts,
 			&b.Unrated, &b.GoverningTrain, &b.GoverningSense, &b.GoverningHeadM, &b.GoverningDirection, &b.GoverningFromM,
-			&b.GoverningToM, &b.LastInspected, &b.Status, &b.Error, &b.GoverningCase, &b.NoRocking)
+			&b.GoverningToM, &b.LastInspected, &b.Status, &b.Error, &b.GoverningCase, &b.NoRocking,
+			&b.Categories, &b.ERating, &b.EMember, &b.Latitude, &b.Longitude)
 		if err != nil {
 			return b, err
 		}

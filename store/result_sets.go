@@ -80,7 +80,7 @@ func dropUnusedSets(ctx context.Context, tx pgx.Tx, sets []int64, n map[string]i
 		return err
 	}
 	n["result_sets"] = int64(len(gone))
-	for _, t := range []string{"member_results", "member_assessments"} {
+	for _, t := range []string{"member_results", "member_assessments", "category_results"} {
 		tag, err := tx.Exec(ctx, "DELETE FROM "+t+" WHERE set_id = ANY($1)", gone)
 		if err != nil {
 			return err
@@ -96,6 +96,6 @@ func dropUnusedSets(ctx context.Context, tx pgx.Tx, sets []int64, n map[string]i
 // member-level priority list, say) may scan a table once per bridge. A run that screened many
 // bridges calls it as it ends.
 func (db *DB) AnalyzeResults(ctx context.Context) error {
-	_, err := db.Pool.Exec(ctx, "ANALYZE run_bridges, result_sets, member_results, member_assessments")
+	_, err := db.Pool.Exec(ctx, "ANALYZE run_bridges, result_sets, member_results, member_assessments, category_results")
 	return err
 }

@@ -11,7 +11,8 @@ import (
 )
 
 // Table run_bridges: sql/migrations/002_screening.sql, 005 (hashes taken at load), 006 (the
-// pending index), 007 (requeues), 009 (result sets, removed rows, run_picture).
+// pending index), 007 (requeues), 009 (result sets, removed rows, run_picture), 012 (loading case, rocking), 015 (line
+// categories, E rating).
 
 // RunProgress counts a run's bridges by status.
 type RunProgress struct {
@@ -188,6 +189,12 @@ type BridgeOutcome struct {
 	// failed bridge.
 	GoverningCase string
 	NoRocking     *bool
+	// Categories are the highest line categories the bridge carries, ERating its Cooper E
+	// rating and EMember the member that has it (migration 015); nil where the run did not
+	// ask for the network view.
+	Categories []string
+	ERating    *float64
+	EMember    *string
 }
 
 // outcomeColumn is a run_bridges column a BridgeOutcome sets: its values travel to the server
@@ -234,6 +241,20 @@ var outcomeColumns = []outcomeColumn{
 	{"set_id", "int8[]", "u.set_id", each(func(o *BridgeOutcome) *int64 { return o.SetID })},
 	{"governing_case", "text[]", "u.governing_case", each(func(o *BridgeOutcome) string { return o.GoverningCase })},
 	{"no_rocking", "bool[]", "u.no_rocking", each(func(o *BridgeOutcome) *bool { return o.NoRocking })},
+	{"categories", "text[]", "CASE WHEN u.categories IS NULL THEN NULL ELSE string_to_array(u.categories, ',') END",
+		each(func(o *BridgeOutcome) *string { return joinedOrNil(o.Categories) })},
+	{"e_rating", "float8[]", "u.e_rating", each(func(o *BridgeOutcome) *float64 { return o.ERating })},
+	{"e_member", "text[]", "u.e_member", each(func(o *BridgeOutcome) *string { return o.EMember })},
+}
+
+// joinedOrNil joins a list by commas for its travel in an array of text: nil stays NULL, and
+// an empty list is the empty string (an empty array).
+func joinedOrNil(list []string) *string {
+	if list == nil {
+		return nil
+	}
+	s := strings.Join(list, ",")
+	return &s
 }
 
 // flagCountsJSON is an outcome's flag counts as a JSON object ({} for none).
@@ -281,7 +302,7 @@ func SetOutcomes(ctx context.Context, tx pgx.Tx, runID int64, outcomes []BridgeO
 var carriedColumns = []string{"bridge_id", "input_hash", "error", "worst_member", "rf_existing", "rf_proposed",
 	"demand_increase", "headroom", "flags", "flag_counts", "unrated_members", "governing_train", "governing_sense", "governing_head_m",
 	"governing_direction", "governing_from_m", "governing_to_m", "screened_at", "requeues", "set_id",
-	"governing_case", "no_rocking"}
+	"governing_case", "no_rocking", "categories", "e_rating", "e_member"}
 
 // squashStatement copies the picture of run $1 into run $2, for every bridge that run $2
 // holds no row of: a screened bridge as carried, a failed one as failed (a failure is never

@@ -28,6 +28,8 @@ type ScreenConfig struct {
 	DynamicLengths string `mapstructure:"dynamic_lengths"`
 	// Floor sets the floor system's determinant lengths (config_floor.go).
 	Floor FloorConfig `mapstructure:"floor"`
+	// Network rates every bridge by line category and Cooper E rating as well.
+	Network bool `mapstructure:"network"`
 }
 
 // ScenarioConfig is one traffic scenario: the envelope over all its trains.
@@ -91,6 +93,7 @@ func setScreenDefaults(v *viper.Viper) {
 	v.SetDefault("job_timeout", "2m")
 	v.SetDefault("rescue_after", "5m")
 	setFloorDefaults(v)
+	v.SetDefault("network", true)
 }
 
 func (s ScreenConfig) validate() []error {

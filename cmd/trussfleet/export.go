@@ -58,7 +58,7 @@ func bridgeExportHeader(u units.System) []string {
 	l := u.Column(units.Length)
 	return []string{"rank", "bridge_id", "name", "line", "chainage_km", "truss_type", "span_" + l, "panels",
 		"worst_member", "worst_kind", "rf_existing", "rf_proposed", "rf_change_pct", "demand_increase_pct", "flags", "unrated_members",
-		"headroom", "governing_train", "governing_sense", "governing_head_" + l, "governing_direction", "loaded_from_" + l, "loaded_to_" + l,
+		"headroom", "e_rating", "e_member", "categories", "governing_train", "governing_sense", "governing_head_" + l, "governing_direction", "loaded_from_" + l, "loaded_to_" + l,
 		"last_inspected", "status", "error", "governing_case", "no_rocking_term"}
 }
 
@@ -126,7 +126,7 @@ func exportRun(ctx context.Context, db *store.DB, run store.Run, dir, format str
 // either system of units.
 var numericColumns = map[string]bool{"rank": true, "bridge_rank": true, "chainage_km": true, "span_m": true,
 	"panels": true, "rf_existing": true, "rf_proposed": true, "rf_change_pct": true, "demand_increase_pct": true,
-	"unrated_members": true, "headroom": true, "governing_head_m": true, "loaded_from_m": true, "loaded_to_m": true, "dead_kn": true,
+	"unrated_members": true, "headroom": true, "e_rating": true, "governing_head_m": true, "loaded_from_m": true, "loaded_to_m": true, "dead_kn": true,
 	"live_max_kn": true, "live_min_kn": true, "impact": true, "head_m": true,
 	"span_ft": true, "governing_head_ft": true, "loaded_from_ft": true, "loaded_to_ft": true, "dead_kip": true,
 	"live_max_kip": true, "live_min_kip": true, "head_ft": true}
@@ -138,7 +138,7 @@ func recordObject(header, rec []string) map[string]any {
 	for i, h := range header {
 		v := rec[i]
 		switch {
-		case h == "flags":
+		case h == "flags" || h == "categories":
 			flags := []string{}
 			if v != "" {
 				flags = strings.Split(v, ";")
@@ -208,7 +208,8 @@ func bridgeRecord(r report.BridgeRow, d digits) []string {
 	return []string{strconv.Itoa(r.Rank), r.BridgeID, r.Name, r.Line, d.opt(r.ChainageKm, 3), r.TrussType,
 		d.qty(units.Length, r.SpanM), strconv.Itoa(r.Panels), r.WorstMember, worstKind(r.WorstMember), d.opt(r.RFExisting, 4),
 		d.opt(r.RFProposed, 4), d.opt(change, 1), d.num(100*r.DemandIncrease, 1),
-		strings.Join(r.Flags, ";"), strconv.Itoa(r.Unrated), d.opt(r.Headroom, 4), r.GoverningTrain, r.GoverningSense, d.optQty(units.Length, r.GoverningHeadM),
+		strings.Join(r.Flags, ";"), strconv.Itoa(r.Unrated), d.opt(r.Headroom, 4), d.opt(r.ERating, 1), r.EMember,
+		strings.Join(r.Categories, ";"), r.GoverningTrain, r.GoverningSense, d.optQty(units.Length, r.GoverningHeadM),
 		r.GoverningDirection, d.optQty(units.Length, r.GoverningFromM), d.optQty(units.Length, r.GoverningToM), r.LastInspected, r.Status, r.Error,
 		r.GoverningCase, strconv.FormatBool(r.NoRocking)}
 }

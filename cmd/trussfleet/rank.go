@@ -46,14 +46,14 @@ func newRankCmd(a *app) *cobra.Command {
 func printRanked(w io.Writer, run store.Run, rows []report.BridgeRow, u units.System) error {
 	fmt.Fprintf(w, "Priority list, run %d (%s, started %s)\n\n", run.ID, run.Status, run.StartedAt.Format("2006-01-02 15:04"))
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-	fmt.Fprintln(tw, "rank\tbridge\tname\tline\tkm\ttype\tspan "+u.Name(units.Length)+"\tworst\tkind\tRF ex\tRF pr\tchange\tdemand +\theadroom\tflags\tunrated\tgoverning train (where)\tloading case\tinspected")
+	fmt.Fprintln(tw, "rank\tbridge\tname\tline\tkm\ttype\tspan "+u.Name(units.Length)+"\tworst\tkind\tRF ex\tRF pr\tchange\tdemand +\theadroom\tE rating\tcategories\tflags\tunrated\tgoverning train (where)\tloading case\tinspected")
 	cell, cut := safetext.Cell, false
 	for _, r := range rows {
 		cut = cut || r.Status == "failed" && cell(r.Error) != safetext.Terminal(r.Error)
-		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%.0f%%\t%s\t%s\t%d\t%s\t%s\t%s\n",
+		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%.0f%%\t%s\t%s\t%s\t%s\t%d\t%s\t%s\t%s\n",
 			r.Rank, cell(r.BridgeID), cell(r.Name), cell(r.Line), fmtOpt(r.ChainageKm, "%.3f"), cell(r.TrussType), u.Format(units.Length, r.SpanM), cell(r.WorstMember), worstKind(r.WorstMember),
 			fmtRF(r.RFExisting), fmtRF(r.RFProposed), fmtPct(r.Change), 100*r.DemandIncrease, fmtOpt(r.Headroom, "%.2f×"),
-			flagsText(r), r.Unrated, governing(r.GoverningTrain, r.GoverningSense, r.GoverningDirection, r.GoverningHeadM, u), caseText(r), cell(r.LastInspected))
+			fmtE(r.ERating), categoriesText(r.Categories), flagsText(r), r.Unrated, governing(r.GoverningTrain, r.GoverningSense, r.GoverningDirection, r.GoverningHeadM, u), caseText(r), cell(r.LastInspected))
 	}
 	if err := tw.Flush(); err != nil {
 		return err

@@ -32,6 +32,15 @@ type Row struct {
 	GoverningFromM     *float64
 	GoverningToM       *float64
 	LastInspected      string // YYYY-MM-DD or ""
+	// Categories are the highest line categories the bridge carries (nil: the run did not
+	// rate them; empty: none carried), ERating its Cooper E rating (nil: none) and EMember the
+	// member that has it (screening/network).
+	Categories []string
+	ERating    *float64
+	EMember    string
+	// Latitude and Longitude locate the bridge (WGS 84 degrees; nil where the inventory has
+	// none).
+	Latitude, Longitude *float64
 	// Status is "done" or "failed" (a result carried forward from an earlier run reads as
 	// done); Error says why a bridge failed.
 	Status, Error string

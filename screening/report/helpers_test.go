@@ -91,6 +91,10 @@ func screenFleet(t testing.TB, bridges []invented, refs ...*traffic.Train) *fixt
 		Method:     rating.WorkingStress,
 		Thresholds: rating.Thresholds{Flag: 1, Review: 1.1, WorseFraction: 0.2, ReversalFraction: 0.1},
 	}
+	var err error
+	if set.Network, err = screening.NewNetworkTrains(); err != nil {
+		t.Fatal(err)
+	}
 	for _, r := range refs {
 		ld, err := envelope.Prepare(r)
 		if err != nil {
@@ -179,6 +183,12 @@ func convert(b invented, res screening.Result, trains map[string]*traffic.Train)
 			row.Change = ptr(s.WorstPr.RF/s.WorstEx.RF - 1)
 		}
 		row.GoverningSense = s.WorstPr.Sense.String()
+	}
+	if n := res.Network; n != nil {
+		row.Categories = append([]string{}, n.Highest...)
+		if !math.IsNaN(n.ERating) {
+			row.ERating, row.EMember = ptr(n.ERating), n.EMember
+		}
 	}
 	if g := res.Governing; g != nil {
 		row.GoverningTrain, row.GoverningDirection = g.Train, g.Direction.String()

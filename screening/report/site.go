@@ -260,6 +260,8 @@ type indexView struct {
 	FlagRows []flagRow
 	Config   []keyValue
 	Rows     []rowView
+	// Network is the strip diagram of each line (strips.go).
+	Network stripsView
 }
 
 type flagRow struct {
@@ -277,6 +279,9 @@ type rowView struct {
 	Unrated, UnratedKey                     string
 	Flags                                   []string
 	Governing, GovSense, Inspected, Error   string
+
+	// ERating is the Cooper E rating (strips.go); the line categories are in the strips.
+	ERating, ERatingKey string
 }
 
 func indexPage(run Run, rows []BridgeRow, names map[string]string, u units.System) indexView {
@@ -303,6 +308,7 @@ func indexPage(run Run, rows []BridgeRow, names map[string]string, u units.Syste
 		v.FlagRows = append(v.FlagRows, flagRow{Flags: []string{f}, Meaning: orText(flagMeaning[f], "set by the screening run"), Members: run.FlagCounts[f], Bridges: bridgesPer[f]})
 	}
 	v.Config = runConfig(run)
+	v.Network = stripsView{Strips: drawStrips(run, rows, names), Bands: bands(run)}
 	for _, r := range rows {
 		v.Rows = append(v.Rows, rowOf(run, r, names[r.BridgeID], u))
 	}
@@ -389,6 +395,7 @@ func rowOf(run Run, r BridgeRow, href string, u units.System) rowView {
 	if r.GoverningTrain != "" {
 		v.Governing, v.GovSense = r.GoverningTrain, r.GoverningSense
 	}
+	v.ERating, v.ERatingKey = eText(r.ERating), sortKey(r.ERating)
 	return v
 }
 
@@ -486,6 +493,7 @@ func bridgePage(run Run, b Bridge, u units.System) bridgeView {
 		{"inspected", orDash(r.LastInspected)},
 	}
 	v.Facts = sectionFacts(v.Facts, b, u)
+	v.Facts = append(v.Facts, networkFacts(r)...)
 	byLabel := map[string]Member{}
 	for _, m := range b.Members {
 		byLabel[m.Label] = m

@@ -12,7 +12,7 @@ import (
 // deletion, nor by its checkpoint (which a role without the right to CHECKPOINT skips). It
 // may take a while after a large deletion.
 func Settle(ctx context.Context, pool *pgxpool.Pool) error {
-	if _, err := pool.Exec(ctx, "VACUUM (ANALYZE) bridges, members, trains, runs, run_bridges, result_sets, member_results, member_assessments"); err != nil {
+	if _, err := pool.Exec(ctx, "VACUUM (ANALYZE) bridges, members, trains, runs, run_bridges, result_sets, member_results, member_assessments, category_results"); err != nil {
 		return fmt.Errorf("settling the database: %w", err)
 	}
 	_, _ = pool.Exec(ctx, "CHECKPOINT")

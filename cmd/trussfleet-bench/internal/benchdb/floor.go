@@ -19,7 +19,7 @@ import (
 type CopyFloor struct {
 	// Streams is the number of connections the rows were copied over at once.
 	Streams int
-	// Rows and Bytes count the member_results and member_assessments rows copied and their
+	// Rows and Bytes count the member_results, member_assessments and category_results rows copied and their
 	// size in PostgreSQL's binary copy format.
 	Rows, Bytes int64
 	// Elapsed is the wall time of the COPY statements and their commit: the fastest of
@@ -44,8 +44,8 @@ type FloorOptions struct {
 }
 
 // resultTables are the tables a run writes its result rows into, in the order they are
-// copied (sql/migrations/002_screening.sql).
-var resultTables = []string{"member_results", "member_assessments"}
+// copied (sql/migrations/002_screening.sql; category_results: 015_network.sql).
+var resultTables = []string{"member_results", "member_assessments", "category_results"}
 
 // MeasureCopyFloor copies the result rows of run runID into empty copies of their tables
 // (same columns, defaults, checks and indexes; no foreign keys) and times the copy. The
@@ -63,7 +63,7 @@ func MeasureCopyFloor(ctx context.Context, pool *pgxpool.Pool, runID int64, dir 
 	defer dropFloorTables(context.WithoutCancel(ctx), pool)
 	// Statistics that know the run's rows, untimed: without them the dump's join may scan a
 	// result table once per bridge.
-	if _, err := pool.Exec(ctx, "ANALYZE run_bridges, result_sets, member_results, member_assessments"); err != nil {
+	if _, err := pool.Exec(ctx, "ANALYZE run_bridges, result_sets, member_results, member_assessments, category_results"); err != nil {
 		return f, fmt.Errorf("copy floor: %w", err)
 	}
 	// Dump each stream's share of each table: bridges split by a hash of their id.

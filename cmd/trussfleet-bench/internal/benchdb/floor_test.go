@@ -46,7 +46,7 @@ func TestCopyFloorAndDeleteRun(t *testing.T) {
 		}
 		return n
 	}
-	want := count("member_results") + count("member_assessments")
+	want := count("member_results") + count("member_assessments") + count("category_results")
 	if want == 0 {
 		t.Fatal("the run wrote no result rows")
 	}

@@ -10,7 +10,7 @@ import (
 
 // runTables are the tables that hold runs and their results, with River's jobs: what a
 // screening run adds to the database.
-var runTables = []string{"runs", "run_bridges", "result_sets", "member_results", "member_assessments", "river_job"}
+var runTables = []string{"runs", "run_bridges", "result_sets", "member_results", "member_assessments", "category_results", "river_job"}
 
 // RunFootprint is the size of the run tables and their rows.
 type RunFootprint struct {
@@ -38,7 +38,7 @@ func Footprint(ctx context.Context, pool *pgxpool.Pool) (RunFootprint, error) {
 
 // ResultRows is the number of rows of the tables a bridge's results go to.
 func (f RunFootprint) ResultRows() int64 {
-	return f.Rows["run_bridges"] + f.Rows["result_sets"] + f.Rows["member_results"] + f.Rows["member_assessments"]
+	return f.Rows["run_bridges"] + f.Rows["result_sets"] + f.Rows["member_results"] + f.Rows["member_assessments"] + f.Rows["category_results"]
 }
 
 // ChangeBridges changes the stored capacities of a share of the fleet's bridges, as a night's
