@@ -70,6 +70,8 @@ func parseSection(r bridgeRecord, p *row, b *store.Bridge, deadKNPerM *float64) 
 	}
 	if b.TrussSpacingM == nil || b.TrackOffsetsM == nil {
 		b.TrussSpacingM, b.TrackOffsetsM = nil, nil
+	} else {
+		b.Tracks = len(b.TrackOffsetsM) // stored for listings; the offsets govern
 	}
 	if v := p.quantity(colLineSpeed, r.LineSpeedKmh, r.LineSpeedMph); v != nil {
 		name, raw := p.pick(colLineSpeed), pickRaw(p, colLineSpeed, r.LineSpeedKmh, r.LineSpeedMph)

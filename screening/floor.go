@@ -34,7 +34,7 @@ func isFloorLabel(label string) bool {
 // package floor.
 func (b Bridge) FloorSystemOf(t *truss.Truss) floor.System {
 	return floor.System{
-		PanelX: t.DeckX(), Tracks: max(b.Tracks, 1),
+		PanelX: t.DeckX(), Tracks: b.TrackCount(),
 		TrussSpacingM: b.TrussSpacingM, TrackOffsetsM: b.TrackOffsetsM,
 		StringerSpacingM:    b.Floor.StringerSpacingM,
 		StringerDeadKNPerM:  b.Floor.StringerDeadKNPerM,

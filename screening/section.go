@@ -38,6 +38,15 @@ func LeverShares(offsetM, spacingM float64) (a, b float64) {
 // offsets) rather than a truss share and a number of tracks.
 func (b Bridge) HasSection() bool { return b.TrussSpacingM > 0 && len(b.TrackOffsetsM) > 0 }
 
+// TrackCount is the number of tracks: one per offset with a cross-section, else Tracks (at
+// least one).
+func (b Bridge) TrackCount() int {
+	if b.HasSection() {
+		return len(b.TrackOffsetsM)
+	}
+	return max(b.Tracks, 1)
+}
+
 // TrackShares gives, for truss "A" or "B", each track's share of its load on that truss, in
 // track order. A bridge without a cross-section gives Tracks copies of TrussShare for either
 // truss (both carry the same loads). An unknown truss name gives nil.

@@ -76,7 +76,8 @@ var bridgesTable = table{
 	key:  []string{"bridge_id"},
 	cols: []string{"name", "line", "chainage_km", "truss_type", "span_m", "panels", "depth_m", "deck", "end_posts",
 		"trusses", "truss_share", "tracks", "dead_load_kn_per_m", "year_built", "latitude", "longitude", "last_inspected",
-		"truss_spacing_m", "track_offsets_m", "line_speed_kmh", "first_frequency_hz", "truss_weight_kn_per_m"},
+		"truss_spacing_m", "track_offsets_m", "line_speed_kmh", "first_frequency_hz", "truss_weight_kn_per_m",
+		"depths_m", "end_depth_m", "spans", "stringer_spacing_m", "stringer_dead_kn_per_m", "floor_beam_dead_kn_per_m"},
 	touch: "updated_at",
 }
 

@@ -84,10 +84,13 @@ func TestFleet(t *testing.T) {
 			labels[r[0]][l] = true
 		}
 		tracks, _ := strconv.Atoi(r[12])
+		if offsets := strings.Fields(r[fleetgen.BridgeColumn("track_offsets_m")]); len(offsets) > 0 {
+			tracks = len(offsets) // a cross-section gives one offset per track
+		}
 		for _, l := range floor.Labels(len(tr.DeckJoints)-1, tracks) {
 			labels[r[0]][l] = true
 		}
-		if r[18] != "" {
+		if r[fleetgen.BridgeColumn("stringer_spacing_m")] != "" {
 			floors++
 		}
 	}

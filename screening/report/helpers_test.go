@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"strconv"
+	"strings"
 	"testing"
 	"time"
 
@@ -295,16 +296,28 @@ func demoFleet(t testing.TB, n int) *fixture {
 		v, _ := strconv.ParseFloat(s, 64)
 		return v
 	}
+	floats := func(s string) []float64 {
+		var out []float64
+		for _, f := range strings.Fields(s) {
+			out = append(out, fl(f))
+		}
+		return out
+	}
 	for _, r := range bridges {
 		panels, _ := strconv.Atoi(r["panels"])
 		tracks, _ := strconv.Atoi(r["tracks"])
 		byID[r["bridge_id"]] = len(fleet)
+		spans, _ := strconv.Atoi(r["spans"])
 		fleet = append(fleet, invented{
 			Bridge: screening.Bridge{
-				ID:         r["bridge_id"],
-				Truss:      truss.Params{Type: r["truss_type"], SpanM: fl(r["span_m"]), Panels: panels, DepthM: fl(r["depth_m"]), Deck: r["deck"], EndPosts: r["end_posts"]},
+				ID: r["bridge_id"],
+				Truss: truss.Params{Type: r["truss_type"], SpanM: fl(r["span_m"]), Panels: panels, DepthM: fl(r["depth_m"]), Deck: r["deck"], EndPosts: r["end_posts"],
+					DepthsM: floats(r["depths_m"]), EndDepthM: fl(r["end_depth_m"]), Spans: spans},
 				TrussShare: fl(r["truss_share"]), Tracks: tracks, DeadLoadKNPerM: fl(r["dead_load_kn_per_m"]),
 				Members: map[string]rating.Member{},
+				// The cross-section, where the row gives it (docs/inventory.md).
+				TrussSpacingM: fl(r["truss_spacing_m"]), TrackOffsetsM: floats(r["track_offsets_m"]),
+				LineSpeedKmh: fl(r["line_speed_kmh"]), TrussWeightKNPerM: fl(r["truss_weight_kn_per_m"]),
 			},
 			Name: r["name"], Line: r["line"], ChainageKm: fl(r["chainage_km"]), LastInspected: r["last_inspected"],
 		})
