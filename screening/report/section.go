@@ -120,3 +120,13 @@ func explainCases(w io.Writer, s Scenario) {
 		fmt.Fprintf(w, "  dynamic allowance of this member: %s\n", s.Dynamic)
 	}
 }
+
+// CaseCell is the priority list's governing loading case, marked where AREMA's rocking term
+// was left out for want of the truss spacing.
+func CaseCell(r BridgeRow) string {
+	c := r.GoverningCase
+	if r.NoRocking {
+		c = strings.TrimSpace(c + " (no rocking term: truss spacing not known)")
+	}
+	return c
+}

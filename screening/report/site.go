@@ -276,6 +276,9 @@ type rowView struct {
 	Unrated, UnratedKey                     string
 	Flags                                   []string
 	Governing, GovSense, Inspected, Error   string
+
+	// GovCase is the governing loading case, marked where AREMA's rocking term is missing.
+	GovCase string
 }
 
 func indexPage(run Run, rows []BridgeRow, names map[string]string, u units.System) indexView {
@@ -388,6 +391,7 @@ func rowOf(run Run, r BridgeRow, href string, u units.System) rowView {
 	if r.GoverningTrain != "" {
 		v.Governing, v.GovSense = r.GoverningTrain, r.GoverningSense
 	}
+	v.GovCase = CaseCell(r)
 	return v
 }
 
