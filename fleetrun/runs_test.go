@@ -9,8 +9,8 @@ import (
 	"time"
 
 	"github.com/trussfleet/trussfleet/configs"
-	"github.com/trussfleet/trussfleet/importers"
 	"github.com/trussfleet/trussfleet/fleetrun"
+	"github.com/trussfleet/trussfleet/importers"
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/fleetgen"
 	"github.com/trussfleet/trussfleet/screening/traffic"
