@@ -146,7 +146,9 @@ func convert(b invented, res screening.Result, trains map[string]*traffic.Train)
 		TrussType: b.Truss.Type, SpanM: b.Truss.SpanM, Panels: b.Truss.Panels,
 		LastInspected: b.LastInspected, Status: "done", FlagCounts: map[string]int{},
 	}
-	d := Bridge{Truss: b.Truss, TrussShare: b.TrussShare, Tracks: b.Tracks, DeadLoadKNPerM: b.DeadLoadKNPerM}
+	d := Bridge{Truss: b.Truss, TrussShare: b.TrussShare, Tracks: b.Tracks, DeadLoadKNPerM: b.DeadLoadKNPerM,
+		Section: Section{TrussSpacingM: b.TrussSpacingM, TrackOffsetsM: b.TrackOffsetsM, TrussWeightKNPerM: b.TrussWeightKNPerM,
+			LineSpeedKmh: b.LineSpeedKmh, FirstFrequencyHz: b.FirstFrequencyHz}}
 	if res.Err != nil {
 		row.Status, row.Error = "failed", res.Err.Error()
 		d.Row = row
@@ -179,6 +181,13 @@ func convert(b invented, res screening.Result, trains map[string]*traffic.Train)
 		}
 		row.GoverningSense = s.WorstPr.Sense.String()
 	}
+	row.NoRocking = res.NoRocking
+	if s.Worst >= 0 {
+		row.GoverningCase = res.Members[s.Worst].Proposed.MaxCase.String()
+		if s.WorstPr.Sense == rating.Compression {
+			row.GoverningCase = res.Members[s.Worst].Proposed.MinCase.String()
+		}
+	}
 	if g := res.Governing; g != nil {
 		row.GoverningTrain, row.GoverningDirection = g.Train, g.Direction.String()
 		row.GoverningHeadM, row.GoverningFromM, row.GoverningToM = ptr(g.HeadM), ptr(g.LoadedFromM), ptr(g.LoadedToM)
@@ -189,7 +198,7 @@ func convert(b invented, res screening.Result, trains map[string]*traffic.Train)
 
 func memberOf(m screening.MemberResult, inv rating.Member, trains map[string]*traffic.Train) Member {
 	a := m.Assessment
-	out := Member{Label: m.Label, Kind: string(m.Kind), DeadKN: m.Dead, ConditionFactor: inv.ConditionFactor}
+	out := Member{Label: m.Label, Kind: string(m.Kind), DeadKN: m.Dead, ConditionFactor: inv.ConditionFactor, Truss: m.Truss}
 	for _, fl := range a.Flags {
 		out.Flags = append(out.Flags, string(fl))
 	}
@@ -211,6 +220,13 @@ func memberOf(m screening.MemberResult, inv rating.Member, trains map[string]*tr
 	}
 	out.Existing = scenarioOf(m.Existing, a.Existing, trains)
 	out.Proposed = scenarioOf(m.Proposed, a.Proposed, trains)
+	for _, s := range []struct {
+		out *Scenario
+		e   screening.Envelope
+	}{{&out.Existing, m.Existing}, {&out.Proposed, m.Proposed}} {
+		s.out.MaxCase, s.out.MinCase, s.out.MaxShare, s.out.MinShare = s.e.MaxCase.String(), s.e.MinCase.String(), s.e.MaxShare, s.e.MinShare
+		s.out.Dynamic = screening.DynamicText(m, s.e)
+	}
 	return out
 }
 
@@ -293,10 +309,20 @@ func demoFleet(t testing.TB, n int) *fixture {
 				ID:         r["bridge_id"],
 				Truss:      truss.Params{Type: r["truss_type"], SpanM: fl(r["span_m"]), Panels: panels, DepthM: fl(r["depth_m"]), Deck: r["deck"], EndPosts: r["end_posts"]},
 				TrussShare: fl(r["truss_share"]), Tracks: tracks, DeadLoadKNPerM: fl(r["dead_load_kn_per_m"]),
-				Members: map[string]rating.Member{},
+				Members:       map[string]rating.Member{},
+				TrussSpacingM: fl(r["truss_spacing_m"]), TrussWeightKNPerM: fl(r["truss_weight_kn_per_m"]), LineSpeedKmh: fl(r["line_speed_kmh"]),
 			},
 			Name: r["name"], Line: r["line"], ChainageKm: fl(r["chainage_km"]), LastInspected: r["last_inspected"],
 		})
+	}
+	for _, r := range bridges {
+		if o := r["track_offsets_m"]; o != "" {
+			b := &fleet[byID[r["bridge_id"]]]
+			var err error
+			if b.TrackOffsetsM, err = screening.ParseOffsets(o); err != nil {
+				t.Fatal(err)
+			}
+		}
 	}
 	for _, r := range members {
 		b := &fleet[byID[r["bridge_id"]]]
