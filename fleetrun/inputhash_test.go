@@ -41,7 +41,7 @@ func TestInputVersionSeesEveryInput(t *testing.T) {
 		VALUES ('NER-00001', 'L0-L1', 2400, NULL, NULL, NULL, 1), ('NER-00001', 'U1-U2', NULL, 3100, NULL, NULL, 0.9),
 		       ('NER-00001', 'U1-L2', NULL, NULL, 1.2, 'northmoor-freight-today', 1)`)
 	const upsert = `INSERT INTO members (bridge_id, member, capacity_tension_kn, condition_factor)
-		VALUES ('NER-00001', 'L0-L1', 2400, 1) ON CONFLICT (bridge_id, member) DO UPDATE
+		VALUES ('NER-00001', 'L0-L1', 2400, 1) ON CONFLICT (bridge_id, member, truss) DO UPDATE
 		SET capacity_tension_kn = EXCLUDED.capacity_tension_kn
 		WHERE members.capacity_tension_kn IS DISTINCT FROM EXCLUDED.capacity_tension_kn`
 	for _, c := range []struct {
@@ -62,6 +62,12 @@ func TestInputVersionSeesEveryInput(t *testing.T) {
 		{"share", `UPDATE bridges SET truss_share = 0.55 WHERE bridge_id = 'NER-00001'`, true},
 		{"tracks", `UPDATE bridges SET tracks = 2 WHERE bridge_id = 'NER-00001'`, true},
 		{"dead load", `UPDATE bridges SET dead_load_kn_per_m = 15 WHERE bridge_id = 'NER-00001'`, true},
+		{"cross-section", `UPDATE bridges SET truss_spacing_m = 5, track_offsets_m = '{0.5}' WHERE bridge_id = 'NER-00001'`, true},
+		{"track offsets", `UPDATE bridges SET track_offsets_m = '{0.6}' WHERE bridge_id = 'NER-00001'`, true},
+		{"line speed", `UPDATE bridges SET line_speed_kmh = 90 WHERE bridge_id = 'NER-00001'`, true},
+		{"frequency", `UPDATE bridges SET first_frequency_hz = 4 WHERE bridge_id = 'NER-00001'`, true},
+		{"truss weight", `UPDATE bridges SET truss_weight_kn_per_m = 5 WHERE bridge_id = 'NER-00001'`, true},
+		{"a member of one truss", `INSERT INTO members (bridge_id, member, capacity_tension_kn, truss) VALUES ('NER-00001', 'L0-L1', 2000, 'B')`, true},
 		{"a capacity", `UPDATE members SET capacity_tension_kn = 2399 WHERE bridge_id = 'NER-00001' AND member = 'L0-L1'`, true},
 		{"an import that changes a capacity", upsert, true},
 		{"a capacity moved from tension to compression", `UPDATE members SET capacity_tension_kn = NULL,

@@ -11,6 +11,7 @@ import (
 
 	"github.com/trussfleet/trussfleet/configs"
 	"github.com/trussfleet/trussfleet/fleetrun"
+	"github.com/trussfleet/trussfleet/importers"
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/fleetgen"
 	"github.com/trussfleet/trussfleet/screening/traffic"
@@ -38,10 +39,10 @@ func seedFleet(t *testing.T, db *store.DB, n int) {
 		t.Fatal(err)
 	}
 	defer conn.Release()
-	for table, data := range map[string]*bytes.Buffer{"bridges": &bridges} {
-		if _, err := conn.Conn().PgConn().CopyFrom(ctx, data, "COPY "+table+" ("+strings.Join(fleetgen.BridgeHeader, ", ")+") FROM STDIN (FORMAT csv, HEADER true, FORCE_NOT_NULL (end_posts))"); err != nil {
-			t.Fatal(err)
-		}
+	// The bridges through the importer: the cross-section columns of fleetgen's rows (a list
+	// of offsets, shares left empty) are its to read.
+	if _, err := importers.ImportBridges(ctx, db, "bridges.csv", &bridges, importers.Options{}); err != nil {
+		t.Fatal(err)
 	}
 	if _, err := conn.Conn().PgConn().CopyFrom(ctx, &members, "COPY members ("+strings.Join(fleetgen.MemberHeader, ", ")+") FROM STDIN (FORMAT csv, HEADER true, FORCE_NOT_NULL (fatigue_category))"); err != nil {
 		t.Fatal(err)

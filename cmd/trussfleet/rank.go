@@ -123,13 +123,7 @@ func governing(train, sense, dir string, head *float64, u units.System) string {
 
 // caseText is a priority-list cell of the governing loading case; a bridge screened without
 // AREMA's rocking term is marked.
-func caseText(r report.BridgeRow) string {
-	c := safetext.Cell(r.GoverningCase)
-	if r.NoRocking {
-		c += " (no rocking term)"
-	}
-	return c
-}
+func caseText(r report.BridgeRow) string { return safetext.Cell(report.CaseCell(r)) }
 
 // noRockingNote says once how many bridges lack AREMA's rocking term.
 func noRockingNote(w io.Writer, rows []report.BridgeRow) {
@@ -140,6 +134,6 @@ func noRockingNote(w io.Writer, rows []report.BridgeRow) {
 		}
 	}
 	if n > 0 {
-		fmt.Fprintf(w, "\n%s screened without AREMA's rocking term (marked \"no rocking term\"): their rows give no truss spacing.\n", plural(n, "bridge"))
+		fmt.Fprintf(w, "\n%s screened without AREMA's rocking term (marked \"no rocking term\" under loading case): their rows give no truss spacing.\n", plural(n, "bridge"))
 	}
 }

@@ -101,8 +101,12 @@ func ExplainIn(w io.Writer, run Run, b Bridge, member string, u units.System) er
 	if specialForm(t) {
 		p("\n  %s", formCaption(t, u))
 	}
-	p("\n  truss share %s x %d track(s) = %s of each train's load; dead load %s %s on this truss\n",
-		num(b.TrussShare, 3), max(b.Tracks, 1), num(b.liveShare(), 3), qty(u, units.PerLength, b.DeadLoadKNPerM), kNm)
+	if b.screeningBridge().HasSection() {
+		p("\n  dead load %s %s on this truss\n", qty(u, units.PerLength, b.DeadLoadKNPerM), kNm)
+	} else {
+		p("\n  truss share %s x %d track(s) = %s of each train's load; dead load %s %s on this truss\n",
+			num(b.TrussShare, 3), max(b.Tracks, 1), num(b.liveShare(), 3), qty(u, units.PerLength, b.DeadLoadKNPerM), kNm)
+	}
 	explainSection(ew, b, m, u)
 	p("Screening run %d (%s): %s\n\n", run.ID, orDash(run.Status), equation(run))
 
@@ -245,9 +249,15 @@ func explainTrains(w io.Writer, run Run, b Bridge, xs, eta []float64, scenario s
 		return
 	}
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	share := b.liveShare()
+	if b.screeningBridge().HasSection() {
+		// Each track takes its own share (the loading case): the rows give a track's full load.
+		share = 1
+		fmt.Fprintf(w, "  each train with one track's full load (share 1):\n")
+	}
 	fmt.Fprintf(tw, "  train\tmax %[1]s\twhere\tmin %[1]s\twhere\t\n", u.Name(units.Force))
 	for _, tr := range trains {
-		ex, err := envelope.Compute(xs, [][]float64{eta}, tr, envelope.Options{Share: b.liveShare()})
+		ex, err := envelope.Compute(xs, [][]float64{eta}, tr, envelope.Options{Share: share})
 		if err != nil {
 			fmt.Fprintf(tw, "  %s\t%s\t\t\t\t\n", safetext.Cell(tr.Name), err)
 			continue

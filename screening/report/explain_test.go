@@ -172,3 +172,28 @@ func TestExplainImperial(t *testing.T) {
 		t.Errorf("L = %v kip, SI %v kN / 4.4482216 = %.2f", got, l, l/4.4482216)
 	}
 }
+
+// TestExplainCrossSection: an eccentric track (0.6 m towards A, trusses 5.2 m apart: A takes
+// 0.5 + 0.6/5.2 of it, lever rule) and the truss's own weight. The explanation names the
+// truss, the loading case and the member's allowance, and the governing placement's loads
+// still add up to L as screened (with the case's share).
+func TestExplainCrossSection(t *testing.T) {
+	b := pratt48(t, "NER-90002", "Skarvholm Bridge", 0.95)
+	b.TrussSpacingM, b.TrackOffsetsM, b.TrussWeightKNPerM = 5.2, []float64{0.6}, 6
+	f := screenFleet(t, []invented{withCapacities(t, b, 0.95)})
+	var sb strings.Builder
+	if err := Explain(&sb, f.Run, f.Bridges["NER-90002"], "L2-L3"); err != nil {
+		t.Fatal(err)
+	}
+	out := sb.String()
+	for _, want := range []string{"results of truss A", "loading case: tension truss A: track 1 × 0.615", "dynamic allowance of this member: phi3, length 48.00 m (span)",
+		"truss A carries track 1 × 0.615; truss B carries track 1 × 0.385", "the truss's own weight"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("explanation lacks %q", want)
+		}
+	}
+	m := regexp.MustCompile(`sum \S+ kN x truss share (\S+) = (\S+) kN \(L as screened: (\S+) kN\)`).FindStringSubmatch(out)
+	if m == nil || m[2] != m[3] || m[1] != "0.615" {
+		t.Errorf("the loads of the governing placement do not add up to L with the share 0.615: %v", m)
+	}
+}

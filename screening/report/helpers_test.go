@@ -152,7 +152,9 @@ func convert(b invented, res screening.Result, trains map[string]*traffic.Train)
 		TrussType: b.Truss.Type, SpanM: b.Truss.SpanM, Panels: b.Truss.Panels,
 		LastInspected: b.LastInspected, Status: "done", FlagCounts: map[string]int{},
 	}
-	d := Bridge{Truss: b.Truss, TrussShare: b.TrussShare, Tracks: b.Tracks, DeadLoadKNPerM: b.DeadLoadKNPerM}
+	d := Bridge{Truss: b.Truss, TrussShare: b.TrussShare, Tracks: b.Tracks, DeadLoadKNPerM: b.DeadLoadKNPerM,
+		Section: Section{TrussSpacingM: b.TrussSpacingM, TrackOffsetsM: b.TrackOffsetsM, TrussWeightKNPerM: b.TrussWeightKNPerM,
+			LineSpeedKmh: b.LineSpeedKmh, FirstFrequencyHz: b.FirstFrequencyHz}}
 	if res.Err != nil {
 		row.Status, row.Error = "failed", res.Err.Error()
 		d.Row = row
@@ -191,6 +193,13 @@ func convert(b invented, res screening.Result, trains map[string]*traffic.Train)
 			row.ERating, row.EMember = ptr(n.ERating), n.EMember
 		}
 	}
+	row.NoRocking = res.NoRocking
+	if s.Worst >= 0 {
+		row.GoverningCase = res.Members[s.Worst].Proposed.MaxCase.String()
+		if s.WorstPr.Sense == rating.Compression {
+			row.GoverningCase = res.Members[s.Worst].Proposed.MinCase.String()
+		}
+	}
 	if g := res.Governing; g != nil {
 		row.GoverningTrain, row.GoverningDirection = g.Train, g.Direction.String()
 		row.GoverningHeadM, row.GoverningFromM, row.GoverningToM = ptr(g.HeadM), ptr(g.LoadedFromM), ptr(g.LoadedToM)
@@ -201,7 +210,7 @@ func convert(b invented, res screening.Result, trains map[string]*traffic.Train)
 
 func memberOf(m screening.MemberResult, inv rating.Member, trains map[string]*traffic.Train) Member {
 	a := m.Assessment
-	out := Member{Label: m.Label, Kind: string(m.Kind), DeadKN: m.Dead, ConditionFactor: inv.ConditionFactor}
+	out := Member{Label: m.Label, Kind: string(m.Kind), DeadKN: m.Dead, ConditionFactor: inv.ConditionFactor, Truss: m.Truss}
 	for _, fl := range a.Flags {
 		out.Flags = append(out.Flags, string(fl))
 	}
@@ -223,6 +232,13 @@ func memberOf(m screening.MemberResult, inv rating.Member, trains map[string]*tr
 	}
 	out.Existing = scenarioOf(m.Existing, a.Existing, trains)
 	out.Proposed = scenarioOf(m.Proposed, a.Proposed, trains)
+	for _, s := range []struct {
+		out *Scenario
+		e   screening.Envelope
+	}{{&out.Existing, m.Existing}, {&out.Proposed, m.Proposed}} {
+		s.out.MaxCase, s.out.MinCase, s.out.MaxShare, s.out.MinShare = s.e.MaxCase.String(), s.e.MinCase.String(), s.e.MaxShare, s.e.MinShare
+		s.out.Dynamic = screening.DynamicText(m, s.e)
+	}
 	return out
 }
 
@@ -316,7 +332,7 @@ func demoFleet(t testing.TB, n int) *fixture {
 				TrussShare: fl(r["truss_share"]), Tracks: tracks, DeadLoadKNPerM: fl(r["dead_load_kn_per_m"]),
 				Members: map[string]rating.Member{},
 				// The cross-section, where the row gives it (docs/inventory.md).
-				TrussSpacingM: fl(r["truss_spacing_m"]), TrackOffsetsM: floats(r["track_offsets_m"]),
+				TrussSpacingM: fl(r["truss_spacing_m"]),
 				LineSpeedKmh: fl(r["line_speed_kmh"]), TrussWeightKNPerM: fl(r["truss_weight_kn_per_m"]),
 			},
 			Name: r["name"], Line: r["line"], ChainageKm: fl(r["chainage_km"]), LastInspected: r["last_inspected"],
@@ -326,6 +342,13 @@ func demoFleet(t testing.TB, n int) *fixture {
 		if r["stringer_spacing_m"] != "" {
 			fleet[byID[r["bridge_id"]]].Floor = screening.FloorSystem{Rate: true, StringerSpacingM: fl(r["stringer_spacing_m"]),
 				StringerDeadKNPerM: fl(r["stringer_dead_kn_per_m"]), FloorBeamDeadKNPerM: fl(r["floor_beam_dead_kn_per_m"])}
+		}
+		if o := r["track_offsets_m"]; o != "" {
+			b := &fleet[byID[r["bridge_id"]]]
+			var err error
+			if b.TrackOffsetsM, err = screening.ParseOffsets(o); err != nil {
+				t.Fatal(err)
+			}
 		}
 	}
 	for _, r := range members {

@@ -34,6 +34,18 @@ func sectionFacts(facts []keyValue, b Bridge, u units.System) []keyValue {
 	s, sb := b.Section, b.screeningBridge()
 	lu := u.Name(units.Length)
 	if sb.HasSection() {
+		// The shares follow from the cross-section: the truss share of the row does not apply.
+		kept := facts[:0:0]
+		for _, f := range facts {
+			switch f.Key {
+			case "truss share":
+			case "tracks":
+				kept = append(kept, keyValue{"tracks", fmt.Sprint(len(s.TrackOffsetsM))})
+			default:
+				kept = append(kept, f)
+			}
+		}
+		facts = kept
 		offs := make([]string, len(s.TrackOffsetsM))
 		for i, e := range s.TrackOffsetsM {
 			offs[i] = signedQty(u, units.Length, e)
@@ -119,4 +131,14 @@ func explainCases(w io.Writer, s Scenario) {
 	if s.Dynamic != "" {
 		fmt.Fprintf(w, "  dynamic allowance of this member: %s\n", s.Dynamic)
 	}
+}
+
+// CaseCell is the priority list's governing loading case, marked where AREMA's rocking term
+// was left out for want of the truss spacing.
+func CaseCell(r BridgeRow) string {
+	c := r.GoverningCase
+	if r.NoRocking {
+		c = strings.TrimSpace(c + " (no rocking term: truss spacing not known)")
+	}
+	return c
 }

@@ -282,6 +282,8 @@ type rowView struct {
 
 	// ERating is the Cooper E rating (strips.go); the line categories are in the strips.
 	ERating, ERatingKey string
+	// GovCase is the governing loading case, marked where AREMA's rocking term is missing.
+	GovCase string
 }
 
 func indexPage(run Run, rows []BridgeRow, names map[string]string, u units.System) indexView {
@@ -396,6 +398,7 @@ func rowOf(run Run, r BridgeRow, href string, u units.System) rowView {
 		v.Governing, v.GovSense = r.GoverningTrain, r.GoverningSense
 	}
 	v.ERating, v.ERatingKey = eText(r.ERating), sortKey(r.ERating)
+	v.GovCase = CaseCell(r)
 	return v
 }
 
