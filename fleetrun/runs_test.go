@@ -10,6 +10,7 @@ import (
 
 	"github.com/trussfleet/trussfleet/configs"
 	"github.com/trussfleet/trussfleet/fleetrun"
+	"github.com/trussfleet/trussfleet/importers"
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/fleetgen"
 	"github.com/trussfleet/trussfleet/screening/traffic"
@@ -37,10 +38,10 @@ func seedFleet(t *testing.T, db *store.DB, n int) {
 		t.Fatal(err)
 	}
 	defer conn.Release()
-	for table, data := range map[string]*bytes.Buffer{"bridges": &bridges} {
-		if _, err := conn.Conn().PgConn().CopyFrom(ctx, data, "COPY "+table+" (bridge_id, name, line, chainage_km, truss_type, span_m, panels, depth_m, deck, end_posts, trusses, truss_share, tracks, dead_load_kn_per_m, year_built, latitude, longitude, last_inspected) FROM STDIN (FORMAT csv, HEADER true, FORCE_NOT_NULL (end_posts))"); err != nil {
-			t.Fatal(err)
-		}
+	// The importer reads the generated bridges.csv (its form columns hold lists, which COPY
+	// does not read).
+	if _, err := importers.ImportBridges(ctx, db, "bridges.csv", &bridges, importers.Options{}); err != nil {
+		t.Fatal(err)
 	}
 	if _, err := conn.Conn().PgConn().CopyFrom(ctx, &members, "COPY members (bridge_id, member, capacity_tension_kn, capacity_compression_kn, rating_factor, reference_train, condition_factor, area_mm2, fatigue_category) FROM STDIN (FORMAT csv, HEADER true, FORCE_NOT_NULL (fatigue_category))"); err != nil {
 		t.Fatal(err)
