@@ -51,13 +51,14 @@ type Bridge struct {
 	Row BridgeRow
 	// Truss is the geometry as screened; the report rebuilds the truss and its influence
 	// lines from it (cheap and exact).
-	Truss truss.Params
-	// Table is the joint table of a bridge whose truss type is "table" (nil otherwise).
-	Table          *truss.Table
+	Truss          truss.Params
 	TrussShare     float64
 	Tracks         int
 	DeadLoadKNPerM float64
 	Members        []Member
+
+	// Table is the joint table of a bridge whose truss type is "table" (nil otherwise).
+	Table *truss.Table
 }
 
 // Member is one member's rating arithmetic under both scenarios.
