@@ -207,7 +207,7 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 	if err != nil {
 		return fail(fmt.Errorf("influence lines: %w", err))
 	}
-	lphi := traffic.DeterminantLengthM(t.SpanLengthsM())
+	lphi := s.Dynamic.LengthFor(t.SpanLengthsM())
 	impact := s.Dynamic.Factor(lphi)
 	if !(impact >= 1) || math.IsInf(impact, 0) {
 		return fail(fmt.Errorf("dynamic allowance %s gives 1 + I = %v at determinant length %g m", s.Dynamic, impact, lphi))
