@@ -232,6 +232,7 @@ func parseBridge(r bridgeRecord, p *row) (store.Bridge, bool) {
 	if b.TrussType == truss.TableType {
 		// The joint table, imported after the bridges, is checked on its own import; the
 		// row's span, panels and depth describe the truss for listings.
+		tableRowForm(r, p, b)
 		return b, p.ok && dead != nil
 	}
 	// The geometry generator is the judge of type, panels, proportions, deck and end posts.

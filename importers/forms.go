@@ -59,3 +59,21 @@ func parseForm(r bridgeRecord, p *row, b *store.Bridge) form {
 	}
 	return form{listed: len(b.DepthsM) > 0}
 }
+
+// tableRowForm refuses the parametric form columns on a row whose truss is a joint table:
+// the table alone gives its form.
+func tableRowForm(r bridgeRecord, p *row, b store.Bridge) {
+	for _, c := range []struct {
+		col   column
+		given bool
+	}{
+		{column{name: "end_posts"}, b.EndPosts != ""},
+		{colDepths, len(b.DepthsM) > 0},
+		{colEndDepth, b.EndDepthM > 0},
+		{column{name: "spans"}, b.Spans > 1},
+	} {
+		if name := p.pick(c.col); c.given && !p.failed[name] {
+			p.fail(name, rawOf(r, name), "a truss of type %q takes its form from its joint table; leave this empty", "table")
+		}
+	}
+}

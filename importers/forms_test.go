@@ -13,12 +13,13 @@ func TestFormColumns(t *testing.T) {
 		"P1,pratt,72,8,,through,20,6.5 8.2 9.1 9.4 9.1 8.0 6.4,,\n" +
 		"P2,pratt,80,10,11,through,20,,7.5,\n" +
 		"P3,pratt,48,6,7,through,20,,,2\n" +
-		"P4,k-truss,96,8,14,through,20,,,\n"
+		"P4,k-truss,96,8,14,through,20,,,\n" +
+		"P5,table,96,12,7,through,20,,,\n"
 	rows, _, err := parseB(t, text)
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(rows) != 4 {
+	if len(rows) != 5 {
 		t.Fatalf("%d rows", len(rows))
 	}
 	// The largest listed depth becomes the depth (docs/inventory.md).
@@ -57,6 +58,7 @@ func TestBadForms(t *testing.T) {
 		{"four spans", "P,pratt,40,8,5,through,20,,,4", 10, "4", "1 to 3"},
 		{"continuous k-truss", "P,k-truss,40,8,5,through,20,,,2", 10, "2", "one span"},
 		{"sub-panels not of four", "P,pratt-sub-ties,72,10,9,through,20,,,", 4, "10", "multiple of 4"},
+		{"a table with spans", "P,table,96,12,7,through,20,,,2", 10, "2", "joint table"},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {

@@ -202,7 +202,7 @@ type Screener struct {
 	swept []sweptTrain
 	// scaled holds a train's extremes scaled by its speed factor (speed.go), while merged.
 	scaled []envelope.Extremes
-	floor floor.Analyser
+	floor  floor.Analyser
 }
 
 type sweptTrain struct {

@@ -76,7 +76,7 @@ func localPoint(ords []float64) int {
 func memberDynamics(lines *analysis.Lines, b Bridge, d traffic.Dynamic, rule string, spansM []float64) ([]MemberDynamic, error) {
 	span, whySpan := lines.SpanM, "span"
 	if len(spansM) > 1 {
-		span, whySpan = traffic.DeterminantLengthM(spansM), fmt.Sprintf("continuous over %d spans", len(spansM))
+		span, whySpan = d.LengthFor(spansM), fmt.Sprintf("continuous over %d spans", len(spansM))
 	}
 	out := make([]MemberDynamic, len(lines.Members))
 	for i, l := range lines.Members {

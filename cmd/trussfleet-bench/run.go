@@ -253,6 +253,7 @@ func importFleet(ctx context.Context, tf trussfleet, dir, fleet string, out io.W
 	for _, args := range [][]string{
 		{"import", "trains", trains},
 		{"import", "bridges", filepath.Join(fleet, "bridges.csv")},
+		{"import", "trusses", filepath.Join(fleet, "trusses.csv")},
 		{"import", "members", filepath.Join(fleet, "members.csv")},
 	} {
 		if err := tf.run(ctx, out, args...); err != nil {

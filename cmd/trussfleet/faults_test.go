@@ -65,6 +65,9 @@ func seedDemoFleet(t *testing.T, db *store.DB, n int) {
 	if _, err := importers.ImportBridgesFile(ctx, db, filepath.Join(dir, "bridges.csv"), importers.Options{}); err != nil {
 		t.Fatal(err)
 	}
+	if _, err := importers.ImportTrussTablesFile(ctx, db, filepath.Join(dir, "trusses.csv"), importers.Options{}); err != nil {
+		t.Fatal(err)
+	}
 	if _, err := importers.ImportMembersFile(ctx, db, filepath.Join(dir, "members.csv"), importers.Options{}); err != nil {
 		t.Fatal(err)
 	}

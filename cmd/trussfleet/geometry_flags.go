@@ -60,7 +60,8 @@ func (g *geometryFlags) missing(cmd *cobra.Command) []string {
 		return nil
 	}
 	for _, name := range geometryRequired {
-		if !cmd.Flags().Changed(name) {
+		// A list of depths gives the depth (its largest).
+		if !cmd.Flags().Changed(name) && !(name == "depth" && g.depths != "") {
 			out = append(out, "--"+name)
 		}
 	}
@@ -78,7 +79,11 @@ func (g *geometryFlags) build() (*truss.Truss, analysis.Options, error) {
 	t, err := truss.Build(g.p)
 	var pe *truss.ParamError
 	if errors.As(err, &pe) {
-		return nil, analysis.Options{}, fmt.Errorf("--%s %v: %s", paramFlags[pe.Param], pe.Value, pe.Allowed)
+		value := pe.Value
+		if pe.Param == "depths" {
+			value = fmt.Sprintf("%q", g.depths) // as typed, not as read
+		}
+		return nil, analysis.Options{}, fmt.Errorf("--%s %v: %s", paramFlags[pe.Param], value, pe.Allowed)
 	}
 	if err != nil {
 		return nil, analysis.Options{}, fmt.Errorf("truss geometry: %w", err)

@@ -27,7 +27,7 @@ func buildPlan(ctx context.Context, db *store.DB, c Config) (screening.Plan, err
 		ProposedLineSpeed: s.Scenarios[scenarioProposed].AtLineSpeed,
 		ExistingTracks:    s.Scenarios[scenarioExisting].Tracks,
 		ProposedTracks:    s.Scenarios[scenarioProposed].Tracks,
-		Network: s.Network,
+		Network:           s.Network,
 	}
 	p.FloorLengths = s.Floor.planLengths()
 	if _, err := traffic.ParseDynamic(s.Dynamic); err != nil {

@@ -11,8 +11,9 @@
 // and their one small sorting script inline, load nothing, and open from disk.
 //
 // The report draws from the types of model.go, which the store fills from a run's results.
-// Geometry and influence lines are rebuilt from the stored truss parameters (truss.Build and
-// analysis.InfluenceLines are cheap and exact), so the drawing is of the truss as screened.
+// Geometry and influence lines are rebuilt from the stored truss parameters, or the stored
+// joint table (screening.Geometry and analysis.InfluenceLines are cheap and exact), so the
+// drawing is of the truss as screened.
 //
 // Placement convention (package envelope): a train running left to right has its front at
 // HeadM and its axles at HeadM − a, a being an axle's distance behind the front; a train

@@ -333,7 +333,7 @@ func demoFleet(t testing.TB, n int) *fixture {
 				Members: map[string]rating.Member{},
 				// The cross-section, where the row gives it (docs/inventory.md).
 				TrussSpacingM: fl(r["truss_spacing_m"]),
-				LineSpeedKmh: fl(r["line_speed_kmh"]), TrussWeightKNPerM: fl(r["truss_weight_kn_per_m"]),
+				LineSpeedKmh:  fl(r["line_speed_kmh"]), TrussWeightKNPerM: fl(r["truss_weight_kn_per_m"]),
 			},
 			Name: r["name"], Line: r["line"], ChainageKm: fl(r["chainage_km"]), LastInspected: r["last_inspected"],
 		})

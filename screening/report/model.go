@@ -51,9 +51,7 @@ type Bridge struct {
 	Row BridgeRow
 	// Truss is the geometry as screened; the report rebuilds the truss and its influence
 	// lines from it (cheap and exact).
-	Truss truss.Params
-	// Table is the joint table of a bridge whose truss type is "table" (nil otherwise).
-	Table          *truss.Table
+	Truss          truss.Params
 	TrussShare     float64
 	Tracks         int
 	DeadLoadKNPerM float64
@@ -64,6 +62,8 @@ type Bridge struct {
 	// FloorNotes say what of the floor system was assumed or left unrated (package floor's
 	// Notes in words); nil for a bridge whose floor is not rated.
 	FloorNotes []string
+	// Table is the joint table of a bridge whose truss type is "table" (nil otherwise).
+	Table *truss.Table
 }
 
 // Section is a bridge's cross-section and what else its dynamic allowance and dead load rest

@@ -429,18 +429,18 @@ type bridgeView struct {
 	Row BridgeRow
 	// Where is the bridge's chainage and rank, after its line (Row.Line), which the page
 	// isolates as inventory text.
-	Where     string
-	Facts     []keyValue
-	Problem   string
-	Elevation *elevation
-	FloorPlan *elevation // floor.go
-	Bands     []band
-	DeckWord  string
+	Where      string
+	Facts      []keyValue
+	Problem    string
+	Elevation  *elevation
+	FloorPlan  *elevation // floor.go
+	Bands      []band
+	DeckWord   string
+	MemberRows []memberRow
+	Equation   string
+	Sections   []section
 	// SupportWord says where the bearings are (forms.go).
 	SupportWord string
-	MemberRows  []memberRow
-	Equation    string
-	Sections    []section
 }
 
 type memberRow struct {

@@ -26,12 +26,28 @@ func DeterminantLengthM(spansM []float64) float64 {
 	return max(k*sum/float64(n), longest)
 }
 
-// DynamicFor is the dynamic allowance d with its determinant length set for a truss
-// continuous over the given spans, unless d already names a length. A single span leaves d
-// as it is (Factor takes the span).
+// LengthFor is the length the allowance's formula takes for a truss over the given spans:
+// EN 1991-2's determinant length (DeterminantLengthM) for Phi2 and Phi3. AREMA's formula takes
+// the length of the span loaded; for a continuous truss screening takes the shortest span,
+// the conservative choice, since the allowance falls with length (a screening assumption;
+// equal spans make it the span).
+func (d Dynamic) LengthFor(spansM []float64) float64 {
+	if d.Kind == AREMASteel && len(spansM) > 0 {
+		shortest := spansM[0]
+		for _, l := range spansM {
+			shortest = min(shortest, l)
+		}
+		return shortest
+	}
+	return DeterminantLengthM(spansM)
+}
+
+// DynamicFor is the dynamic allowance d with its length set for a truss continuous over the
+// given spans (LengthFor), unless d already names a length. A single span leaves d as it is
+// (Factor takes the span).
 func DynamicFor(d Dynamic, spansM []float64) Dynamic {
 	if len(spansM) > 1 && d.LengthM == 0 {
-		d.LengthM = DeterminantLengthM(spansM)
+		d.LengthM = d.LengthFor(spansM)
 	}
 	return d
 }

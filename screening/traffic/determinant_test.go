@@ -33,6 +33,11 @@ func TestDeterminantLength(t *testing.T) {
 	if got, want := d.Factor(90), 1.44/(math.Sqrt(54)-0.2)+0.82; math.Abs(got-want) > 1e-12 {
 		t.Errorf("Phi2 of two spans: %g, want %g", got, want)
 	}
+	// AREMA takes the span loaded: for unequal spans the shorter, whose allowance is the
+	// larger (16 + 600/(L - 30) percent falls with L, from memory: AREMA chapter 15).
+	if got := (Dynamic{Kind: AREMASteel}).LengthFor([]float64{40, 50}); got != 40 {
+		t.Errorf("AREMA length of spans 40 and 50 m: %g", got)
+	}
 	if d := DynamicFor(Dynamic{Kind: Phi2, LengthM: 12}, []float64{40, 50}); d.LengthM != 12 {
 		t.Errorf("a stated length was replaced: %g", d.LengthM)
 	}
