@@ -1,0 +1,358 @@
+package fatigue
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"slices"
+
+	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/traffic"
+)
+
+// Direction is the way a train runs over the bridge (envelope's own).
+type Direction = envelope.Direction
+
+// The two directions of a passage.
+const (
+	LeftToRight = envelope.LeftToRight
+	RightToLeft = envelope.RightToLeft
+)
+
+// ErrNotAPassage is returned (wrapped, with the reason) for a train that describes an envelope
+// of loadings rather than one definite train: a uniform load of variable length, a part
+// applied only where unfavourable or cut at the unfavourable length, or a part reaching
+// indefinitely ahead or behind. Such a load has no single force history.
+var ErrNotAPassage = errors.New("not one definite train")
+
+// Train is a train prepared for passages: its axles and the ends of its distributed parts as
+// offsets behind its front, ordered by offset. It is read-only and safe for concurrent use.
+type Train struct {
+	name  string
+	items []item
+	// LengthM is the length of the train over its loads, from the first load to the last.
+	lengthM float64
+}
+
+// item is an axle (w = load, kN) or one end of a distributed part (w = +q at its front end,
+// -q at its rear end, kN/m), at d metres behind the train's front.
+type item struct {
+	d    float64
+	w    float64
+	part bool
+}
+
+// PrepareTrain checks that t is one definite train and prepares it. A consist whose last group
+// varies in count runs with its largest count (the longest train the scenario allows); a
+// scenario that knows its trains' real lengths names a train of fixed count.
+//
+// Distributed parts applied whole over a finite length are exact (their effect is piecewise
+// quadratic in the train's position). Parts applied only where unfavourable (Load Model 71),
+// cut at the unfavourable length (Cooper's trailing load), or reaching indefinitely ahead or
+// behind, and uniform loads of variable length, are refused with an error wrapping
+// ErrNotAPassage: they are envelopes of many loadings, built for strength checks, and no real
+// train applies them; counting their cycles would count cycles that never happen.
+func PrepareTrain(t *traffic.Train) (*Train, error) {
+	if err := t.Validate(); err != nil {
+		return nil, fmt.Errorf("train %q: %w", t.Name, err)
+	}
+	if t.Uniform != nil {
+		return nil, fmt.Errorf("train %q is a uniform load of variable length, not a passage of one train: %w", t.Name, ErrNotAPassage)
+	}
+	tr := &Train{name: t.Name}
+	count := 0
+	if n := len(t.Consist); n > 0 {
+		count = t.Consist[n-1].Max
+	}
+	for _, a := range t.Axles(count) {
+		tr.items = append(tr.items, item{d: a.AtM, w: a.LoadKN})
+	}
+	for i, p := range t.Parts {
+		switch {
+		case p.Mode != traffic.Whole:
+			return nil, fmt.Errorf("train %q, parts[%d]: a part applied %s is an envelope of loadings, not a passage of one train: %w", t.Name, i, p.Mode, ErrNotAPassage)
+		case math.IsInf(p.FromM, 0) || math.IsInf(p.ToM, 0):
+			return nil, fmt.Errorf("train %q, parts[%d]: a part reaching indefinitely ahead or behind never leaves the bridge empty: %w", t.Name, i, ErrNotAPassage)
+		}
+		tr.items = append(tr.items, item{d: p.FromM, w: p.QKNPerM, part: true}, item{d: p.ToM, w: -p.QKNPerM, part: true})
+	}
+	if len(tr.items) == 0 {
+		return nil, fmt.Errorf("train %q has no loads: %w", t.Name, ErrNotAPassage)
+	}
+	slices.SortStableFunc(tr.items, func(a, b item) int {
+		switch {
+		case a.d < b.d:
+			return -1
+		case a.d > b.d:
+			return 1
+		}
+		return 0
+	})
+	tr.lengthM = tr.items[len(tr.items)-1].d - tr.items[0].d
+	return tr, nil
+}
+
+// Name is the train's name.
+func (tr *Train) Name() string { return tr.name }
+
+// Loads is the number of axles and part ends a passage moves over the bridge.
+func (tr *Train) Loads() int { return len(tr.items) }
+
+// Line is one member's influence line prepared for passages: the ordinates eta (kN per kN) at
+// ascending deck panel points x (m), linear between them and zero beyond x[0] and x[last].
+// Only the vertices where the line kinks or jumps change a passage's course, so only those are
+// kept, for each direction. It is read-only and safe for concurrent use.
+type Line struct {
+	x0, xl float64
+	// dir[d] is the line as a train running in direction d sees it, mirrored for right to
+	// left so that every passage runs left to right.
+	dir [2]kinks
+}
+
+// kinks are a line's vertices where its value jumps (at a bearing with a non-zero ordinate) or
+// its slope changes, with the jump and the change of slope as a point crosses them rightwards,
+// and the line's integral from x0 at each (for distributed parts).
+type kinks struct {
+	x, jump, slope []float64
+	// eta0 is the ordinate just right of each vertex, area the integral from x[0] (both for
+	// the value of a part standing partly on the bridge).
+	eta0, area []float64
+}
+
+// NewLine prepares an influence line. x must ascend strictly, with at least two points, and
+// every value be finite. The inputs are not modified nor kept.
+func NewLine(x, eta []float64) (*Line, error) {
+	if len(x) < 2 || len(eta) != len(x) {
+		return nil, fmt.Errorf("influence line: need at least 2 panel points and one ordinate each, got %d points and %d ordinates", len(x), len(eta))
+	}
+	for k := range x {
+		if math.IsNaN(x[k]) || math.IsInf(x[k], 0) || math.IsNaN(eta[k]) || math.IsInf(eta[k], 0) {
+			return nil, fmt.Errorf("influence line: point %d: x %v, ordinate %v must be finite", k, x[k], eta[k])
+		}
+		if k > 0 && !(x[k] > x[k-1]) {
+			return nil, fmt.Errorf("influence line: panel points must ascend, point %d at %v after %v", k, x[k], x[k-1])
+		}
+	}
+	n := len(x)
+	l := &Line{x0: x[0], xl: x[n-1]}
+	l.dir[0] = kinksOf(x, eta)
+	mx, meta := make([]float64, n), make([]float64, n)
+	for j := range x {
+		mx[j] = x[0] + x[n-1] - x[n-1-j]
+		meta[j] = eta[n-1-j]
+	}
+	l.dir[1] = kinksOf(mx, meta)
+	return l, nil
+}
+
+// kinksOf keeps the vertices where a line kinks or jumps. A slope change below 1e-12 of the
+// steepest slope the ordinates could make is rounding noise of a straight line (it moves a
+// force by less than 1e-12 of the largest it could be) and is not kept; the bearings are.
+func kinksOf(x, eta []float64) kinks {
+	n := len(x)
+	minDx, scale := math.Inf(1), 0.0
+	for j := range x {
+		if j > 0 {
+			minDx = min(minDx, x[j]-x[j-1])
+		}
+		scale = max(scale, math.Abs(eta[j]))
+	}
+	noise := 1e-12 * scale / minDx
+	var k kinks
+	left, area := 0.0, 0.0
+	for j := range x {
+		right := 0.0
+		if j+1 < n {
+			right = (eta[j+1] - eta[j]) / (x[j+1] - x[j])
+		}
+		if j > 0 {
+			area += (eta[j-1] + eta[j]) / 2 * (x[j] - x[j-1])
+		}
+		jump, e0 := 0.0, eta[j]
+		switch j {
+		case 0:
+			jump = eta[0]
+		case n - 1:
+			jump, e0 = -eta[n-1], 0
+		}
+		if d := right - left; j == 0 || j == n-1 || math.Abs(d) > noise {
+			k.x = append(k.x, x[j])
+			k.jump = append(k.jump, jump)
+			k.slope = append(k.slope, d)
+			k.eta0 = append(k.eta0, e0)
+			k.area = append(k.area, area)
+		}
+		left = right
+	}
+	return k
+}
+
+// Point is one point of a force history: the train's front at HeadM (in the coordinates of
+// the line's x for either direction) and the member force Value (kN, tension positive).
+type Point struct {
+	HeadM, Value float64
+}
+
+// event: item it of the train reaches kink j with the front at s.
+type event struct {
+	s     float64
+	it, j int32
+}
+
+// Calculator computes passages, keeping its scratch space between calls. It is not safe for
+// concurrent use; give each goroutine its own. The zero value is ready to use.
+type Calculator struct {
+	events []event
+	heads  []int32
+}
+
+// History appends to dst[:0] the force history of one passage of tr over l in direction dir,
+// at the full train load (scale it by the truss share), and returns it. It starts and ends
+// with the bridge empty (value 0) and holds every position where the force changes course:
+// every position where an axle or a part's end passes a kink of the line (both limits where
+// an axle arriving or leaving at a bearing makes the force jump, and the value with the axle
+// on the bearing between them) and every interior stationary point of a quadratic piece.
+// Between consecutive points the force is linear or, with distributed parts, quadratic and
+// monotonic, so the points hold every peak and valley of the passage exactly.
+//
+// Positions are those of the train's front in the coordinates the train sees: for right to
+// left, measured from x[last] leftwards and shifted by x[0] (the mirrored line's).
+func (c *Calculator) History(l *Line, tr *Train, dir Direction, dst []Point) []Point {
+	k := &l.dir[0]
+	if dir == RightToLeft {
+		k = &l.dir[1]
+	}
+	c.buildEvents(k, tr)
+	dst = dst[:0]
+	ev := c.events
+	if len(ev) == 0 {
+		return append(dst, Point{l.x0, 0})
+	}
+	// Before the first event no load has reached the bridge.
+	dst = append(dst, Point{ev[0].s - 1, 0})
+	var v, g, cc float64 // value, slope and curvature in s
+	sPrev := ev[0].s
+	// At the top of each iteration v, g, cc hold the force and its derivatives with the front
+	// at sPrev, every event before g0 applied, and dst holds every turning point up to sPrev.
+	for g0 := 0; g0 < len(ev); {
+		s := ev[g0].s
+		g1 := g0
+		for g1 < len(ev) && ev[g1].s == s {
+			g1++
+		}
+		if dt := s - sPrev; dt > 0 {
+			if cc != 0 {
+				if t := -g / cc; t > 0 && t < dt {
+					dst = append(dst, Point{sPrev + t, v + g*t/2}) // v + g t + cc t²/2 at t = -g/cc
+				}
+				v += g*dt + cc*dt*dt/2
+				g += cc * dt
+			} else {
+				v += g * dt
+			}
+		}
+		dst = append(dst, Point{s, v})
+		// Axles arriving at the left bearing: the value with them on it; then those leaving at
+		// the right bearing: the value after.
+		last := int32(len(k.x) - 1)
+		arrive, leave := false, false
+		for _, e := range ev[g0:g1] {
+			if it := tr.items[e.it]; !it.part && e.j == 0 && k.jump[0] != 0 {
+				v += it.w * k.jump[0]
+				arrive = true
+			}
+		}
+		if arrive {
+			dst = append(dst, Point{s, v})
+		}
+		for _, e := range ev[g0:g1] {
+			if it := tr.items[e.it]; !it.part && e.j == last && k.jump[last] != 0 {
+				v += it.w * k.jump[last]
+				leave = true
+			}
+		}
+		if leave {
+			dst = append(dst, Point{s, v})
+		}
+		for _, e := range ev[g0:g1] {
+			it := tr.items[e.it]
+			if it.part {
+				g += it.w * k.jump[e.j]
+				cc += it.w * k.slope[e.j]
+			} else {
+				g += it.w * k.slope[e.j]
+			}
+		}
+		sPrev = s
+		g0 = g1
+	}
+	// After the last event every load has left: the value is zero but for rounding.
+	return append(dst, Point{sPrev + 1, 0})
+}
+
+// buildEvents lists in c.events every position where an item reaches a kink, in order. The
+// items are in order of offset, so each kink's events are already in order; the lists of the
+// kinks are merged by taking the smallest head each time (a line has a few kinks: a chord
+// three, a diagonal four), earlier kinks first among equal positions.
+func (c *Calculator) buildEvents(k *kinks, tr *Train) {
+	nk, ni := len(k.x), len(tr.items)
+	c.events = slices.Grow(c.events[:0], nk*ni)
+	c.heads = append(c.heads[:0], make([]int32, nk)...)
+	for {
+		best, bs := -1, math.Inf(1)
+		for j, h := range c.heads {
+			if int(h) < ni {
+				if s := k.x[j] + tr.items[h].d; s < bs {
+					best, bs = j, s
+				}
+			}
+		}
+		if best < 0 {
+			return
+		}
+		c.events = append(c.events, event{s: bs, it: c.heads[best], j: int32(best)})
+		c.heads[best]++
+	}
+}
+
+// Turning reduces a history to its turning points: the first value, each value where the
+// history changes from rising to falling or back, and the last. A reversal by no more than
+// tol is not one: a passage's history is exact, but values meant to be equal (a long train's
+// identical wagons, the empty bridge between them) differ by rounding, and their wiggles would
+// count cycles of a size far below any cut-off. Pass tol = 1e-9 times the largest force (see
+// TurningTol); 0 keeps every reversal. It appends to dst[:0].
+func Turning(h []Point, tol float64, dst []float64) []float64 {
+	dst = dst[:0]
+	if len(h) == 0 {
+		return dst
+	}
+	dst = append(dst, h[0].Value)
+	dir := 0.0 // +1 rising, -1 falling, 0 not yet moved by more than tol
+	for _, p := range h[1:] {
+		v := p.Value
+		n := len(dst)
+		last := dst[n-1]
+		switch {
+		case dir == 0:
+			if math.Abs(v-last) > tol {
+				dir = math.Copysign(1, v-last)
+				dst = append(dst, v)
+			}
+		case (v-last)*dir >= 0:
+			dst[n-1] = v // on in the same sense: a further peak or valley
+		case math.Abs(v-last) > tol:
+			dir = -dir
+			dst = append(dst, v)
+		}
+	}
+	return dst
+}
+
+// TurningTol is the tolerance Turning takes for a history: 1e-9 of its largest force.
+func TurningTol(h []Point) float64 {
+	m := 0.0
+	for _, p := range h {
+		m = max(m, math.Abs(p.Value))
+	}
+	return 1e-9 * m
+}
