@@ -24,7 +24,7 @@
 // against the edition in force): the detail category is the range at 2e6 cycles, slope 3 to
 // the constant-amplitude limit at 5e6 cycles, slope 5 to the cut-off at 1e8 cycles, nothing
 // below. Damage is the Palmgren-Miner sum n/N, each range multiplied by the partial factor
-// gamma_Mf. DynamicFactor is EN 1991-2 Annex C's fatigue factor 1 + (phi' + phi''/2)/2 for a
+// gamma_Mf. DynamicFactor is EN 1991-2 Annex C's fatigue factor 1 + (phi' + phi”/2)/2 for a
 // train at a known speed (from memory).
 //
 // Units: m, kN, MPa; forces tension positive. Inputs are never modified. A Calculator holds

@@ -6,7 +6,7 @@ import (
 )
 
 // DynamicFactor is the fatigue dynamic factor of a real train at a known speed, EN 1991-2
-// Annex C (from memory; check against the edition in force): 1 + (phi' + phi''/2)/2, the
+// Annex C (from memory; check against the edition in force): 1 + (phi' + phi”/2)/2, the
 // mean dynamic increment that fatigue takes rather than the extreme one, with
 //
 //	K = v / (2 Lphi n0),  phi' = K / (1 - K + K^4) for K < 0.76, else 1.325,

@@ -160,10 +160,10 @@ func TestMinerTwoLevels(t *testing.T) {
 
 func TestDynamicFactor(t *testing.T) {
 	cases := []struct {
-		name            string
-		v, lphi, n0     float64
-		want            float64
-		source          string
+		name        string
+		v, lphi, n0 float64
+		want        float64
+		source      string
 	}{
 		{"standing still", 0, 20, 4, 1, "EN 1991-2 Annex C (from memory): K = 0 and alpha = 0 give no increment"},
 		// by hand: K = 20/(2 20 4) = 0.125, phi' = 0.125/(1 - 0.125 + 0.125^4) = 0.142817;
