@@ -202,8 +202,14 @@ type event struct {
 // Calculator computes passages, keeping its scratch space between calls. It is not safe for
 // concurrent use; give each goroutine its own. The zero value is ready to use.
 type Calculator struct {
+	// buildEvents' output and scratch, valid within one History.
 	events []event
 	heads  []int32
+	// Check's scratch, valid within one passage of yearly.
+	hist   []Point
+	turn   []float64
+	cycles []Cycle
+	stack  []float64
 }
 
 // History appends to dst[:0] the force history of one passage of tr over l in direction dir,
