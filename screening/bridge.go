@@ -11,6 +11,7 @@ import (
 
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/fatigue"
 	"github.com/trussfleet/trussfleet/screening/rating"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 	"github.com/trussfleet/trussfleet/screening/truss"
@@ -30,6 +31,8 @@ type Bridge struct {
 	// Members holds the inventory's data by member label; a member missing here has no
 	// capacity data.
 	Members map[string]rating.Member
+	// YearBuilt is the year the bridge was built (0: not known), for fatigue damage to date.
+	YearBuilt int
 }
 
 // LiveShare is the factor on a train's load for the analysed truss.
@@ -70,6 +73,8 @@ type Settings struct {
 	Dynamic    traffic.Dynamic
 	Method     rating.Method
 	Thresholds rating.Thresholds
+	// Fatigue holds the fatigue settings and traffic; nil checks no fatigue.
+	Fatigue *FatigueSettings
 }
 
 // ShareTrains makes the trains that are defined alike, in either scenario or among the
@@ -119,6 +124,8 @@ type MemberResult struct {
 	Dead               float64 // kN
 	Existing, Proposed Envelope
 	Assessment         rating.Assessment
+	// Fatigue is the member's fatigue check; nil when the run checks no fatigue.
+	Fatigue *fatigue.Result
 }
 
 // Result is one bridge's outcome.
@@ -130,11 +137,15 @@ type Result struct {
 	Summary rating.Bridge
 	// Governing is the proposed-traffic extreme behind the worst member's lowest RF.
 	Governing *Extreme
+	// Fatigue counts the members' fatigue outcomes; zero when the run checks no fatigue.
+	Fatigue FatigueSummary
 }
 
 // Screener screens bridges one after another, reusing its buffers; one per goroutine.
 type Screener struct {
 	calc envelope.Calculator
+	// fcalc computes fatigue passages (screening/fatigue).
+	fcalc fatigue.Calculator
 	// swept holds the current bridge's envelope under each train swept so far: a train in
 	// both scenarios (or also a reference train) is swept once per bridge.
 	swept []sweptTrain
@@ -242,6 +253,9 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 		}
 		assess[i] = a
 		res.Members[i] = MemberResult{Label: l.Label, Kind: l.Kind, Dead: dead, Existing: ex[i], Proposed: pr[i], Assessment: a}
+	}
+	if err := w.checkFatigue(b, s, t.SpanM(), lines, &res); err != nil {
+		return fail(err)
 	}
 	res.Summary = rating.Summarise(assess)
 	if w := res.Summary.Worst; w >= 0 {

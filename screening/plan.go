@@ -57,6 +57,9 @@ type Plan struct {
 	// reversal to count; FlagUnrated flags unrated members.
 	Reversal    float64 `json:"reversal_fraction"`
 	FlagUnrated bool    `json:"flag_unrated"`
+	// Fatigue holds the fatigue settings and traffic; nil checks no fatigue (and leaves the
+	// hash of a plan without it as it was).
+	Fatigue *FatiguePlan `json:"fatigue,omitempty"`
 }
 
 // Hash is a stable digest of the plan.
@@ -124,6 +127,9 @@ func (p Plan) Settings() (*Settings, error) {
 	}
 	s.Thresholds = rating.Thresholds{Flag: p.Flag, Review: p.Review, WorseFraction: p.Worse,
 		ReversalFraction: p.Reversal, FlagUnrated: p.FlagUnrated}
+	if s.Fatigue, err = p.fatigueSettings(); err != nil {
+		return nil, err
+	}
 	return s, nil
 }
 

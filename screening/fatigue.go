@@ -1,0 +1,183 @@
+package screening
+
+import (
+	"fmt"
+	"math"
+
+	"github.com/trussfleet/trussfleet/screening/analysis"
+	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/fatigue"
+)
+
+// FatiguePlan is the part of a run's plan that sets the fatigue check (configs/default.yaml,
+// "fatigue", documents each setting): stored and hashed with the plan.
+type FatiguePlan struct {
+	GammaMf            float64 `json:"gamma_mf"`
+	RivetedCategoryMPa float64 `json:"riveted_category_mpa"`
+	// DynamicFactor applies to a train of unknown speed.
+	DynamicFactor    float64 `json:"dynamic_factor"`
+	Year             int     `json:"year"`
+	DefaultYearBuilt int     `json:"default_year_built"`
+	// History: past traffic periods, each a multiple of today's existing traffic.
+	History      []fatigue.Period `json:"history,omitempty"`
+	HorizonYears float64          `json:"horizon_years"`
+	RiseFactor   float64          `json:"rise_factor"`
+	// Existing and Proposed are the scenarios' real trains and their yearly passages.
+	Existing []FatigueTraffic `json:"existing"`
+	Proposed []FatigueTraffic `json:"proposed"`
+}
+
+// FatigueTraffic is one train's yearly passages in a scenario.
+type FatigueTraffic struct {
+	Train   TrainRef `json:"train"`
+	PerYear float64  `json:"per_year"`
+	// SpeedKmh is the train's speed (0: not known, the plan's DynamicFactor applies).
+	SpeedKmh float64 `json:"speed_kmh,omitempty"`
+	// Directions: "both" (or ""), half the passages each way; "left-to-right" or
+	// "right-to-left", every passage that way.
+	Directions string `json:"directions,omitempty"`
+	// Track (1-based) the train runs on; 0: the worst track for each member.
+	Track int `json:"track,omitempty"`
+}
+
+// FatigueSettings are the fatigue settings with every train prepared for passages.
+type FatigueSettings struct {
+	fatigue.Settings
+	Existing, Proposed []fatigue.Traffic
+}
+
+// fatigueSettings prepares the plan's fatigue settings; nil where the plan has none.
+func (p Plan) fatigueSettings() (*FatigueSettings, error) {
+	fp := p.Fatigue
+	if fp == nil {
+		return nil, nil
+	}
+	f := &FatigueSettings{Settings: fatigue.Settings{GammaMf: fp.GammaMf, RivetedCategoryMPa: fp.RivetedCategoryMPa,
+		DynamicFactor: fp.DynamicFactor, Year: fp.Year, DefaultYearBuilt: fp.DefaultYearBuilt, History: fp.History,
+		HorizonYears: fp.HorizonYears, RiseFactor: fp.RiseFactor}}
+	if err := f.Validate(); err != nil {
+		return nil, err
+	}
+	var err error
+	if f.Existing, err = fatigueTraffic("existing", fp.Existing); err != nil {
+		return nil, err
+	}
+	if f.Proposed, err = fatigueTraffic("proposed", fp.Proposed); err != nil {
+		return nil, err
+	}
+	return f, nil
+}
+
+func fatigueTraffic(scenario string, ts []FatigueTraffic) ([]fatigue.Traffic, error) {
+	if len(ts) == 0 {
+		return nil, fmt.Errorf("fatigue traffic of scenario %s: no trains (give each real train's passages a year)", scenario)
+	}
+	out := make([]fatigue.Traffic, len(ts))
+	for i, t := range ts {
+		where := fmt.Sprintf("fatigue traffic of scenario %s, train %q", scenario, t.Train.Asked)
+		tr, err := t.Train.Train()
+		if err != nil {
+			return nil, fmt.Errorf("%s: %w", where, err)
+		}
+		ft, err := fatigue.PrepareTrain(tr)
+		if err != nil {
+			return nil, fmt.Errorf("%s: %w", where, err)
+		}
+		if !(t.PerYear >= 0) || math.IsInf(t.PerYear, 0) {
+			return nil, fmt.Errorf("%s: passages a year must be 0 or more, got %v", where, t.PerYear)
+		}
+		if !(t.SpeedKmh >= 0 && t.SpeedKmh <= 500) {
+			return nil, fmt.Errorf("%s: speed must be from 0 (not known) to 500 km/h, got %v", where, t.SpeedKmh)
+		}
+		if t.Track < 0 || t.Track > maxTracks {
+			return nil, fmt.Errorf("%s: track must be from 1 to %d (0: the worst), got %d", where, maxTracks, t.Track)
+		}
+		out[i] = fatigue.Traffic{Train: ft, PerYear: t.PerYear, SpeedMPerS: t.SpeedKmh / 3.6, Track: t.Track}
+		switch t.Directions {
+		case "", "both":
+		case "left-to-right":
+			out[i].Directions = []fatigue.Direction{envelope.LeftToRight}
+		case "right-to-left":
+			out[i].Directions = []fatigue.Direction{envelope.RightToLeft}
+		default:
+			return nil, fmt.Errorf("%s: directions %q: allowed both, left-to-right, right-to-left", where, t.Directions)
+		}
+	}
+	return out, nil
+}
+
+// maxTracks bounds a train's track number: no truss bridge carries more.
+const maxTracks = 8
+
+// FatigueSummary counts a bridge's fatigue outcomes.
+type FatigueSummary struct {
+	// Checked members had an area and a category; NoData members lacked one (not flagged);
+	// BelowCutOff members were checked and no range reached the cut-off.
+	Checked, NoData, BelowCutOff int
+	FlagCounts                   map[fatigue.Flag]int
+	// Shortest is the index of the member with the shortest remaining life (-1: none with a
+	// finite one), ShortestYears that life.
+	Shortest      int
+	ShortestYears float64
+}
+
+// trackShares are the truss's shares of each track's load: today's model gives every track
+// the bridge's TrussShare. The integrator wires this to the cross-section's per-track shares
+// (Bridge.TrackShares) where that is merged.
+func trackShares(b Bridge) []float64 {
+	out := make([]float64, max(b.Tracks, 1))
+	for i := range out {
+		out[i] = b.TrussShare
+	}
+	return out
+}
+
+// checkFatigue runs the fatigue check of every member with an area and a category (where the
+// run checks fatigue) and counts the outcomes in res.Fatigue. A category the check cannot
+// read fails the bridge, naming the member.
+func (w *Screener) checkFatigue(b Bridge, s *Settings, spanM float64, lines *analysis.Lines, res *Result) error {
+	f := s.Fatigue
+	if f == nil {
+		return nil
+	}
+	sum := FatigueSummary{FlagCounts: map[fatigue.Flag]int{}, Shortest: -1, ShortestYears: math.Inf(1)}
+	fb := fatigue.Bridge{SpanM: spanM, YearBuilt: b.YearBuilt, Shares: trackShares(b)}
+	results := make([]fatigue.Result, len(lines.Members))
+	for i, l := range lines.Members {
+		inv := b.Members[l.Label]
+		r := &results[i]
+		*r = fatigue.Result{Status: fatigue.NoData}
+		res.Members[i].Fatigue = r
+		cat, has, err := fatigue.ParseCategory(inv.FatigueCategory, f.RivetedCategoryMPa)
+		if err != nil {
+			return fmt.Errorf("member %s, fatigue_category: %w", l.Label, err)
+		}
+		if !has || !(inv.AreaMM2 > 0) || math.IsInf(inv.AreaMM2, 0) {
+			sum.NoData++
+			continue
+		}
+		curve, err := fatigue.NewCurve(cat, f.GammaMf)
+		if err != nil {
+			return fmt.Errorf("member %s: %w", l.Label, err)
+		}
+		line, err := fatigue.NewLine(lines.X, l.Ordinates)
+		if err != nil {
+			return fmt.Errorf("member %s: %w", l.Label, err)
+		}
+		if *r, err = w.fcalc.Check(fatigue.Member{Line: line, AreaMM2: inv.AreaMM2, Curve: curve}, fb, &f.Settings, f.Existing, f.Proposed, nil); err != nil {
+			return fmt.Errorf("member %s, fatigue: %w", l.Label, err)
+		}
+		sum.Checked++
+		if r.Status == fatigue.BelowCutOff {
+			sum.BelowCutOff++
+		}
+		for _, fl := range r.Flags {
+			sum.FlagCounts[fl]++
+		}
+		if r.RemainingYears < sum.ShortestYears {
+			sum.Shortest, sum.ShortestYears = i, r.RemainingYears
+		}
+	}
+	res.Fatigue = sum
+	return nil
+}
