@@ -44,6 +44,9 @@ func ScreeningInput(b store.Bridge, members []store.Member) screening.Bridge {
 		DeadLoadKNPerM: b.DeadLoadKNPerM,
 		Members:        make(map[string]rating.Member, len(members)),
 	}
+	if b.YearBuilt != nil {
+		sb.YearBuilt = *b.YearBuilt
+	}
 	for _, m := range members {
 		sb.Members[m.Member] = RatingMember(m)
 	}
@@ -52,7 +55,10 @@ func ScreeningInput(b store.Bridge, members []store.Member) screening.Bridge {
 
 // RatingMember turns a members row into the rating package's view of it.
 func RatingMember(m store.Member) rating.Member {
-	r := rating.Member{ConditionFactor: m.ConditionFactor}
+	r := rating.Member{ConditionFactor: m.ConditionFactor, FatigueCategory: m.FatigueCategory}
+	if m.AreaMM2 != nil {
+		r.AreaMM2 = *m.AreaMM2
+	}
 	if m.CapacityTensionKN != nil {
 		r.CapacityTension = *m.CapacityTensionKN
 	}

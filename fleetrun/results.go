@@ -259,7 +259,9 @@ func (e *resultEncoder) memberAssessment(setID int64, m screening.MemberResult) 
 	for _, f := range a.Flags {
 		e.flags = append(e.flags, string(f))
 	}
-	e.ma = store.MemberAssessment{SetID: setID, Member: m.Label, DemandIncrease: finite(a.DemandIncrease), Flags: e.flags}
+	e.flags = appendFatigueFlags(e.flags, m.Fatigue)
+	e.ma = store.MemberAssessment{SetID: setID, Member: m.Label, DemandIncrease: finite(a.DemandIncrease), Flags: e.flags,
+		Fatigue: fatigueColumns(m.Fatigue)}
 	if a.HasEx {
 		e.ma.RFExisting = finite(a.WorstEx.RF)
 	}
@@ -295,6 +297,7 @@ func outcome(r screening.Result, hash string, set *int64) store.BridgeOutcome {
 			o.FlagCounts[string(f)] = n
 		}
 	}
+	fatigueOutcome(&o, r)
 	if g := r.Governing; g != nil && g.Loaded {
 		o.GoverningTrain, o.GoverningSense, o.GoverningDirection = g.Train, s.WorstPr.Sense.String(), g.Direction.String()
 		o.GoverningHeadM, o.GoverningFromM, o.GoverningToM = num(g.HeadM), num(g.LoadedFromM), num(g.LoadedToM)

@@ -21,11 +21,15 @@ type ScreenConfig struct {
 	// JobTimeout bounds one job; RescueAfter hands a job whose worker died to another.
 	JobTimeout  time.Duration `mapstructure:"job_timeout"`
 	RescueAfter time.Duration `mapstructure:"rescue_after"`
+	// Fatigue sets the fatigue check (config_fatigue.go).
+	Fatigue FatigueConfig `mapstructure:"fatigue"`
 }
 
 // ScenarioConfig is one traffic scenario: the envelope over all its trains.
 type ScenarioConfig struct {
 	Trains []string `mapstructure:"trains"`
+	// Traffic lists real trains' passages for the fatigue check (config_fatigue.go).
+	Traffic []TrafficConfig `mapstructure:"traffic"`
 }
 
 // RatingConfig selects the rating equation and its factors.
@@ -74,6 +78,7 @@ func setScreenDefaults(v *viper.Viper) {
 	v.SetDefault("jobs", 4)
 	v.SetDefault("job_timeout", "2m")
 	v.SetDefault("rescue_after", "5m")
+	setFatigueDefaults(v)
 }
 
 func (s ScreenConfig) validate() []error {
@@ -126,5 +131,6 @@ func (s ScreenConfig) validate() []error {
 	if s.ChunkSize < 1 || s.ChunkSize > 10000 {
 		bad("chunk_size", "must be from 1 to 10000 bridges per job, got %d", s.ChunkSize)
 	}
+	errs = append(errs, s.validateFatigue()...)
 	return errs
 }

@@ -1,0 +1,71 @@
+-- The fatigue check (screening/fatigue). A member's outcome is one more part of its
+-- assessment: the columns hold it on member_assessments, written and pruned with the result
+-- set like the rest of the row. fatigue_status is '' (the other columns NULL) for members of
+-- runs that checked no fatigue and for rows screened before this migration.
+--
+-- fatigue_status: no-data (no area or category: not checked), below-cut-off, damaged.
+-- Damages are Miner sums (1 uses up the life); remaining years NULL where the proposed
+-- traffic does no damage (the life does not run out), end year NULL likewise.
+-- The fatigue flags (fatigue-life, fatigue-rise) join the member's flags.
+
+ALTER TABLE member_assessments
+    ADD COLUMN fatigue_status text NOT NULL DEFAULT '' CHECK (fatigue_status IN ('', 'no-data', 'below-cut-off', 'damaged')),
+    ADD COLUMN fatigue_category_mpa double precision,
+    ADD COLUMN fatigue_area_mm2 double precision,
+    ADD COLUMN fatigue_damage_existing double precision,
+    ADD COLUMN fatigue_damage_proposed double precision,
+    ADD COLUMN fatigue_damage_ratio double precision,
+    ADD COLUMN fatigue_damage_to_date double precision,
+    ADD COLUMN fatigue_remaining_years double precision,
+    ADD COLUMN fatigue_end_year integer,
+    ADD COLUMN fatigue_range_existing_mpa double precision,
+    ADD COLUMN fatigue_range_proposed_mpa double precision,
+    ADD COLUMN fatigue_train text NOT NULL DEFAULT '';
+
+-- A bridge's fatigue summary: members not checked for want of data, the shortest remaining
+-- life and its member. NULL where the run checked no fatigue.
+ALTER TABLE run_bridges
+    ADD COLUMN fatigue_no_data integer CHECK (fatigue_no_data >= 0),
+    ADD COLUMN fatigue_life_years double precision,
+    ADD COLUMN fatigue_member text;
+
+-- The year built is now a screening input (the fatigue damage to date): a change of it
+-- renews the bridge's input version, as a change of its geometry does (migration 010).
+DROP TRIGGER bridges_input_version ON bridges;
+CREATE TRIGGER bridges_input_version BEFORE UPDATE ON bridges FOR EACH ROW
+WHEN ((OLD.truss_type, OLD.span_m, OLD.panels, OLD.depth_m, OLD.deck, OLD.end_posts, OLD.trusses,
+       OLD.truss_share, OLD.tracks, OLD.dead_load_kn_per_m, OLD.year_built)
+      IS DISTINCT FROM
+      (NEW.truss_type, NEW.span_m, NEW.panels, NEW.depth_m, NEW.deck, NEW.end_posts, NEW.trusses,
+       NEW.truss_share, NEW.tracks, NEW.dead_load_kn_per_m, NEW.year_built))
+EXECUTE FUNCTION bridge_inputs_changed();
+
+---- create above / drop below ----
+
+DROP TRIGGER bridges_input_version ON bridges;
+CREATE TRIGGER bridges_input_version BEFORE UPDATE ON bridges FOR EACH ROW
+WHEN ((OLD.truss_type, OLD.span_m, OLD.panels, OLD.depth_m, OLD.deck, OLD.end_posts, OLD.trusses,
+       OLD.truss_share, OLD.tracks, OLD.dead_load_kn_per_m)
+      IS DISTINCT FROM
+      (NEW.truss_type, NEW.span_m, NEW.panels, NEW.depth_m, NEW.deck, NEW.end_posts, NEW.trusses,
+       NEW.truss_share, NEW.tracks, NEW.dead_load_kn_per_m))
+EXECUTE FUNCTION bridge_inputs_changed();
+
+ALTER TABLE run_bridges
+    DROP COLUMN fatigue_member,
+    DROP COLUMN fatigue_life_years,
+    DROP COLUMN fatigue_no_data;
+
+ALTER TABLE member_assessments
+    DROP COLUMN fatigue_train,
+    DROP COLUMN fatigue_range_proposed_mpa,
+    DROP COLUMN fatigue_range_existing_mpa,
+    DROP COLUMN fatigue_end_year,
+    DROP COLUMN fatigue_remaining_years,
+    DROP COLUMN fatigue_damage_to_date,
+    DROP COLUMN fatigue_damage_ratio,
+    DROP COLUMN fatigue_damage_proposed,
+    DROP COLUMN fatigue_damage_existing,
+    DROP COLUMN fatigue_area_mm2,
+    DROP COLUMN fatigue_category_mpa,
+    DROP COLUMN fatigue_status;
