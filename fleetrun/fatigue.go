@@ -55,6 +55,7 @@ func fatigueOutcome(o *store.BridgeOutcome, r screening.Result) {
 	o.FatigueNoData = &n
 	if f.Shortest >= 0 && !math.IsInf(f.ShortestYears, 0) {
 		o.FatigueLifeYears, o.FatigueMember = num(f.ShortestYears), r.Members[f.Shortest].Label
+		o.FatigueLifeIndex = num(f.ShortestIndex)
 	}
 	for _, fl := range fatigueFlags {
 		if k := f.FlagCounts[fl]; k > 0 {

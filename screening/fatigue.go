@@ -116,9 +116,12 @@ type FatigueSummary struct {
 	Checked, NoData, BelowCutOff int
 	FlagCounts                   map[fatigue.Flag]int
 	// Shortest is the index of the member with the shortest remaining life (-1: none with a
-	// finite one), ShortestYears that life.
+	// finite one), ShortestYears that life and ShortestIndex that life over the planning
+	// horizon (+Inf without a horizon): below 1 the member is flagged fatigue-life. The
+	// priority list compares it with the lowest proposed RF (store/rank.go).
 	Shortest      int
 	ShortestYears float64
+	ShortestIndex float64
 }
 
 // trackShares are the truss's shares of each track's load: today's model gives every track
@@ -177,6 +180,10 @@ func (w *Screener) checkFatigue(b Bridge, s *Settings, spanM float64, lines *ana
 		if r.RemainingYears < sum.ShortestYears {
 			sum.Shortest, sum.ShortestYears = i, r.RemainingYears
 		}
+	}
+	sum.ShortestIndex = math.Inf(1)
+	if f.HorizonYears > 0 && sum.Shortest >= 0 {
+		sum.ShortestIndex = sum.ShortestYears / f.HorizonYears
 	}
 	res.Fatigue = sum
 	return nil

@@ -2,6 +2,7 @@ package store
 
 import (
 	"context"
+	"strings"
 
 	"github.com/jackc/pgx/v5"
 	"github.com/jackc/pgx/v5/pgtype"
@@ -66,6 +67,19 @@ var memberAssessmentColumns = []column[MemberAssessment]{
 	{"fatigue_range_existing_mpa", func(a *MemberAssessment) any { return &a.Fatigue.RangeExistingMPa }},
 	{"fatigue_range_proposed_mpa", func(a *MemberAssessment) any { return &a.Fatigue.RangeProposedMPa }},
 	{"fatigue_train", func(a *MemberAssessment) any { return &a.Fatigue.Train }},
+}
+
+// fatigueColumns lists member_assessments' fatigue columns (their names begin fatigue_),
+// qualified by alias, and the fields of a that hold them, from the column table, for the
+// queries that read them beside other tables.
+func fatigueColumns(alias string, a *MemberAssessment) (names []string, fields []any) {
+	for _, c := range memberAssessmentColumns {
+		if strings.HasPrefix(c.name, "fatigue_") {
+			names = append(names, alias+"."+c.name)
+			fields = append(fields, c.field(a))
+		}
+	}
+	return names, fields
 }
 
 // MemberAssessmentColumns are the names of member_assessments' columns, in the order

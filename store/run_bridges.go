@@ -189,6 +189,8 @@ type BridgeOutcome struct {
 	FatigueNoData    *int32
 	FatigueLifeYears *float64
 	FatigueMember    string
+	// FatigueLifeIndex is FatigueLifeYears over the planning horizon (nil: none).
+	FatigueLifeIndex *float64
 }
 
 // outcomeColumn is a run_bridges column a BridgeOutcome sets: its values travel to the server
@@ -227,6 +229,7 @@ var outcomeColumns = []outcomeColumn{
 	{"fatigue_no_data", "int4[]", "u.fatigue_no_data", each(func(o *BridgeOutcome) *int32 { return o.FatigueNoData })},
 	{"fatigue_life_years", "float8[]", "u.fatigue_life_years", each(func(o *BridgeOutcome) *float64 { return o.FatigueLifeYears })},
 	{"fatigue_member", "text[]", "nullif(u.fatigue_member, '')", each(func(o *BridgeOutcome) string { return o.FatigueMember })},
+	{"fatigue_life_index", "float8[]", "u.fatigue_life_index", each(func(o *BridgeOutcome) *float64 { return o.FatigueLifeIndex })},
 	{"governing_train", "text[]", "u.governing_train", each(func(o *BridgeOutcome) string { return o.GoverningTrain })},
 	{"governing_sense", "text[]", "u.governing_sense", each(func(o *BridgeOutcome) string { return o.GoverningSense })},
 	{"governing_head_m", "float8[]", "u.governing_head_m", each(func(o *BridgeOutcome) *float64 { return o.GoverningHeadM })},
@@ -281,7 +284,7 @@ func SetOutcomes(ctx context.Context, tx pgx.Tx, runID int64, outcomes []BridgeO
 // carriedColumns are the run_bridges columns a pruned run's picture passes on, unchanged, to
 // a run that depends on it (run_id, status and source_run_id are set apart).
 var carriedColumns = []string{"bridge_id", "input_hash", "error", "worst_member", "rf_existing", "rf_proposed",
-	"demand_increase", "headroom", "flags", "flag_counts", "unrated_members", "fatigue_no_data", "fatigue_life_years", "fatigue_member", "governing_train", "governing_sense", "governing_head_m",
+	"demand_increase", "headroom", "flags", "flag_counts", "unrated_members", "fatigue_no_data", "fatigue_life_years", "fatigue_member", "fatigue_life_index", "governing_train", "governing_sense", "governing_head_m",
 	"governing_direction", "governing_from_m", "governing_to_m", "screened_at", "requeues", "set_id"}
 
 // squashStatement copies the picture of run $1 into run $2, for every bridge that run $2

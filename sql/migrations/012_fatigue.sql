@@ -23,10 +23,13 @@ ALTER TABLE member_assessments
     ADD COLUMN fatigue_train text NOT NULL DEFAULT '';
 
 -- A bridge's fatigue summary: members not checked for want of data, the shortest remaining
--- life and its member. NULL where the run checked no fatigue.
+-- life, its member, and that life over the planning horizon (fatigue_life_index: below 1 the
+-- member is flagged fatigue-life), which the priority order compares with the proposed RF
+-- (store/rank.go). NULL where the run checked no fatigue or no life runs out.
 ALTER TABLE run_bridges
     ADD COLUMN fatigue_no_data integer CHECK (fatigue_no_data >= 0),
     ADD COLUMN fatigue_life_years double precision,
+    ADD COLUMN fatigue_life_index double precision,
     ADD COLUMN fatigue_member text;
 
 -- The year built is now a screening input (the fatigue damage to date): a change of it
@@ -53,6 +56,7 @@ EXECUTE FUNCTION bridge_inputs_changed();
 
 ALTER TABLE run_bridges
     DROP COLUMN fatigue_member,
+    DROP COLUMN fatigue_life_index,
     DROP COLUMN fatigue_life_years,
     DROP COLUMN fatigue_no_data;
 
