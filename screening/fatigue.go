@@ -59,29 +59,35 @@ func (p Plan) fatigueSettings() (*FatigueSettings, error) {
 		return nil, err
 	}
 	var err error
-	if f.Existing, err = fatigueTraffic("existing", fp.Existing); err != nil {
+	// A train in both scenarios is one prepared train, so that a member counts its passages
+	// once (fatigue.Calculator keeps them by train).
+	prepared := map[TrainRef]*fatigue.Train{}
+	if f.Existing, err = fatigueTraffic("existing", fp.Existing, prepared); err != nil {
 		return nil, err
 	}
-	if f.Proposed, err = fatigueTraffic("proposed", fp.Proposed); err != nil {
+	if f.Proposed, err = fatigueTraffic("proposed", fp.Proposed, prepared); err != nil {
 		return nil, err
 	}
 	return f, nil
 }
 
-func fatigueTraffic(scenario string, ts []FatigueTraffic) ([]fatigue.Traffic, error) {
+func fatigueTraffic(scenario string, ts []FatigueTraffic, prepared map[TrainRef]*fatigue.Train) ([]fatigue.Traffic, error) {
 	if len(ts) == 0 {
 		return nil, fmt.Errorf("fatigue traffic of scenario %s: no trains (give each real train's passages a year)", scenario)
 	}
 	out := make([]fatigue.Traffic, len(ts))
 	for i, t := range ts {
 		where := fmt.Sprintf("fatigue traffic of scenario %s, train %q", scenario, t.Train.Asked)
-		tr, err := t.Train.Train()
-		if err != nil {
-			return nil, fmt.Errorf("%s: %w", where, err)
-		}
-		ft, err := fatigue.PrepareTrain(tr)
-		if err != nil {
-			return nil, fmt.Errorf("%s: %w", where, err)
+		ft, ok := prepared[t.Train]
+		if !ok {
+			tr, err := t.Train.Train()
+			if err != nil {
+				return nil, fmt.Errorf("%s: %w", where, err)
+			}
+			if ft, err = fatigue.PrepareTrain(tr); err != nil {
+				return nil, fmt.Errorf("%s: %w", where, err)
+			}
+			prepared[t.Train] = ft
 		}
 		if !(t.PerYear >= 0) || math.IsInf(t.PerYear, 0) {
 			return nil, fmt.Errorf("%s: passages a year must be 0 or more, got %v", where, t.PerYear)

@@ -221,6 +221,7 @@ type Passage struct {
 // keep, when not nil, receives every passage computed (for the report); the histories and
 // cycles it holds are the Calculator's until the next call unless keep copies them.
 func (c *Calculator) Check(m Member, b Bridge, s *Settings, existing, proposed []Traffic, keep func(proposed bool, p Passage)) (Result, error) {
+	c.passages = c.passages[:0] // cycles are the member's own
 	r := Result{Status: Damaged, CategoryMPa: m.Curve.CategoryMPa, AreaMM2: m.AreaMM2}
 	var err error
 	r.PerYearExisting, r.MaxRangeExistingMPa, _, err = c.yearly(m, b, s, existing, keep, false)
@@ -291,15 +292,13 @@ func (c *Calculator) yearly(m Member, b Bridge, s *Settings, traffic []Traffic, 
 		each := t.PerYear / float64(len(dirs))
 		d := 0.0
 		for _, dir := range dirs {
-			c.hist = c.History(m.Line, t.Train, dir, c.hist)
-			c.turn = Turning(c.hist, TurningTol(c.hist), c.turn)
-			c.cycles, c.stack = Rainflow(c.turn, c.cycles, c.stack)
-			one := m.Curve.Damage(c.cycles, scale)
+			pc := c.passage(m.Line, t.Train, dir, b.SpanM)
+			one := pc.damage(m.Curve, scale)
 			d += each * one
-			for _, cy := range c.cycles {
-				maxRange = max(maxRange, cy.Range*scale)
-			}
+			maxRange = max(maxRange, pc.maxRange*scale)
 			if keep != nil {
+				c.hist = c.History(m.Line, t.Train, dir, c.hist)
+				c.cycles, c.stack = Rainflow(Turning(c.hist, PassageTol(m.Line, t.Train), c.turn), c.cycles, c.stack)
 				keep(proposed, Passage{Train: t.Train.Name(), Direction: dir, History: c.hist, Cycles: c.cycles, MPaPerKN: scale, PerYear: each, Damage: one})
 			}
 		}

@@ -48,7 +48,7 @@ func axleTrain(name string, spacingM float64, loads ...float64) *traffic.Train {
 	return &traffic.Train{Name: name, Consist: []traffic.Group{{Vehicle: v, Min: 1, Max: 1}}}
 }
 
-func passageCycles(t *testing.T, x, eta []float64, tr *traffic.Train, dir Direction) ([]float64, []Cycle) {
+func passageOf(t *testing.T, x, eta []float64, tr *traffic.Train, dir Direction) ([]float64, []Cycle) {
 	t.Helper()
 	l, err := NewLine(x, eta)
 	if err != nil {
@@ -92,7 +92,7 @@ func TestPassagesOverATriangle(t *testing.T) {
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			for _, dir := range []Direction{LeftToRight, RightToLeft} {
-				tp, cy := passageCycles(t, x, eta, c.train, dir)
+				tp, cy := passageOf(t, x, eta, c.train, dir)
 				if !slices.EqualFunc(tp, c.turning, func(a, b float64) bool { return math.Abs(a-b) < 1e-9 }) {
 					t.Fatalf("%s: turning points %v, want %v (%s)", dir, tp, c.turning, c.source)
 				}

@@ -1,6 +1,7 @@
 package fatigue
 
 import (
+	"cmp"
 	"errors"
 	"fmt"
 	"math"
@@ -30,8 +31,16 @@ var ErrNotAPassage = errors.New("not one definite train")
 type Train struct {
 	name  string
 	items []item
-	// LengthM is the length of the train over its loads, from the first load to the last.
-	lengthM float64
+	// totalKN is the sum of the loads (axles, and parts' q times their length).
+	totalKN float64
+	// The consist's structure, for passages with fewer vehicles in its last group (see
+	// steady): fixed holds every load but the last group's, unit one vehicle of the last
+	// group from its front, r0 where that group begins, unitLen its vehicles' length, count
+	// the number of them in this train, and tailM the offset beyond which the train is a
+	// plain repetition of that vehicle (the largest of r0 and the parts' ends).
+	fixed, unit        []item
+	r0, unitLen, tailM float64
+	count              int
 }
 
 // item is an axle (w = load, kN) or one end of a distributed part (w = +q at its front end,
@@ -60,13 +69,17 @@ func PrepareTrain(t *traffic.Train) (*Train, error) {
 		return nil, fmt.Errorf("train %q is a uniform load of variable length, not a passage of one train: %w", t.Name, ErrNotAPassage)
 	}
 	tr := &Train{name: t.Name}
-	count := 0
 	if n := len(t.Consist); n > 0 {
-		count = t.Consist[n-1].Max
+		last := t.Consist[n-1]
+		tr.count, tr.r0, tr.unitLen = last.Max, t.FixedLengthM(), last.Vehicle.LengthM
+		for _, a := range t.Axles(0) {
+			tr.fixed = append(tr.fixed, item{d: a.AtM, w: a.LoadKN})
+		}
+		for _, a := range last.Vehicle.Axles {
+			tr.unit = append(tr.unit, item{d: a.AtM, w: a.LoadKN})
+		}
 	}
-	for _, a := range t.Axles(count) {
-		tr.items = append(tr.items, item{d: a.AtM, w: a.LoadKN})
-	}
+	tr.tailM = tr.r0
 	for i, p := range t.Parts {
 		switch {
 		case p.Mode != traffic.Whole:
@@ -74,22 +87,36 @@ func PrepareTrain(t *traffic.Train) (*Train, error) {
 		case math.IsInf(p.FromM, 0) || math.IsInf(p.ToM, 0):
 			return nil, fmt.Errorf("train %q, parts[%d]: a part reaching indefinitely ahead or behind never leaves the bridge empty: %w", t.Name, i, ErrNotAPassage)
 		}
-		tr.items = append(tr.items, item{d: p.FromM, w: p.QKNPerM, part: true}, item{d: p.ToM, w: -p.QKNPerM, part: true})
+		tr.fixed = append(tr.fixed, item{d: p.FromM, w: p.QKNPerM, part: true}, item{d: p.ToM, w: -p.QKNPerM, part: true})
+		tr.tailM = max(tr.tailM, p.FromM, p.ToM)
 	}
+	tr.items = tr.itemsWith(tr.count, nil)
 	if len(tr.items) == 0 {
 		return nil, fmt.Errorf("train %q has no loads: %w", t.Name, ErrNotAPassage)
 	}
-	slices.SortStableFunc(tr.items, func(a, b item) int {
-		switch {
-		case a.d < b.d:
-			return -1
-		case a.d > b.d:
-			return 1
+	for _, it := range tr.items {
+		if !it.part {
+			tr.totalKN += it.w
 		}
-		return 0
-	})
-	tr.lengthM = tr.items[len(tr.items)-1].d - tr.items[0].d
+	}
+	for _, p := range t.Parts {
+		tr.totalKN += p.QKNPerM * (p.ToM - p.FromM)
+	}
 	return tr, nil
+}
+
+// itemsWith lays out the train with n vehicles in its last group, ordered by offset.
+func (tr *Train) itemsWith(n int, dst []item) []item {
+	dst = append(dst[:0], tr.fixed...)
+	for v := range n {
+		front := tr.r0 + float64(v)*tr.unitLen
+		for _, it := range tr.unit {
+			it.d += front
+			dst = append(dst, it)
+		}
+	}
+	slices.SortStableFunc(dst, func(a, b item) int { return cmp.Compare(a.d, b.d) })
+	return dst
 }
 
 // Name is the train's name.
@@ -104,6 +131,8 @@ func (tr *Train) Loads() int { return len(tr.items) }
 // kept, for each direction. It is read-only and safe for concurrent use.
 type Line struct {
 	x0, xl float64
+	// maxAbs is the largest ordinate's size.
+	maxAbs float64
 	// dir[d] is the line as a train running in direction d sees it, mirrored for right to
 	// left so that every passage runs left to right.
 	dir [2]kinks
@@ -135,6 +164,9 @@ func NewLine(x, eta []float64) (*Line, error) {
 	}
 	n := len(x)
 	l := &Line{x0: x[0], xl: x[n-1]}
+	for _, e := range eta {
+		l.maxAbs = max(l.maxAbs, math.Abs(e))
+	}
 	l.dir[0] = kinksOf(x, eta)
 	mx, meta := make([]float64, n), make([]float64, n)
 	for j := range x {
@@ -210,6 +242,10 @@ type Calculator struct {
 	turn   []float64
 	cycles []Cycle
 	stack  []float64
+	// passages are the current member's passages counted so far (valid within one Check),
+	// shorter the trains of fewer vehicles made for them (kept across calls).
+	passages []passageCycles
+	shorter  []shorterTrain
 }
 
 // History appends to dst[:0] the force history of one passage of tr over l in direction dir,
@@ -224,32 +260,57 @@ type Calculator struct {
 // Positions are those of the train's front in the coordinates the train sees: for right to
 // left, measured from x[last] leftwards and shifted by x[0] (the mirrored line's).
 func (c *Calculator) History(l *Line, tr *Train, dir Direction, dst []Point) []Point {
+	dst = dst[:0]
+	c.walk(l, tr, dir, func(s, v float64) { dst = append(dst, Point{s, v}) })
+	return dst
+}
+
+// TurningOf appends to dst[:0] the turning points of one passage (Turning of History, with the
+// tolerance 1e-9 of the largest force the train could cause on the line, PassageTol) without
+// keeping the history: what the fatigue check needs of a passage.
+func (c *Calculator) TurningOf(l *Line, tr *Train, dir Direction, dst []float64) []float64 {
+	var t turning
+	t.tol, t.dst = PassageTol(l, tr), dst[:0]
+	c.walk(l, tr, dir, t.push)
+	return t.dst
+}
+
+// PassageTol is 1e-9 of the largest force tr could cause on l: every load at the line's
+// largest ordinate.
+func PassageTol(l *Line, tr *Train) float64 {
+	return 1e-9 * tr.totalKN * l.maxAbs
+}
+
+// walk visits the history of one passage (see History), calling emit with each point.
+func (c *Calculator) walk(l *Line, tr *Train, dir Direction, emit func(s, v float64)) {
 	k := &l.dir[0]
 	if dir == RightToLeft {
 		k = &l.dir[1]
 	}
 	c.buildEvents(k, tr)
-	dst = dst[:0]
 	ev := c.events
 	if len(ev) == 0 {
-		return append(dst, Point{l.x0, 0})
+		emit(l.x0, 0)
+		return
 	}
 	// Before the first event no load has reached the bridge.
-	dst = append(dst, Point{ev[0].s - 1, 0})
+	emit(ev[0].s-1, 0)
 	var v, g, cc float64 // value, slope and curvature in s
 	sPrev := ev[0].s
+	last := int32(len(k.x) - 1)
+	jumps := k.jump[0] != 0 || k.jump[last] != 0
 	// At the top of each iteration v, g, cc hold the force and its derivatives with the front
-	// at sPrev, every event before g0 applied, and dst holds every turning point up to sPrev.
+	// at sPrev, every event before g0 applied, and every point up to sPrev is emitted.
 	for g0 := 0; g0 < len(ev); {
 		s := ev[g0].s
-		g1 := g0
+		g1 := g0 + 1
 		for g1 < len(ev) && ev[g1].s == s {
 			g1++
 		}
 		if dt := s - sPrev; dt > 0 {
 			if cc != 0 {
 				if t := -g / cc; t > 0 && t < dt {
-					dst = append(dst, Point{sPrev + t, v + g*t/2}) // v + g t + cc t²/2 at t = -g/cc
+					emit(sPrev+t, v+g*t/2) // v + g t + cc t²/2 at t = -g/cc
 				}
 				v += g*dt + cc*dt*dt/2
 				g += cc * dt
@@ -257,28 +318,29 @@ func (c *Calculator) History(l *Line, tr *Train, dir Direction, dst []Point) []P
 				v += g * dt
 			}
 		}
-		dst = append(dst, Point{s, v})
-		// Axles arriving at the left bearing: the value with them on it; then those leaving at
-		// the right bearing: the value after.
-		last := int32(len(k.x) - 1)
-		arrive, leave := false, false
-		for _, e := range ev[g0:g1] {
-			if it := tr.items[e.it]; !it.part && e.j == 0 && k.jump[0] != 0 {
-				v += it.w * k.jump[0]
-				arrive = true
+		emit(s, v)
+		if jumps {
+			// Axles arriving at the left bearing: the value with them on it; then those
+			// leaving at the right bearing: the value after.
+			arrive, leave := false, false
+			for _, e := range ev[g0:g1] {
+				if it := tr.items[e.it]; !it.part && e.j == 0 && k.jump[0] != 0 {
+					v += it.w * k.jump[0]
+					arrive = true
+				}
 			}
-		}
-		if arrive {
-			dst = append(dst, Point{s, v})
-		}
-		for _, e := range ev[g0:g1] {
-			if it := tr.items[e.it]; !it.part && e.j == last && k.jump[last] != 0 {
-				v += it.w * k.jump[last]
-				leave = true
+			if arrive {
+				emit(s, v)
 			}
-		}
-		if leave {
-			dst = append(dst, Point{s, v})
+			for _, e := range ev[g0:g1] {
+				if it := tr.items[e.it]; !it.part && e.j == last && k.jump[last] != 0 {
+					v += it.w * k.jump[last]
+					leave = true
+				}
+			}
+			if leave {
+				emit(s, v)
+			}
 		}
 		for _, e := range ev[g0:g1] {
 			it := tr.items[e.it]
@@ -293,7 +355,7 @@ func (c *Calculator) History(l *Line, tr *Train, dir Direction, dst []Point) []P
 		g0 = g1
 	}
 	// After the last event every load has left: the value is zero but for rounding.
-	return append(dst, Point{sPrev + 1, 0})
+	emit(sPrev+1, 0)
 }
 
 // buildEvents lists in c.events every position where an item reaches a kink, in order. The
@@ -328,30 +390,39 @@ func (c *Calculator) buildEvents(k *kinks, tr *Train) {
 // count cycles of a size far below any cut-off. Pass tol = 1e-9 times the largest force (see
 // TurningTol); 0 keeps every reversal. It appends to dst[:0].
 func Turning(h []Point, tol float64, dst []float64) []float64 {
-	dst = dst[:0]
-	if len(h) == 0 {
-		return dst
+	t := turning{tol: tol, dst: dst[:0]}
+	for _, p := range h {
+		t.push(p.HeadM, p.Value)
 	}
-	dst = append(dst, h[0].Value)
-	dir := 0.0 // +1 rising, -1 falling, 0 not yet moved by more than tol
-	for _, p := range h[1:] {
-		v := p.Value
-		n := len(dst)
-		last := dst[n-1]
-		switch {
-		case dir == 0:
-			if math.Abs(v-last) > tol {
-				dir = math.Copysign(1, v-last)
-				dst = append(dst, v)
-			}
-		case (v-last)*dir >= 0:
-			dst[n-1] = v // on in the same sense: a further peak or valley
-		case math.Abs(v-last) > tol:
-			dir = -dir
-			dst = append(dst, v)
+	return t.dst
+}
+
+// turning gathers turning points one value at a time (see Turning).
+type turning struct {
+	tol float64
+	dst []float64
+	dir float64 // +1 rising, -1 falling, 0 not yet moved by more than tol
+}
+
+func (t *turning) push(_, v float64) {
+	n := len(t.dst)
+	if n == 0 {
+		t.dst = append(t.dst, v)
+		return
+	}
+	last := t.dst[n-1]
+	switch {
+	case t.dir == 0:
+		if math.Abs(v-last) > t.tol {
+			t.dir = math.Copysign(1, v-last)
+			t.dst = append(t.dst, v)
 		}
+	case (v-last)*t.dir >= 0:
+		t.dst[n-1] = v // on in the same sense: a further peak or valley
+	case math.Abs(v-last) > t.tol:
+		t.dir = -t.dir
+		t.dst = append(t.dst, v)
 	}
-	return dst
 }
 
 // TurningTol is the tolerance Turning takes for a history: 1e-9 of its largest force.
