@@ -48,7 +48,11 @@ type FatigueSettings struct {
 
 // fatigueSettings prepares the plan's fatigue settings; nil where the plan has none.
 func (p Plan) fatigueSettings() (*FatigueSettings, error) {
-	fp := p.Fatigue
+	return p.Fatigue.Settings()
+}
+
+// Settings checks the fatigue plan and prepares its trains; nil for a nil plan.
+func (fp *FatiguePlan) Settings() (*FatigueSettings, error) {
 	if fp == nil {
 		return nil, nil
 	}

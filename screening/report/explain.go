@@ -190,6 +190,7 @@ func ExplainIn(w io.Writer, run Run, b Bridge, member string, u units.System) er
 	if m.SenseProposed != "" {
 		p(" (%s)", m.SenseProposed)
 	}
+	explainFatigue(p, run, b, m, lines.X, eta, t.SpanM())
 	p("\n\nWhy flagged\n")
 	if rs := reasons(run, m, u); len(rs) > 0 {
 		for _, s := range rs {
