@@ -3,10 +3,12 @@ package main
 import (
 	"fmt"
 	"io"
+	"text/tabwriter"
 
 	"github.com/trussfleet/trussfleet/internal/safetext"
 	"github.com/trussfleet/trussfleet/screening/fatigue"
 	"github.com/trussfleet/trussfleet/screening/report"
+	"github.com/trussfleet/trussfleet/store"
 )
 
 // printFatigueNotes tells, under a priority list, which bridges' ranks fatigue sets (their
@@ -45,4 +47,31 @@ func printFatigueNotes(w io.Writer, rows []report.BridgeRow, counts map[string]i
 	if noData > 0 {
 		fmt.Fprintf(w, "%s here had no area or fatigue category and were not checked for fatigue.\n", plural(noData, "member"))
 	}
+}
+
+// printFatigueChanges lists, under a runs diff, the bridges whose shortest remaining fatigue
+// life changed by a tenth of a year or more (or appeared or went), in run B's order.
+func printFatigueChanges(w io.Writer, ids [2]int64, changes []store.BridgeChange) {
+	life := func(v *float64) string {
+		if v == nil {
+			return "—"
+		}
+		return fmt.Sprintf("%.1f", *v)
+	}
+	var rows []store.BridgeChange
+	for _, c := range changes {
+		if life(c.LifeA) != life(c.LifeB) {
+			rows = append(rows, c)
+		}
+	}
+	if len(rows) == 0 {
+		return
+	}
+	fmt.Fprintf(w, "\nShortest remaining fatigue life changed (years under the proposed traffic; — none runs out or not checked):\n")
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprintf(tw, "bridge\tname\tlife %d\tlife %d\n", ids[0], ids[1])
+	for _, c := range rows {
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\n", safetext.Cell(c.BridgeID), safetext.Cell(c.Name), life(c.LifeA), life(c.LifeB))
+	}
+	_ = tw.Flush()
 }
