@@ -26,32 +26,22 @@ func explainFatigue(p func(string, ...any), run Run, b Bridge, m Member, xs, eta
 		p("  not checked: the inventory holds no area or no fatigue category for %s (counted, not flagged)", m.Label)
 		return
 	}
-	set, err := run.Fatigue.Settings()
+	rc, err := recheckFatigue(run, b, m, xs, eta, spanM)
 	if err != nil {
-		p("  (the run's fatigue settings cannot be rebuilt: %s)", safetext.Terminal(err.Error()))
+		p("  (%s)", safetext.Terminal(err.Error()))
 		return
 	}
-	curve, err := fatigue.NewCurve(*f.CategoryMPa, set.GammaMf)
-	fl, lerr := fatigue.NewLine(xs, eta)
-	if err != nil || lerr != nil {
-		p("  (the member's detail cannot be rebuilt)")
-		return
-	}
+	set, curve, r := rc.set, rc.curve, rc.result
 	p("  detail category %s MPa at 2e6 cycles, gamma_Mf %s: constant-amplitude limit %s MPa (5e6), cut-off %s MPa (1e8);\n",
 		num(curve.CategoryMPa, 1), num(set.GammaMf, 2), num(curve.LimitMPa(), 1), num(curve.CutOffMPa(), 1))
 	p("  N = 2e6 (dC / (gamma_Mf dS))^3 above the limit, 5e6 (dD / (gamma_Mf dS))^5 down to the cut-off, none below\n")
 	p("  area %s mm²; stress = force x track share x dynamic factor / area\n", num(*f.AreaMM2, 0))
-	shares := make([]float64, max(b.Tracks, 1))
-	for i := range shares {
-		shares[i] = b.TrussShare
-	}
-	var calc fatigue.Calculator
 	type line struct {
 		proposed bool
 		text     string
 	}
 	var lines []line
-	keep := func(proposed bool, ps fatigue.Passage) {
+	for _, ps := range rc.passages {
 		cs := append([]fatigue.Cycle(nil), ps.Cycles...)
 		sort.Slice(cs, func(i, j int) bool { return cs[i].Range > cs[j].Range })
 		var top []string
@@ -62,15 +52,9 @@ func explainFatigue(p func(string, ...any), run Run, b Bridge, m Member, xs, eta
 		for _, c := range ps.Cycles {
 			total += c.Count
 		}
-		lines = append(lines, line{proposed, fmt.Sprintf("    %s, %s: %s a year; %s MPa per kN; %s cycles a passage, largest %s; damage %s a passage, %s a year",
+		lines = append(lines, line{ps.proposed, fmt.Sprintf("    %s, %s: %s a year; %s MPa per kN; %s cycles a passage, largest %s; damage %s a passage, %s a year",
 			safetext.Terminal(ps.Train), ps.Direction, num(ps.PerYear, 0), num(ps.MPaPerKN, 4), num(total, 1),
 			strings.Join(top, ", "), sci(ps.Damage), sci(ps.Damage*ps.PerYear))})
-	}
-	r, err := calc.Check(fatigue.Member{Line: fl, AreaMM2: *f.AreaMM2, Curve: curve},
-		fatigue.Bridge{SpanM: spanM, YearBuilt: b.YearBuilt, Shares: shares}, &set.Settings, set.Existing, set.Proposed, keep)
-	if err != nil {
-		p("  (%s)", safetext.Terminal(err.Error()))
-		return
 	}
 	for _, sc := range []struct {
 		name     string
@@ -114,6 +98,55 @@ func explainFatigue(p func(string, ...any), run Run, b Bridge, m Member, xs, eta
 		}
 		p("; planning horizon %s years", num(set.HorizonYears, 0))
 	}
+}
+
+// fatigueRecheck is a member's fatigue check done again from the run's plan, with every
+// passage kept (histories and cycles copied).
+type fatigueRecheck struct {
+	set      *screening.FatigueSettings
+	curve    fatigue.Curve
+	result   fatigue.Result
+	passages []keptPassage
+}
+
+type keptPassage struct {
+	fatigue.Passage
+	proposed bool
+}
+
+// recheckFatigue runs a member's fatigue check again as the run did (its plan's settings and
+// trains, the bridge's year built and shares, the stored detail).
+func recheckFatigue(run Run, b Bridge, m Member, xs, eta []float64, spanM float64) (*fatigueRecheck, error) {
+	f := m.Fatigue
+	if run.Fatigue == nil || f.CategoryMPa == nil || f.AreaMM2 == nil {
+		return nil, fmt.Errorf("no fatigue check for member %s", m.Label)
+	}
+	set, err := run.Fatigue.Settings()
+	if err != nil {
+		return nil, fmt.Errorf("the run's fatigue settings cannot be rebuilt: %w", err)
+	}
+	curve, err := fatigue.NewCurve(*f.CategoryMPa, set.GammaMf)
+	if err != nil {
+		return nil, err
+	}
+	fl, err := fatigue.NewLine(xs, eta)
+	if err != nil {
+		return nil, err
+	}
+	shares := make([]float64, max(b.Tracks, 1))
+	for i := range shares {
+		shares[i] = b.TrussShare
+	}
+	rc := &fatigueRecheck{set: set, curve: curve}
+	keep := func(proposed bool, ps fatigue.Passage) {
+		ps.History = append([]fatigue.Point(nil), ps.History...)
+		ps.Cycles = append([]fatigue.Cycle(nil), ps.Cycles...)
+		rc.passages = append(rc.passages, keptPassage{ps, proposed})
+	}
+	var calc fatigue.Calculator
+	rc.result, err = calc.Check(fatigue.Member{Line: fl, AreaMM2: *f.AreaMM2, Curve: curve},
+		fatigue.Bridge{SpanM: spanM, YearBuilt: b.YearBuilt, Shares: shares}, &set.Settings, set.Existing, set.Proposed, keep)
+	return rc, err
 }
 
 // sci writes a damage (a small Miner sum) to 4 significant digits.

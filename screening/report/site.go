@@ -443,6 +443,8 @@ type section struct {
 	Captions            []string
 	Calc                []calcView
 	Notes               []string
+	// Fatigue draws a fatigue-flagged member's stress history and ranges (nil: none).
+	Fatigue *fatigueChart
 }
 
 type calcView struct {
@@ -559,6 +561,7 @@ func memberSection(run Run, b Bridge, t *truss.Truss, lines *analysis.Lines, i i
 		m.Label, signedQty(u, units.Length, clean(pos)), signedQty(u, units.Length, clean(neg)), lu, qty(u, units.PerLength, b.DeadLoadKNPerM), u.Name(units.PerLength),
 		signedQty(u, units.Length, clean(pos+neg)), lu, signedQty(u, units.Force, analysis.DeadLoad(lines.X, eta, b.DeadLoadKNPerM)), fu))
 	s.Captions = append(s.Captions, placementText(ex, tr, ob, lines.X, eta, sense, b.liveShare(), u))
+	s.Fatigue = drawFatigue(run, b, m, lines.X, eta, t.SpanM())
 	return s
 }
 
