@@ -48,8 +48,8 @@ func axleTrain(name string, spacingM float64, loads ...float64) *traffic.Train {
 	return &traffic.Train{Name: name, Consist: []traffic.Group{{Vehicle: v, Min: 1, Max: 1}}}
 }
 
-func passageOf(t *testing.T, x, eta []float64, tr *traffic.Train, dir Direction) ([]float64, []Cycle) {
-	t.Helper()
+// prepared is the line and the train prepared, failing t on an error.
+func prepared(t testing.TB, x, eta []float64, tr *traffic.Train) (*Line, *Train) {
 	l, err := NewLine(x, eta)
 	if err != nil {
 		t.Fatal(err)
@@ -58,6 +58,12 @@ func passageOf(t *testing.T, x, eta []float64, tr *traffic.Train, dir Direction)
 	if err != nil {
 		t.Fatal(err)
 	}
+	return l, p
+}
+
+func passageOf(t *testing.T, x, eta []float64, tr *traffic.Train, dir Direction) ([]float64, []Cycle) {
+	t.Helper()
+	l, p := prepared(t, x, eta, tr)
 	var c Calculator
 	h := c.History(l, p, dir, nil)
 	tp := Turning(h, TurningTol(h), nil)

@@ -100,14 +100,7 @@ func TestHistoryAgreesWithEnvelopeAndBruteForce(t *testing.T) {
 	rapid.Check(t, func(t *rapid.T) {
 		x, eta := genLine(t)
 		tr := genPassageTrain(t)
-		l, err := NewLine(x, eta)
-		if err != nil {
-			t.Fatal(err)
-		}
-		p, err := PrepareTrain(tr)
-		if err != nil {
-			t.Fatal(err)
-		}
+		l, p := prepared(t, x, eta, tr)
 		env, err := envelope.Compute(x, [][]float64{eta}, tr, envelope.Options{})
 		if err != nil {
 			t.Fatal(err)
