@@ -49,7 +49,7 @@ func axleTrain(name string, spacingM float64, loads ...float64) *traffic.Train {
 }
 
 // prepared is the line and the train prepared, failing t on an error.
-func prepared(t testing.TB, x, eta []float64, tr *traffic.Train) (*Line, *Train) {
+func prepared(t interface{ Fatal(...any) }, x, eta []float64, tr *traffic.Train) (*Line, *Train) {
 	l, err := NewLine(x, eta)
 	if err != nil {
 		t.Fatal(err)
