@@ -99,7 +99,8 @@ func (c *Calculator) passage(l *Line, tr *Train, dir Direction, spanM float64) *
 		}
 		return dst
 	}
-	if n >= tr.count {
+	if 2*n+1 >= tr.count {
+		// The two shorter trains would cost more than the train itself.
 		p.a = count(tr, p.a)
 		return p
 	}
