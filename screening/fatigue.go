@@ -146,8 +146,7 @@ func trackShares(b Bridge) []float64 {
 }
 
 // checkFatigue runs the fatigue check of every member with an area and a category (where the
-// run checks fatigue) and counts the outcomes in res.Fatigue. A category the check cannot
-// read fails the bridge, naming the member.
+// run checks fatigue) and counts the outcomes in res.Fatigue.
 func (w *Screener) checkFatigue(b Bridge, s *Settings, spanM float64, lines *analysis.Lines, res *Result) error {
 	f := s.Fatigue
 	if f == nil {
@@ -161,11 +160,11 @@ func (w *Screener) checkFatigue(b Bridge, s *Settings, spanM float64, lines *ana
 		r := &results[i]
 		*r = fatigue.Result{Status: fatigue.NoData}
 		res.Members[i].Fatigue = r
+		// A category that is no EN 1993-1-9 detail category (an owner's own, or another
+		// code's letter) is kept in the inventory as written and not checked, as a member
+		// without one: the check has no S-N curve for it.
 		cat, has, err := fatigue.ParseCategory(inv.FatigueCategory, f.RivetedCategoryMPa)
-		if err != nil {
-			return fmt.Errorf("member %s, fatigue_category: %w", l.Label, err)
-		}
-		if !has || !(inv.AreaMM2 > 0) || math.IsInf(inv.AreaMM2, 0) {
+		if err != nil || !has || !(inv.AreaMM2 > 0) || math.IsInf(inv.AreaMM2, 0) {
 			sum.NoData++
 			continue
 		}
