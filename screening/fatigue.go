@@ -155,6 +155,9 @@ func (w *Screener) checkFatigue(b Bridge, s *Settings, spanM float64, lines *ana
 	sum := FatigueSummary{FlagCounts: map[fatigue.Flag]int{}, Shortest: -1, ShortestYears: math.Inf(1)}
 	fb := fatigue.Bridge{SpanM: spanM, YearBuilt: b.YearBuilt, Shares: trackShares(b)}
 	results := make([]fatigue.Result, len(lines.Members))
+	// The lines built so far: a member whose line is another's, or its mirror image (a
+	// symmetric truss), takes that line, so that the passages counted over one serve both.
+	var built []*fatigue.Line
 	for i, l := range lines.Members {
 		inv := b.Members[l.Label]
 		r := &results[i]
@@ -176,6 +179,16 @@ func (w *Screener) checkFatigue(b Bridge, s *Settings, spanM float64, lines *ana
 		if err != nil {
 			return fmt.Errorf("member %s: %w", l.Label, err)
 		}
+		for _, o := range built {
+			if same, mirror := o.Matches(line); same {
+				line = o
+				break
+			} else if mirror {
+				line = o.Mirror()
+				break
+			}
+		}
+		built = append(built, line)
 		if *r, err = w.fcalc.Check(fatigue.Member{Line: line, AreaMM2: inv.AreaMM2, Curve: curve}, fb, &f.Settings, f.Existing, f.Proposed, nil); err != nil {
 			return fmt.Errorf("member %s, fatigue: %w", l.Label, err)
 		}

@@ -6,6 +6,8 @@ import (
 	"testing"
 
 	"github.com/trussfleet/trussfleet/screening"
+	"github.com/trussfleet/trussfleet/screening/analysis"
+	"github.com/trussfleet/trussfleet/screening/fatigue"
 	"github.com/trussfleet/trussfleet/screening/rating"
 	"github.com/trussfleet/trussfleet/screening/truss"
 )
@@ -71,5 +73,45 @@ func TestFatigueThroughScreen(t *testing.T) {
 	b.Members["L0-L1"] = rating.Member{AreaMM2: 2000, FatigueCategory: "E'"}
 	if res := screening.ScreenBridge(b, s); res.Err != nil || res.Fatigue.NoData != len(res.Members)-1 {
 		t.Fatalf("another code's category: %v, %+v", res.Err, res.Fatigue)
+	}
+}
+
+// TestFatigueMirrorMembers: in a symmetric truss a member and its mirror image share their
+// passages (the one's right-to-left is the other's left-to-right); Screen's result for the
+// mirror member equals the check run on its own line alone (screening/fatigue directly).
+func TestFatigueMirrorMembers(t *testing.T) {
+	s, err := fatiguePlan(300, 400).Settings()
+	if err != nil {
+		t.Fatal(err)
+	}
+	p := truss.Params{Type: "pratt", SpanM: 48, Panels: 8, DepthM: 6}
+	m := rating.Member{AreaMM2: 2000, FatigueCategory: "71"}
+	b := screening.Bridge{ID: "F-2", Truss: p, TrussShare: 0.5, Tracks: 1, YearBuilt: 1950,
+		Members: map[string]rating.Member{"L2-L3": m, "L5-L6": m, "U1-L2": m, "L6-U7": m, "L2-U2": m, "L6-U6": m}}
+	res := screening.ScreenBridge(b, s)
+	if res.Err != nil {
+		t.Fatal(res.Err)
+	}
+	tr, _ := truss.Build(p)
+	lines, err := analysis.InfluenceLines(tr, analysis.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	curve, _ := fatigue.NewCurve(71, 1)
+	for i, l := range lines.Members {
+		if _, ok := b.Members[l.Label]; !ok {
+			continue
+		}
+		line, _ := fatigue.NewLine(lines.X, l.Ordinates)
+		var c fatigue.Calculator
+		want, err := c.Check(fatigue.Member{Line: line, AreaMM2: 2000, Curve: curve}, fatigue.Bridge{SpanM: 48, YearBuilt: 1950, Shares: []float64{0.5}},
+			&s.Fatigue.Settings, s.Fatigue.Existing, s.Fatigue.Proposed, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		got := res.Members[i].Fatigue
+		if math.Abs(got.PerYearProposed-want.PerYearProposed) > 1e-12*want.PerYearProposed || math.Abs(got.PerYearExisting-want.PerYearExisting) > 1e-12*want.PerYearExisting {
+			t.Errorf("%s: damage a year %v, %v in Screen; %v, %v on its own line", l.Label, got.PerYearExisting, got.PerYearProposed, want.PerYearExisting, want.PerYearProposed)
+		}
 	}
 }

@@ -221,7 +221,6 @@ type Passage struct {
 // keep, when not nil, receives every passage computed (for the report); the histories and
 // cycles it holds are the Calculator's until the next call unless keep copies them.
 func (c *Calculator) Check(m Member, b Bridge, s *Settings, existing, proposed []Traffic, keep func(proposed bool, p Passage)) (Result, error) {
-	c.passages = c.passages[:0] // cycles are the member's own
 	r := Result{Status: Damaged, CategoryMPa: m.Curve.CategoryMPa, AreaMM2: m.AreaMM2}
 	var err error
 	r.PerYearExisting, r.MaxRangeExistingMPa, _, err = c.yearly(m, b, s, existing, keep, false)

@@ -135,7 +135,38 @@ type Line struct {
 	maxAbs float64
 	// dir[d] is the line as a train running in direction d sees it, mirrored for right to
 	// left so that every passage runs left to right.
-	dir [2]kinks
+	dir [2]*kinks
+}
+
+// Mirror is the line of the mirror-image member: what a train running one way does to l, it
+// does running the other way to the mirror. It shares l's storage, so that passages counted
+// over one serve the other (Calculator keeps them by the line's kinks).
+func (l *Line) Mirror() *Line {
+	m := *l
+	m.dir[0], m.dir[1] = l.dir[1], l.dir[0]
+	return &m
+}
+
+// Matches reports whether o, read left to right, is l read left to right (same) or right to
+// left (mirror), to within 1e-9 of the larger line's largest ordinate and of its span: a
+// member of a symmetric truss and its mirror image, or two members with the same line.
+func (l *Line) Matches(o *Line) (same, mirror bool) {
+	tol := 1e-9 * max(l.maxAbs, o.maxAbs, math.SmallestNonzeroFloat64)
+	xtol := 1e-9 * max(l.xl-l.x0, 1)
+	eq := func(a, b *kinks) bool {
+		if len(a.x) != len(b.x) {
+			return false
+		}
+		for j := range a.x {
+			// slopes are ordinates per metre: their tolerance is the ordinates' over the span
+			if math.Abs(a.x[j]-b.x[j]) > xtol || math.Abs(a.jump[j]-b.jump[j]) > tol ||
+				math.Abs(a.slope[j]-b.slope[j]) > tol || math.Abs(a.eta0[j]-b.eta0[j]) > tol || math.Abs(a.area[j]-b.area[j]) > tol*max(l.xl-l.x0, 1) {
+				return false
+			}
+		}
+		return true
+	}
+	return eq(l.dir[0], o.dir[0]), eq(l.dir[0], o.dir[1])
 }
 
 // kinks are a line's vertices where its value jumps (at a bearing with a non-zero ordinate) or
@@ -167,13 +198,15 @@ func NewLine(x, eta []float64) (*Line, error) {
 	for _, e := range eta {
 		l.maxAbs = max(l.maxAbs, math.Abs(e))
 	}
-	l.dir[0] = kinksOf(x, eta)
+	k0 := kinksOf(x, eta)
+	l.dir[0] = &k0
 	mx, meta := make([]float64, n), make([]float64, n)
 	for j := range x {
 		mx[j] = x[0] + x[n-1] - x[n-1-j]
 		meta[j] = eta[n-1-j]
 	}
-	l.dir[1] = kinksOf(mx, meta)
+	k1 := kinksOf(mx, meta)
+	l.dir[1] = &k1
 	return l, nil
 }
 
@@ -245,6 +278,7 @@ type Calculator struct {
 	// passages are the current member's passages counted so far (valid within one Check),
 	// shorter the trains of fewer vehicles made for them (kept across calls).
 	passages []passageCycles
+	kept     map[passageKey]int // index in passages by train and line
 	shorter  []shorterTrain
 }
 
@@ -283,9 +317,9 @@ func PassageTol(l *Line, tr *Train) float64 {
 
 // walk visits the history of one passage (see History), calling emit with each point.
 func (c *Calculator) walk(l *Line, tr *Train, dir Direction, emit func(s, v float64)) {
-	k := &l.dir[0]
+	k := l.dir[0]
 	if dir == RightToLeft {
-		k = &l.dir[1]
+		k = l.dir[1]
 	}
 	c.buildEvents(k, tr)
 	ev := c.events

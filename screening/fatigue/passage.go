@@ -8,7 +8,7 @@ import "math"
 // beyond a's (extra): see steady.
 type passageCycles struct {
 	tr       *Train
-	dir      Direction
+	k        *kinks // the line as the train sees it
 	a, b     []Cycle
 	extra    float64
 	maxRange float64
@@ -71,25 +71,53 @@ func (c *Calculator) withCount(tr *Train, n int) *Train {
 	return &t
 }
 
+type passageKey struct {
+	tr *Train
+	k  *kinks
+}
+
+// forget lets go of the passages kept (and of the lines they hold).
+func (c *Calculator) forget() {
+	clear(c.passages)
+	c.passages = c.passages[:0]
+	if c.kept == nil {
+		c.kept = map[passageKey]int{}
+	}
+	clear(c.kept)
+}
+
+// maxKeptPassages bounds the passages a Calculator keeps: a bridge's members times its
+// trains and directions stay below it (a 16-panel truss, 62 members, 4 trains both ways).
+const maxKeptPassages = 512
+
 type shorterTrain struct {
 	of, t *Train
 }
 
 // passage gives the cycles of a passage of tr over l in direction dir, computed once per
-// member (Check resets the cache): a train in both scenarios is counted once.
+// line as the train sees it (kept by the line's kinks, which the cache holds, so that their
+// storage is never reused while it is kept): a train in both scenarios is counted once, and
+// a member of a symmetric truss (Line.Mirror) counts its mirror's passages the other way.
 func (c *Calculator) passage(l *Line, tr *Train, dir Direction, spanM float64) *passageCycles {
-	for i := range c.passages {
-		if p := &c.passages[i]; p.tr == tr && p.dir == dir {
-			return p
-		}
+	k := l.dir[0]
+	if dir == RightToLeft {
+		k = l.dir[1]
 	}
+	key := passageKey{tr, k}
+	if i, ok := c.kept[key]; ok {
+		return &c.passages[i]
+	}
+	if len(c.passages) >= maxKeptPassages || c.kept == nil {
+		c.forget()
+	}
+	c.kept[key] = len(c.passages)
 	if len(c.passages) < cap(c.passages) {
 		c.passages = c.passages[:len(c.passages)+1]
 	} else {
 		c.passages = append(c.passages, passageCycles{})
 	}
 	p := &c.passages[len(c.passages)-1]
-	p.tr, p.dir, p.extra, p.maxRange = tr, dir, 0, 0
+	p.tr, p.k, p.extra, p.maxRange = tr, k, 0, 0
 	n := tr.steady(spanM)
 	count := func(t *Train, dst []Cycle) []Cycle {
 		c.turn = c.TurningOf(l, t, dir, c.turn)
