@@ -78,7 +78,9 @@ type passageKey struct {
 
 // forget lets go of the passages kept (and of the lines they hold).
 func (c *Calculator) forget() {
-	clear(c.passages)
+	for i := range c.passages {
+		c.passages[i].tr, c.passages[i].k = nil, nil // their cycles' storage stays for reuse
+	}
 	c.passages = c.passages[:0]
 	if c.kept == nil {
 		c.kept = map[passageKey]int{}
