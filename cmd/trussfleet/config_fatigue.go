@@ -83,6 +83,19 @@ func (s ScreenConfig) validateFatigue() []error {
 	}
 	if s.Fatigue.Year != 0 && (s.Fatigue.Year < 1800 || s.Fatigue.Year > 2300) {
 		bad("fatigue.year", "must be 0 (this year) or a year from 1800 to 2300, got %d", s.Fatigue.Year)
+	} else if with > 0 {
+		f := s.Fatigue
+		set := fatigue.Settings{GammaMf: f.GammaMf, RivetedCategoryMPa: f.RivetedCategory, DynamicFactor: f.DynamicFactor,
+			Year: f.Year, DefaultYearBuilt: f.DefaultYearBuilt, HorizonYears: f.HorizonYears, RiseFactor: f.RiseFactor}
+		if set.Year == 0 {
+			set.Year = time.Now().UTC().Year()
+		}
+		for _, h := range f.History {
+			set.History = append(set.History, fatigue.Period{FromYear: h.From, Factor: h.Factor})
+		}
+		if err := set.Validate(); err != nil {
+			errs = append(errs, fmt.Errorf("configuration key %w", err))
+		}
 	}
 	return errs
 }

@@ -59,26 +59,26 @@ type Settings struct {
 func (s *Settings) Validate() error {
 	switch {
 	case !(s.GammaMf >= 1 && s.GammaMf <= 2):
-		return fmt.Errorf("fatigue gamma_mf must be from 1 to 2, got %v", s.GammaMf)
+		return fmt.Errorf("fatigue.gamma_mf: must be from 1 to 2, got %v", s.GammaMf)
 	case !(s.RivetedCategoryMPa > 0 && s.RivetedCategoryMPa <= 200):
-		return fmt.Errorf("fatigue riveted_category must be a stress range from 0 to 200 MPa, got %v", s.RivetedCategoryMPa)
+		return fmt.Errorf("fatigue.riveted_category: must be a stress range from 0 to 200 MPa, got %v", s.RivetedCategoryMPa)
 	case !(s.DynamicFactor >= 1 && s.DynamicFactor <= 3):
-		return fmt.Errorf("fatigue dynamic_factor must be from 1 to 3, got %v", s.DynamicFactor)
+		return fmt.Errorf("fatigue.dynamic_factor: must be from 1 to 3, got %v", s.DynamicFactor)
 	case s.Year < 1800 || s.Year > 2300:
-		return fmt.Errorf("fatigue year must be from 1800 to 2300, got %d", s.Year)
+		return fmt.Errorf("fatigue.year: must be from 1800 to 2300, got %d", s.Year)
 	case s.DefaultYearBuilt < 1800 || s.DefaultYearBuilt > s.Year:
-		return fmt.Errorf("fatigue default_year_built must be from 1800 to the year (%d), got %d", s.Year, s.DefaultYearBuilt)
+		return fmt.Errorf("fatigue.default_year_built: must be from 1800 to the year (%d), got %d", s.Year, s.DefaultYearBuilt)
 	case !(s.HorizonYears >= 0) || math.IsInf(s.HorizonYears, 0):
-		return fmt.Errorf("fatigue horizon_years must be 0 or more, got %v", s.HorizonYears)
+		return fmt.Errorf("fatigue.horizon_years: must be 0 or more, got %v", s.HorizonYears)
 	case !(s.RiseFactor >= 1) || math.IsInf(s.RiseFactor, 0):
-		return fmt.Errorf("fatigue rise_factor must be 1 or more, got %v", s.RiseFactor)
+		return fmt.Errorf("fatigue.rise_factor: must be 1 or more, got %v", s.RiseFactor)
 	}
 	for k, p := range s.History {
 		if !(p.Factor >= 0) || math.IsInf(p.Factor, 0) {
-			return fmt.Errorf("fatigue history[%d] factor must be 0 or more, got %v", k, p.Factor)
+			return fmt.Errorf("fatigue.history[%d].factor: must be 0 or more, got %v", k, p.Factor)
 		}
 		if k > 0 && p.FromYear <= s.History[k-1].FromYear {
-			return fmt.Errorf("fatigue history[%d] from %d: periods must ascend (after %d)", k, p.FromYear, s.History[k-1].FromYear)
+			return fmt.Errorf("fatigue.history[%d].from %d: periods must ascend (after %d)", k, p.FromYear, s.History[k-1].FromYear)
 		}
 	}
 	return nil
