@@ -152,6 +152,7 @@ func (w *Screener) checkFatigue(b Bridge, s *Settings, spanM float64, lines *ana
 	if f == nil {
 		return nil
 	}
+	w.fcalc.Forget() // a new bridge: no line of the last is seen again
 	sum := FatigueSummary{FlagCounts: map[fatigue.Flag]int{}, Shortest: -1, ShortestYears: math.Inf(1)}
 	fb := fatigue.Bridge{SpanM: spanM, YearBuilt: b.YearBuilt, Shares: trackShares(b)}
 	results := make([]fatigue.Result, len(lines.Members))

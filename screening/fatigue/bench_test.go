@@ -72,7 +72,7 @@ func BenchmarkCheck(b *testing.B) {
 				var calc Calculator
 				b.ReportAllocs()
 				for b.Loop() {
-					calc.forget() // a new bridge: nothing counted yet
+					calc.Forget() // a new bridge: nothing counted yet
 					for _, m := range members {
 						if _, err := calc.Check(m, br, s, ex, pr, nil); err != nil {
 							b.Fatal(err)

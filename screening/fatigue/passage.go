@@ -76,8 +76,9 @@ type passageKey struct {
 	k  *kinks
 }
 
-// forget lets go of the passages kept (and of the lines they hold).
-func (c *Calculator) forget() {
+// Forget lets go of the passages kept (and of the lines they hold): call it between bridges,
+// whose lines are not shared.
+func (c *Calculator) Forget() {
 	for i := range c.passages {
 		c.passages[i].tr, c.passages[i].k = nil, nil // their cycles' storage stays for reuse
 	}
@@ -110,7 +111,7 @@ func (c *Calculator) passage(l *Line, tr *Train, dir Direction, spanM float64) *
 		return &c.passages[i]
 	}
 	if len(c.passages) >= maxKeptPassages || c.kept == nil {
-		c.forget()
+		c.Forget()
 	}
 	c.kept[key] = len(c.passages)
 	if len(c.passages) < cap(c.passages) {

@@ -196,7 +196,7 @@ func TestSteadyCountsAreLinear(t *testing.T) {
 		scale := 150 / max(scaleOf(x, eta, tr), 1e-9)
 		var c Calculator
 		for _, dir := range []Direction{LeftToRight, RightToLeft} {
-			c.forget()
+			c.Forget()
 			got := c.passage(l, p, dir, span).damage(curve, scale)
 			h := c.History(l, p, dir, nil)
 			cycles, _ := Rainflow(Turning(h, PassageTol(l, p), nil), nil, nil)
