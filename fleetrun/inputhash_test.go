@@ -48,8 +48,10 @@ func TestInputVersionSeesEveryInput(t *testing.T) {
 		what, sql string
 		renews    bool
 	}{
-		{"name, line, place, year, inspection", `UPDATE bridges SET name = 'Kestholm Bridge', line = 'Eastfell Branch',
-			latitude = -41.5, longitude = 172.1, year_built = 1897, last_inspected = '2024-03-01' WHERE bridge_id = 'NER-00001'`, false},
+		{"name, line, place, inspection", `UPDATE bridges SET name = 'Kestholm Bridge', line = 'Eastfell Branch',
+			latitude = -41.5, longitude = 172.1, last_inspected = '2024-03-01' WHERE bridge_id = 'NER-00001'`, false},
+		// The year built sets the fatigue damage to date (migration 016).
+		{"year built", `UPDATE bridges SET year_built = 1897 WHERE bridge_id = 'NER-00001'`, true},
 		{"an import that changes nothing", upsert, false},
 		{"another bridge's member", `INSERT INTO members (bridge_id, member, capacity_tension_kn) VALUES ('NER-00002', 'L0-L1', 900)`, false},
 		{"truss type", `UPDATE bridges SET truss_type = 'howe' WHERE bridge_id = 'NER-00001'`, true},

@@ -51,6 +51,9 @@ func ScreeningInput(b store.Bridge, members []store.Member) screening.Bridge {
 	}
 	sb.TrussSpacingM, sb.LineSpeedKmh, sb.FirstFrequencyHz = store.OrZero(b.TrussSpacingM), store.OrZero(b.LineSpeedKmh), store.OrZero(b.FirstFrequencyHz)
 	floorInput(b, &sb)
+	if b.YearBuilt != nil {
+		sb.YearBuilt = *b.YearBuilt
+	}
 	for _, m := range members {
 		if floorMember(m, &sb) {
 			continue
@@ -72,7 +75,10 @@ func ScreeningInput(b store.Bridge, members []store.Member) screening.Bridge {
 
 // RatingMember turns a members row into the rating package's view of it.
 func RatingMember(m store.Member) rating.Member {
-	r := rating.Member{ConditionFactor: m.ConditionFactor}
+	r := rating.Member{ConditionFactor: m.ConditionFactor, FatigueCategory: m.FatigueCategory}
+	if m.AreaMM2 != nil {
+		r.AreaMM2 = *m.AreaMM2
+	}
 	if m.CapacityTensionKN != nil {
 		r.CapacityTension = *m.CapacityTensionKN
 	}

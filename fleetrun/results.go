@@ -266,7 +266,9 @@ func (e *resultEncoder) memberAssessment(setID int64, m screening.MemberResult) 
 	for _, f := range a.Flags {
 		e.flags = append(e.flags, string(f))
 	}
-	e.ma = store.MemberAssessment{SetID: setID, Member: m.Label, DemandIncrease: finite(a.DemandIncrease), Flags: e.flags}
+	e.flags = appendFatigueFlags(e.flags, m.Fatigue)
+	e.ma = store.MemberAssessment{SetID: setID, Member: m.Label, DemandIncrease: finite(a.DemandIncrease), Flags: e.flags,
+		Fatigue: fatigueColumns(m.Fatigue)}
 	if a.HasEx {
 		e.ma.RFExisting = finite(a.WorstEx.RF)
 	}
@@ -311,6 +313,7 @@ func outcome(r screening.Result, hash string, set *int64) store.BridgeOutcome {
 			o.EMember = &n.EMember
 		}
 	}
+	fatigueOutcome(&o, r)
 	if g := r.Governing; g != nil && g.Loaded {
 		o.GoverningTrain, o.GoverningSense, o.GoverningDirection = g.Train, r.Members[s.Worst].SenseName(s.WorstPr.Sense), g.Direction.String()
 		o.GoverningHeadM, o.GoverningFromM, o.GoverningToM = num(g.HeadM), num(g.LoadedFromM), num(g.LoadedToM)

@@ -15,6 +15,7 @@ import (
 	"github.com/trussfleet/trussfleet/fleetrun"
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/fatigue"
 	"github.com/trussfleet/trussfleet/screening/rating"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 	"github.com/trussfleet/trussfleet/screening/truss"
@@ -43,12 +44,18 @@ func referenceRows(setIDs []int64, results []screening.Result) (mr, ma [][]any) 
 			for i, f := range a.Flags {
 				flags[i] = string(f)
 			}
+			fat := fatigueRow(m.Fatigue)
+			if m.Fatigue != nil {
+				for _, f := range m.Fatigue.Flags {
+					flags = append(flags, string(f))
+				}
+			}
 			sense := ""
 			if a.HasPr {
 				sense = a.WorstPr.Sense.String()
 			}
-			ma = append(ma, []any{setIDs[i], m.Label, fleetrun.RFOrNil(a.WorstEx, a.HasEx), fleetrun.RFOrNil(a.WorstPr, a.HasPr),
-				sense, fleetrun.Num(a.DemandIncrease), flags})
+			ma = append(ma, append([]any{setIDs[i], m.Label, fleetrun.RFOrNil(a.WorstEx, a.HasEx), fleetrun.RFOrNil(a.WorstPr, a.HasPr),
+				sense, fleetrun.Num(a.DemandIncrease), flags}, fat...))
 		}
 	}
 	return mr, ma
@@ -70,6 +77,28 @@ func categoryRows(setIDs []int64, results []screening.Result) (cr [][]any) {
 		}
 	}
 	return cr
+}
+
+// fatigueRow is a member's fatigue columns as the reference rows hold them: "" and NULLs
+// without a check, the status alone without data, numbers without a finite value NULL, the
+// end year NULL for 0 (never).
+func fatigueRow(r *fatigue.Result) []any {
+	row := []any{"", nil, nil, nil, nil, nil, nil, nil, nil, nil, nil, ""}
+	if r == nil {
+		return row
+	}
+	row[0] = string(r.Status)
+	if r.Status == fatigue.NoData {
+		return row
+	}
+	var end *int32
+	if r.EndYear != 0 {
+		y := int32(r.EndYear)
+		end = &y
+	}
+	return []any{string(r.Status), fleetrun.Num(r.CategoryMPa), fleetrun.Num(r.AreaMM2), fleetrun.Num(r.PerYearExisting),
+		fleetrun.Num(r.PerYearProposed), fleetrun.Num(r.Ratio), fleetrun.Num(r.ToDate), fleetrun.Num(r.RemainingYears), end,
+		fleetrun.Num(r.MaxRangeExistingMPa), fleetrun.Num(r.MaxRangeProposedMPa), r.Governing}
 }
 
 func memberResultRow(setID int64, scenario string, m screening.MemberResult, e screening.Envelope, rfs []rating.Factor) []any {
@@ -134,7 +163,10 @@ var (
 		pgtype.TextOID, pgtype.TextOID, pgtype.TextOID, pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID}
 	categoryResultOIDs   = []uint32{pgtype.Int8OID, pgtype.TextOID, pgtype.TextOID, pgtype.Float8OID, pgtype.TextOID, pgtype.TextOID}
 	memberAssessmentOIDs = []uint32{pgtype.Int8OID, pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID,
-		pgtype.TextOID, pgtype.Float8OID, pgtype.TextArrayOID}
+		pgtype.TextOID, pgtype.Float8OID, pgtype.TextArrayOID,
+		// the fatigue columns (migration 016)
+		pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID,
+		pgtype.Float8OID, pgtype.Float8OID, pgtype.Int4OID, pgtype.Float8OID, pgtype.Float8OID, pgtype.TextOID}
 )
 
 // pgxCopyStream encodes rows as pgx v5's CopyFrom does before it sends them (copy_from.go,
@@ -201,7 +233,11 @@ func edgeResults() []screening.Result {
 					WorstPr:  rating.Factor{Sense: rating.Tension, RF: inf}, HasPr: true}},
 			{Label: "Ω3-Ω4", Kind: truss.Vertical, Dead: negZero,
 				Assessment: rating.Assessment{WorstEx: rating.Factor{RF: nan}, HasEx: true, DemandIncrease: negZero,
-					Flags: []rating.Flag{}}},
+					Flags: []rating.Flag{}},
+				Fatigue: &fatigue.Result{Status: fatigue.Damaged, CategoryMPa: 71, AreaMM2: 12500, PerYearExisting: 1e-3,
+					PerYearProposed: 3.2e-3, Ratio: 3.2, ToDate: 0.21, RemainingYears: 246.875, EndYear: 2272,
+					MaxRangeExistingMPa: 61.5, MaxRangeProposedMPa: 80.25, Governing: "Ærøvik Güterzug",
+					Flags: []fatigue.Flag{fatigue.FlagRise}}},
 		}},
 		{BridgeID: "FAIL-002", Err: errors.New("truss: a Pratt truss needs an even number of panels, got 7")},
 		{BridgeID: "Þórsá-003", Members: []screening.MemberResult{
@@ -212,7 +248,8 @@ func edgeResults() []screening.Result {
 					Existing: []rating.Factor{{Sense: rating.Tension, RF: 2.5, Basis: rating.FromRatio}},
 					WorstEx:  rating.Factor{Sense: rating.Tension, RF: 2.5}, HasEx: true,
 					WorstPr: rating.Factor{Sense: rating.Compression, RF: 1.05}, HasPr: true,
-					DemandIncrease: -0.125, Flags: []rating.Flag{"naïve, {braced} \"quoted\" \\ flag", rating.NoCapacity, ""}}},
+					DemandIncrease: -0.125, Flags: []rating.Flag{"naïve, {braced} \"quoted\" \\ flag", rating.NoCapacity, ""}},
+				Fatigue: &fatigue.Result{Status: fatigue.BelowCutOff, CategoryMPa: 90, AreaMM2: 1e-300, RemainingYears: inf, Ratio: nan}},
 		}},
 		{BridgeID: "DONE-004", Members: []screening.MemberResult{{Label: "U0-U1", Kind: truss.TopChord, Dead: 1}}},
 	}

@@ -55,6 +55,7 @@ func Run(ctx context.Context, db *store.DB, runID int64) (report.Run, error) {
 	}
 	out.BridgesTotal, out.BridgesFailed = p.Total, p.Failed
 	out.FlagCounts, out.BridgesFlagged, err = db.FlagTotals(ctx, runID)
+	out.Fatigue = plan.Fatigue
 	return out, err
 }
 
@@ -77,6 +78,9 @@ func Bridge(ctx context.Context, db *store.DB, run report.Run, bridgeID string) 
 	out := report.Bridge{Row: row, TrussShare: b.TrussShare, Tracks: b.Tracks, DeadLoadKNPerM: b.DeadLoadKNPerM,
 		Truss: bridgegeom.Params(b)}
 	out.Section = section(b)
+	if b.YearBuilt != nil {
+		out.YearBuilt = *b.YearBuilt
+	}
 	if b.TrussType == truss.TableType {
 		docs, err := db.TrussTables(ctx, []string{bridgeID})
 		if err != nil {
@@ -145,7 +149,7 @@ func storedMembers(ctx context.Context, db *store.DB, run report.Run, bridgeID s
 	}
 	for _, a := range assessments {
 		members[a.Member] = &report.Member{Label: a.Member, RFExisting: ptr(a.RFExisting), RFProposed: ptr(a.RFProposed),
-			SenseProposed: a.SenseProposed, Flags: a.Flags}
+			SenseProposed: a.SenseProposed, Flags: a.Flags, Fatigue: fatigueOf(a.Fatigue)}
 	}
 	results, err := db.MemberResults(ctx, *set)
 	if err != nil {
@@ -187,6 +191,18 @@ func extreme(value float64, train string, head pgtype.Float8, dir string, from, 
 	}
 	e.LoadedFromM, e.LoadedToM = from.Float64, to.Float64
 	return e
+}
+
+// fatigueOf is a member's stored fatigue outcome as the report holds it.
+func fatigueOf(f store.FatigueColumns) report.Fatigue {
+	out := report.Fatigue{Status: f.Status, CategoryMPa: ptr(f.CategoryMPa), AreaMM2: ptr(f.AreaMM2),
+		DamageExisting: ptr(f.DamageExisting), DamageProposed: ptr(f.DamageProposed), Ratio: ptr(f.DamageRatio),
+		ToDate: ptr(f.DamageToDate), RemainingYears: ptr(f.RemainingYears), RangeProposedMPa: ptr(f.RangeProposedMPa), Train: f.Train}
+	if f.EndYear.Valid {
+		y := int(f.EndYear.Int32)
+		out.EndYear = &y
+	}
+	return out
 }
 
 // ptr is a nullable number as the report holds it: nil for NULL.

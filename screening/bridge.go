@@ -11,6 +11,7 @@ import (
 
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/fatigue"
 	"github.com/trussfleet/trussfleet/screening/floor"
 	"github.com/trussfleet/trussfleet/screening/rating"
 	"github.com/trussfleet/trussfleet/screening/traffic"
@@ -50,6 +51,8 @@ type Bridge struct {
 	Table *truss.Table
 	// Floor is the inventory's floor system (floor.go).
 	Floor FloorSystem
+	// YearBuilt is the year the bridge was built (0: not known), for fatigue damage to date.
+	YearBuilt int
 }
 
 // LiveShare is the factor on a train's load for the analysed truss.
@@ -103,6 +106,8 @@ type Settings struct {
 	// Network, when set, rates every bridge by line category and Cooper E rating as well
 	// (categories.go).
 	Network *NetworkTrains
+	// Fatigue holds the fatigue settings and traffic; nil checks no fatigue.
+	Fatigue *FatigueSettings
 }
 
 // ShareTrains makes the trains that are defined alike, in either scenario or among the
@@ -173,6 +178,8 @@ type MemberResult struct {
 	// Effect is "moment" (kN·m) or "shear" (kN) for a floor element; "" for a truss
 	// member's axial force (kN).
 	Effect string
+	// Fatigue is the member's fatigue check; nil when the run checks no fatigue.
+	Fatigue *fatigue.Result
 }
 
 // Result is one bridge's outcome.
@@ -192,11 +199,15 @@ type Result struct {
 	// Network is the bridge's line categories and Cooper E rating; nil unless the settings
 	// ask for them.
 	Network *NetworkResult
+	// Fatigue counts the members' fatigue outcomes; zero when the run checks no fatigue.
+	Fatigue FatigueSummary
 }
 
 // Screener screens bridges one after another, reusing its buffers; one per goroutine.
 type Screener struct {
 	calc envelope.Calculator
+	// fcalc computes fatigue passages (screening/fatigue).
+	fcalc fatigue.Calculator
 	// swept holds the current bridge's envelope under each train swept so far: a train in
 	// both scenarios (or also a reference train) is swept once per bridge.
 	swept []sweptTrain
@@ -330,6 +341,9 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 	}
 	if assess, err = w.screenFloor(b, s, t, &res, assess); err != nil {
 		return fail(fmt.Errorf("floor system: %w", err))
+	}
+	if err := w.checkFatigue(b, s, t.SpanM(), lines, &res); err != nil {
+		return fail(err)
 	}
 	res.Summary = rating.Summarise(assess)
 	if s.Network != nil {

@@ -77,6 +77,9 @@ type Plan struct {
 	// Network rates every bridge by line category and Cooper E rating as well (9 sweeps a
 	// bridge more; screening/categories.go).
 	Network bool `json:"network"`
+	// Fatigue holds the fatigue settings and traffic; nil checks no fatigue (and leaves the
+	// hash of a plan without it as it was).
+	Fatigue *FatiguePlan `json:"fatigue,omitempty"`
 }
 
 // Hash is a stable digest of the plan.
@@ -159,6 +162,9 @@ func (p Plan) Settings() (*Settings, error) {
 	}
 	s.Thresholds = rating.Thresholds{Flag: p.Flag, Review: p.Review, WorseFraction: p.Worse,
 		ReversalFraction: p.Reversal, FlagUnrated: p.FlagUnrated}
+	if s.Fatigue, err = p.fatigueSettings(); err != nil {
+		return nil, err
+	}
 	return s, nil
 }
 

@@ -2,13 +2,14 @@ package store
 
 import (
 	"context"
+	"strings"
 
 	"github.com/jackc/pgx/v5"
 	"github.com/jackc/pgx/v5/pgtype"
 )
 
 // Table member_assessments: sql/migrations/002_screening.sql, 004, 009 (made anew, keyed by
-// result set).
+// result set), 012 (fatigue).
 
 // MemberAssessment is a row of member_assessments: one member's rating under both scenarios
 // and its flags, in a result set.
@@ -23,6 +24,25 @@ type MemberAssessment struct {
 	// NULL.
 	DemandIncrease pgtype.Float8
 	Flags          []string // never NULL: empty for none
+	// Fatigue is the member's fatigue check (migration 016); its Status is "" where the run
+	// checked no fatigue.
+	Fatigue FatigueColumns
+}
+
+// FatigueColumns are a member's fatigue outcome: the status (no-data, below-cut-off,
+// damaged; "" not checked), the detail used, the yearly damages (Miner sums) existing and
+// proposed with their ratio, the damage to date, the remaining years and the year they run
+// out (NULL: never), the largest stress ranges (MPa) and the proposed train doing most damage.
+type FatigueColumns struct {
+	Status                         string
+	CategoryMPa, AreaMM2           pgtype.Float8
+	DamageExisting, DamageProposed pgtype.Float8
+	DamageRatio, DamageToDate      pgtype.Float8
+	RemainingYears                 pgtype.Float8
+	EndYear                        pgtype.Int4
+	RangeExistingMPa               pgtype.Float8
+	RangeProposedMPa               pgtype.Float8
+	Train                          string
 }
 
 // memberAssessmentColumns are member_assessments' columns: the COPY that writes the rows,
@@ -35,6 +55,31 @@ var memberAssessmentColumns = []column[MemberAssessment]{
 	{"sense_proposed", func(a *MemberAssessment) any { return &a.SenseProposed }},
 	{"demand_increase", func(a *MemberAssessment) any { return &a.DemandIncrease }},
 	{"flags", func(a *MemberAssessment) any { return &a.Flags }},
+	{"fatigue_status", func(a *MemberAssessment) any { return &a.Fatigue.Status }},
+	{"fatigue_category_mpa", func(a *MemberAssessment) any { return &a.Fatigue.CategoryMPa }},
+	{"fatigue_area_mm2", func(a *MemberAssessment) any { return &a.Fatigue.AreaMM2 }},
+	{"fatigue_damage_existing", func(a *MemberAssessment) any { return &a.Fatigue.DamageExisting }},
+	{"fatigue_damage_proposed", func(a *MemberAssessment) any { return &a.Fatigue.DamageProposed }},
+	{"fatigue_damage_ratio", func(a *MemberAssessment) any { return &a.Fatigue.DamageRatio }},
+	{"fatigue_damage_to_date", func(a *MemberAssessment) any { return &a.Fatigue.DamageToDate }},
+	{"fatigue_remaining_years", func(a *MemberAssessment) any { return &a.Fatigue.RemainingYears }},
+	{"fatigue_end_year", func(a *MemberAssessment) any { return &a.Fatigue.EndYear }},
+	{"fatigue_range_existing_mpa", func(a *MemberAssessment) any { return &a.Fatigue.RangeExistingMPa }},
+	{"fatigue_range_proposed_mpa", func(a *MemberAssessment) any { return &a.Fatigue.RangeProposedMPa }},
+	{"fatigue_train", func(a *MemberAssessment) any { return &a.Fatigue.Train }},
+}
+
+// fatigueColumns lists member_assessments' fatigue columns (their names begin fatigue_),
+// qualified by alias, and the fields of a that hold them, from the column table, for the
+// queries that read them beside other tables.
+func fatigueColumns(alias string, a *MemberAssessment) (names []string, fields []any) {
+	for _, c := range memberAssessmentColumns {
+		if strings.HasPrefix(c.name, "fatigue_") {
+			names = append(names, alias+"."+c.name)
+			fields = append(fields, c.field(a))
+		}
+	}
+	return names, fields
 }
 
 // MemberAssessmentColumns are the names of member_assessments' columns, in the order

@@ -4,6 +4,7 @@ import (
 	"context"
 	"encoding/json"
 	"fmt"
+	"strings"
 
 	"github.com/jackc/pgx/v5"
 	"github.com/trussfleet/trussfleet/internal/ranking"
@@ -13,9 +14,11 @@ import (
 // sql/migrations/009_result_sets.sql) joined with the inventory (bridges), and its flagged
 // members (member_assessments, member_results).
 
-// rankOrder is the priority order: lowest proposed RF first, then the largest demand
-// increase; bridges with no rated member after those, failed bridges last.
-const rankOrder = `(r.status = 'failed'), r.rf_proposed ASC NULLS LAST, r.demand_increase DESC NULLS LAST, r.bridge_id`
+// rankOrder is the priority order (ranking.Row documents it): the lower of the lowest
+// proposed RF and the fatigue life index (shortest remaining fatigue life over the planning
+// horizon, migration 016; NULL without a fatigue check, which least() passes over) first,
+// then the largest demand increase; bridges with neither after those, failed bridges last.
+const rankOrder = `(r.status = 'failed'), least(r.rf_proposed, r.fatigue_life_index) ASC NULLS LAST, r.demand_increase DESC NULLS LAST, r.bridge_id`
 
 // Ranked returns a run's priority list (limit 0: all of it), joined with the inventory's
 // current names and dates.
@@ -39,7 +42,8 @@ func (db *DB) ranked(ctx context.Context, runID int64, limit int, only string) (
 	q := `SELECT rank, bridge_id, name, line, chainage_km, truss_type, span_m, panels, worst_member, rf_existing, rf_proposed,
 		demand_increase, headroom, flags, flag_counts, unrated, governing_train, governing_sense, governing_head_m,
 		governing_direction, governing_from_m, governing_to_m, last_inspected, status, error, governing_case, no_rocking,
-		categories, e_rating, e_member, latitude, longitude
+		categories, e_rating, e_member, latitude, longitude,
+		fatigue_no_data, fatigue_life_years, fatigue_life_index, fatigue_member
 		FROM (SELECT row_number() OVER (ORDER BY ` + rankOrder + `) AS rank, r.bridge_id, coalesce(b.name, '') AS name,
 		coalesce(b.line, '') AS line, b.chainage_km, coalesce(b.truss_type, '') AS truss_type, coalesce(b.span_m, 0) AS span_m,
 		coalesce(b.panels, 0) AS panels, coalesce(r.worst_member, '') AS worst_member,
@@ -48,7 +52,8 @@ func (db *DB) ranked(ctx context.Context, runID int64, limit int, only string) (
 		coalesce(r.governing_direction, '') AS governing_direction, r.governing_from_m, r.governing_to_m,
 		coalesce(to_char(b.last_inspected, 'YYYY-MM-DD'), '') AS last_inspected, r.status, r.error,
 		coalesce(r.governing_case, '') AS governing_case, coalesce(r.no_rocking, false) AS no_rocking,
-		r.categories, r.e_rating, coalesce(r.e_member, '') AS e_member, b.latitude, b.longitude
+		r.categories, r.e_rating, coalesce(r.e_member, '') AS e_member, b.latitude, b.longitude,
+		r.fatigue_no_data, r.fatigue_life_years, r.fatigue_life_index, coalesce(r.fatigue_member, '') AS fatigue_member
 		FROM run_picture($1) r LEFT JOIN bridges b ON b.bridge_id = r.bridge_id
 		WHERE r.status <> 'pending') AS ranked
 		WHERE $2 = '' OR bridge_id = $2
@@ -70,10 +75,12 @@ func (db *DB) ranked(ctx context.Context, runID int64, limit int, only string) (
 			&b.WorstMember, &b.RFExisting, &b.RFProposed, &inc, &b.Headroom, &b.Flags, &counts,
 			&b.Unrated, &b.GoverningTrain, &b.GoverningSense, &b.GoverningHeadM, &b.GoverningDirection, &b.GoverningFromM,
 			&b.GoverningToM, &b.LastInspected, &b.Status, &b.Error, &b.GoverningCase, &b.NoRocking,
-			&b.Categories, &b.ERating, &b.EMember, &b.Latitude, &b.Longitude)
+			&b.Categories, &b.ERating, &b.EMember, &b.Latitude, &b.Longitude,
+			&b.Fatigue.NoData, &b.Fatigue.LifeYears, &b.Fatigue.LifeIndex, &b.Fatigue.Member)
 		if err != nil {
 			return b, err
 		}
+		b.Fatigue.Governs = b.Fatigue.LifeIndex != nil && (b.RFProposed == nil || *b.Fatigue.LifeIndex < *b.RFProposed)
 		if inc != nil {
 			b.DemandIncrease = *inc
 		}
@@ -152,11 +159,14 @@ type FlaggedMember struct {
 	// Truss is the main truss governing the member, Case the loading case of its rated sense,
 	// Dynamic its dynamic allowance in words (migration 012).
 	Truss, Case, Dynamic string
+	// Fatigue is the member's fatigue outcome (Status "" where the run checked no fatigue).
+	Fatigue FatigueColumns
 }
 
 // FlaggedMembers lists a run's members that carry any flag, in the bridges' priority order
 // and, within a bridge, by proposed RF.
 func (db *DB) FlaggedMembers(ctx context.Context, runID int64) ([]FlaggedMember, error) {
+	fatigueNames, _ := fatigueColumns("a", &MemberAssessment{})
 	rows, err := db.Pool.Query(ctx, `WITH ranked AS (
 			SELECT r.bridge_id, r.set_id, row_number() OVER (ORDER BY `+rankOrder+`) AS rank FROM run_picture($1) r
 			WHERE r.status <> 'pending')
@@ -167,7 +177,8 @@ func (db *DB) FlaggedMembers(ctx context.Context, runID int64) ([]FlaggedMember,
 			CASE WHEN a.sense_proposed = 'compression' THEN p.min_direction ELSE p.max_direction END,
 			CASE WHEN a.sense_proposed = 'compression' THEN p.min_from_m ELSE p.max_from_m END,
 			CASE WHEN a.sense_proposed = 'compression' THEN p.min_to_m ELSE p.max_to_m END,
-			p.truss, CASE WHEN a.sense_proposed = 'compression' THEN p.min_case ELSE p.max_case END, p.dynamic
+			p.truss, CASE WHEN a.sense_proposed = 'compression' THEN p.min_case ELSE p.max_case END, p.dynamic,
+			`+strings.Join(fatigueNames, ", ")+`
 		FROM ranked k
 		JOIN member_assessments a ON a.set_id = k.set_id
 		JOIN member_results p ON p.set_id = a.set_id AND p.member = a.member AND p.scenario = 'proposed'
@@ -179,9 +190,13 @@ func (db *DB) FlaggedMembers(ctx context.Context, runID int64) ([]FlaggedMember,
 	}
 	return pgx.CollectRows(rows, func(r pgx.CollectableRow) (FlaggedMember, error) {
 		var m FlaggedMember
-		return m, r.Scan(&m.BridgeRank, &m.BridgeID, &m.Name, &m.Member, &m.Kind, &m.RFExisting, &m.RFProposed,
+		var a MemberAssessment
+		_, fatigue := fatigueColumns("a", &a)
+		err := r.Scan(append([]any{&m.BridgeRank, &m.BridgeID, &m.Name, &m.Member, &m.Kind, &m.RFExisting, &m.RFProposed,
 			&m.Sense, &m.DemandIncrease, &m.Flags, &m.DeadKN, &m.LiveMaxKN, &m.LiveMinKN, &m.Impact, &m.Train,
-			&m.HeadM, &m.Direction, &m.FromM, &m.ToM, &m.Truss, &m.Case, &m.Dynamic)
+			&m.HeadM, &m.Direction, &m.FromM, &m.ToM, &m.Truss, &m.Case, &m.Dynamic}, fatigue...)...)
+		m.Fatigue = a.Fatigue
+		return m, err
 	})
 }
 

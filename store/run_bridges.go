@@ -195,6 +195,14 @@ type BridgeOutcome struct {
 	Categories []string
 	ERating    *float64
 	EMember    *string
+	// FatigueNoData counts the members the fatigue check could not check (no area or
+	// category), FatigueLifeYears is the shortest remaining fatigue life and FatigueMember its
+	// member (migration 016); nil and "" where the run checked no fatigue or no life ends.
+	FatigueNoData    *int32
+	FatigueLifeYears *float64
+	FatigueMember    string
+	// FatigueLifeIndex is FatigueLifeYears over the planning horizon (nil: none).
+	FatigueLifeIndex *float64
 }
 
 // outcomeColumn is a run_bridges column a BridgeOutcome sets: its values travel to the server
@@ -230,6 +238,10 @@ var outcomeColumns = []outcomeColumn{
 	{"flags", "text[]", "string_to_array(u.flags, ',')", each(func(o *BridgeOutcome) string { return strings.Join(o.Flags, ",") })},
 	{"flag_counts", "text[]", "u.flag_counts::jsonb", each(flagCountsJSON)},
 	{"unrated_members", "int4[]", "u.unrated_members", each(func(o *BridgeOutcome) *int32 { return o.UnratedMembers })},
+	{"fatigue_no_data", "int4[]", "u.fatigue_no_data", each(func(o *BridgeOutcome) *int32 { return o.FatigueNoData })},
+	{"fatigue_life_years", "float8[]", "u.fatigue_life_years", each(func(o *BridgeOutcome) *float64 { return o.FatigueLifeYears })},
+	{"fatigue_member", "text[]", "nullif(u.fatigue_member, '')", each(func(o *BridgeOutcome) string { return o.FatigueMember })},
+	{"fatigue_life_index", "float8[]", "u.fatigue_life_index", each(func(o *BridgeOutcome) *float64 { return o.FatigueLifeIndex })},
 	{"governing_train", "text[]", "u.governing_train", each(func(o *BridgeOutcome) string { return o.GoverningTrain })},
 	{"governing_sense", "text[]", "u.governing_sense", each(func(o *BridgeOutcome) string { return o.GoverningSense })},
 	{"governing_head_m", "float8[]", "u.governing_head_m", each(func(o *BridgeOutcome) *float64 { return o.GoverningHeadM })},
@@ -302,7 +314,8 @@ func SetOutcomes(ctx context.Context, tx pgx.Tx, runID int64, outcomes []BridgeO
 var carriedColumns = []string{"bridge_id", "input_hash", "error", "worst_member", "rf_existing", "rf_proposed",
 	"demand_increase", "headroom", "flags", "flag_counts", "unrated_members", "governing_train", "governing_sense", "governing_head_m",
 	"governing_direction", "governing_from_m", "governing_to_m", "screened_at", "requeues", "set_id",
-	"governing_case", "no_rocking", "categories", "e_rating", "e_member"}
+	"governing_case", "no_rocking", "categories", "e_rating", "e_member",
+	"fatigue_no_data", "fatigue_life_years", "fatigue_member", "fatigue_life_index"}
 
 // squashStatement copies the picture of run $1 into run $2, for every bridge that run $2
 // holds no row of: a screened bridge as carried, a failed one as failed (a failure is never

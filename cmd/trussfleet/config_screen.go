@@ -30,6 +30,8 @@ type ScreenConfig struct {
 	Floor FloorConfig `mapstructure:"floor"`
 	// Network rates every bridge by line category and Cooper E rating as well.
 	Network bool `mapstructure:"network"`
+	// Fatigue sets the fatigue check (config_fatigue.go).
+	Fatigue FatigueConfig `mapstructure:"fatigue"`
 }
 
 // ScenarioConfig is one traffic scenario: the envelope over all its trains.
@@ -42,6 +44,8 @@ type ScenarioConfig struct {
 	// bridge's line speed.
 	SpeedsKmh   map[string]float64 `mapstructure:"speeds_kmh"`
 	AtLineSpeed []string           `mapstructure:"at_line_speed"`
+	// Traffic lists real trains' passages for the fatigue check (config_fatigue.go).
+	Traffic []TrafficConfig `mapstructure:"traffic"`
 }
 
 // RatingConfig selects the rating equation and its factors.
@@ -94,6 +98,7 @@ func setScreenDefaults(v *viper.Viper) {
 	v.SetDefault("rescue_after", "5m")
 	setFloorDefaults(v)
 	v.SetDefault("network", true)
+	setFatigueDefaults(v)
 }
 
 func (s ScreenConfig) validate() []error {
@@ -146,5 +151,6 @@ func (s ScreenConfig) validate() []error {
 	if s.ChunkSize < 1 || s.ChunkSize > 10000 {
 		bad("chunk_size", "must be from 1 to 10000 bridges per job, got %d", s.ChunkSize)
 	}
+	errs = append(errs, s.validateFatigue()...)
 	return append(errs, s.Floor.validate()...)
 }

@@ -14,13 +14,15 @@ import (
 func init() { commands = append(commands, newDemoCmd) }
 
 func newDemoCmd(a *app) *cobra.Command {
-	var from, trains string
+	var from, trains, traffic string
 	cmd := &cobra.Command{
 		Use:   "demo",
 		Short: "Screen the invented demo railway end to end on the embedded database",
 		Long: `demo starts the embedded PostgreSQL (unless a database URL is configured), migrates it,
 imports the invented fleet of the Northmoor & Eastfell Railway from testdata/demo and the
-example trains from configs/trains, screens the existing against the proposed traffic,
+example trains from configs/trains, screens the existing against the proposed traffic
+(with the demo's invented fatigue traffic, testdata/demo/traffic.yaml, where the
+configuration lists none),
 writes the priority list and the HTML report to the output folder (trussfleet-out) and
 prints a summary.
 Running it again re-imports (nothing changes) and screens again as a new run.`,
@@ -65,6 +67,9 @@ Running it again re-imports (nothing changes) and screens again as a new run.`,
 				c := res.Counts
 				fmt.Fprintf(out, "Imported %-8s %s: %d inserted, %d updated, %d unchanged\n", s.what, res.File, c.Inserted, c.Updated, c.Unchanged)
 			}
+			if err := useDemoTraffic(&a.cfg, traffic); err != nil {
+				return err
+			}
 			screenErr := a.screen(ctx, db, out, cmd.ErrOrStderr(), false, 0)
 			run, err := db.LatestRun(ctx, true)
 			if err != nil {
@@ -92,6 +97,7 @@ Running it again re-imports (nothing changes) and screens again as a new run.`,
 	}
 	cmd.Flags().StringVar(&from, "from", filepath.Join("testdata", "demo"), "folder with the demo's bridges.csv and members.csv")
 	cmd.Flags().StringVar(&trains, "trains", filepath.Join("configs", "trains"), "folder of train files")
+	cmd.Flags().StringVar(&traffic, "traffic", filepath.Join("testdata", "demo", "traffic.yaml"), "the demo's fatigue traffic, used where the configuration lists none")
 	cmd.Flags().String("out", "", "output folder (default: the output setting, trussfleet-out)")
 	return cmd
 }

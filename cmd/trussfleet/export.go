@@ -59,7 +59,7 @@ func bridgeExportHeader(u units.System) []string {
 	return []string{"rank", "bridge_id", "name", "line", "chainage_km", "truss_type", "span_" + l, "panels",
 		"worst_member", "worst_kind", "rf_existing", "rf_proposed", "rf_change_pct", "demand_increase_pct", "flags", "unrated_members",
 		"headroom", "e_rating", "e_member", "categories", "governing_train", "governing_sense", "governing_head_" + l, "governing_direction", "loaded_from_" + l, "loaded_to_" + l,
-		"last_inspected", "status", "error", "governing_case", "no_rocking_term"}
+		"last_inspected", "status", "error", "governing_case", "no_rocking_term", "rank_basis", "fatigue_life_years", "fatigue_member", "fatigue_no_data"}
 }
 
 // memberExportHeader is the member export's columns, forces and lengths suffixed with their
@@ -68,7 +68,9 @@ func memberExportHeader(u units.System) []string {
 	l, f := u.Column(units.Length), u.Column(units.Force)
 	return []string{"bridge_rank", "bridge_id", "name", "member", "kind", "rf_existing", "rf_proposed",
 		"sense", "demand_increase_pct", "flags", "dead_" + f, "live_max_" + f, "live_min_" + f, "impact", "governing_train",
-		"head_" + l, "direction", "loaded_from_" + l, "loaded_to_" + l, "truss", "loading_case", "dynamic_allowance", "effect_unit"}
+		"head_" + l, "direction", "loaded_from_" + l, "loaded_to_" + l, "truss", "loading_case", "dynamic_allowance", "effect_unit",
+		"fatigue_status", "fatigue_damage_existing_per_year", "fatigue_damage_proposed_per_year", "fatigue_damage_ratio",
+		"fatigue_damage_to_date", "fatigue_remaining_years", "fatigue_end_year", "fatigue_range_proposed_mpa"}
 }
 
 // exportRun writes the bridge-level and member-level priority lists of a run: CSV for people
@@ -129,7 +131,11 @@ var numericColumns = map[string]bool{"rank": true, "bridge_rank": true, "chainag
 	"unrated_members": true, "headroom": true, "e_rating": true, "governing_head_m": true, "loaded_from_m": true, "loaded_to_m": true, "dead_kn": true,
 	"live_max_kn": true, "live_min_kn": true, "impact": true, "head_m": true,
 	"span_ft": true, "governing_head_ft": true, "loaded_from_ft": true, "loaded_to_ft": true, "dead_kip": true,
-	"live_max_kip": true, "live_min_kip": true, "head_ft": true}
+	"live_max_kip": true, "live_min_kip": true, "head_ft": true,
+	// fatigue (stresses in MPa in either system: the unit of EN 1993-1-9's detail categories)
+	"fatigue_life_years": true, "fatigue_no_data": true, "fatigue_damage_existing_per_year": true,
+	"fatigue_damage_proposed_per_year": true, "fatigue_damage_ratio": true, "fatigue_damage_to_date": true,
+	"fatigue_remaining_years": true, "fatigue_end_year": true, "fatigue_range_proposed_mpa": true}
 
 // recordObject turns an export record into a JSON object with the CSV's column names; flags
 // become a list.
@@ -211,15 +217,16 @@ func bridgeRecord(r report.BridgeRow, d digits) []string {
 		strings.Join(r.Flags, ";"), strconv.Itoa(r.Unrated), d.opt(r.Headroom, 4), d.opt(r.ERating, 1), r.EMember,
 		strings.Join(r.Categories, ";"), r.GoverningTrain, r.GoverningSense, d.optQty(units.Length, r.GoverningHeadM),
 		r.GoverningDirection, d.optQty(units.Length, r.GoverningFromM), d.optQty(units.Length, r.GoverningToM), r.LastInspected, r.Status, r.Error,
-		r.GoverningCase, strconv.FormatBool(r.NoRocking)}
+		r.GoverningCase, strconv.FormatBool(r.NoRocking),
+		rankBasis(r), d.opt(r.Fatigue.LifeYears, 1), r.Fatigue.Member, optInt(r.Fatigue.NoData)}
 }
 
 func memberRecord(m store.FlaggedMember, d digits) []string {
 	f := effectQuantity(m.Member)
-	return []string{strconv.Itoa(m.BridgeRank), m.BridgeID, m.Name, m.Member, m.Kind, d.opt(m.RFExisting, 4),
+	return append([]string{strconv.Itoa(m.BridgeRank), m.BridgeID, m.Name, m.Member, m.Kind, d.opt(m.RFExisting, 4),
 		d.opt(m.RFProposed, 4), m.Sense, d.num(100*m.DemandIncrease, 1), strings.Join(m.Flags, ";"), d.qty(f, m.DeadKN),
 		d.qty(f, m.LiveMaxKN), d.qty(f, m.LiveMinKN), d.num(m.Impact, 4), m.Train, d.optQty(units.Length, m.HeadM),
-		m.Direction, d.optQty(units.Length, m.FromM), d.optQty(units.Length, m.ToM), m.Truss, m.Case, m.Dynamic, d.u.Name(f)}
+		m.Direction, d.optQty(units.Length, m.FromM), d.optQty(units.Length, m.ToM), m.Truss, m.Case, m.Dynamic, d.u.Name(f)}, fatigueRecord(m.Fatigue, d)...)
 }
 
 // writeCSV writes a caution line, a header and the records. Every cell of a column that is

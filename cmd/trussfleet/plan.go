@@ -3,6 +3,7 @@ package main
 import (
 	"context"
 	"fmt"
+	"time"
 
 	"github.com/trussfleet/trussfleet/fleetrun"
 	"github.com/trussfleet/trussfleet/screening"
@@ -64,6 +65,9 @@ func buildPlan(ctx context.Context, db *store.DB, c Config) (screening.Plan, err
 		p.References = append(p.References, r)
 	}
 	screening.SortRefs(p.References)
+	if p.Fatigue, err = fatiguePlan(ctx, db, s, time.Now()); err != nil {
+		return p, err
+	}
 	if _, err := p.Settings(); err != nil {
 		return p, err
 	}

@@ -59,6 +59,7 @@ func printRanked(w io.Writer, run store.Run, rows []report.BridgeRow, u units.Sy
 		return err
 	}
 	noRockingNote(w, rows)
+	printFatigueNotes(w, rows, nil)
 	if failed := countFailed(rows); failed > 0 {
 		fmt.Fprintf(w, "\n%s could not be screened (listed last, NOT SCREENED): not cleared; fix their data and run again.\n", plural(failed, "bridge"))
 		if cut {

@@ -193,6 +193,7 @@ func printDiff(w io.Writer, ids [2]int64, changes []store.BridgeChange) error {
 			return err
 		}
 	}
+	printFatigueChanges(w, ids, changes)
 	fmt.Fprintln(w)
 	printCaution(w)
 	return nil

@@ -61,6 +61,7 @@ func (a *app) printSummary(ctx context.Context, db *store.DB, w io.Writer, id in
 	if err := tw.Flush(); err != nil {
 		return err
 	}
+	printFatigueNotes(w, rows, counts)
 	if err := printFailed(ctx, db, w, id); err != nil {
 		return err
 	}

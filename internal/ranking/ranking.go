@@ -2,6 +2,15 @@
 // each bridge of a run, in priority order, and what the report (package screening/report),
 // the priority list on the terminal and the exports show. It is a package of its own so that
 // the store and the report share the line without either importing the other.
+//
+// The priority order (store/rank.go): each bridge's key is the lower of its lowest proposed
+// rating factor and, where the run checks fatigue, its fatigue life index: the shortest
+// remaining fatigue life of its members under the proposed traffic divided by the planning
+// horizon (fatigue.horizon_years). Both are 1 at the point where the bridge falls short: an
+// RF of 1 carries the proposed traffic exactly, a life index of 1 lasts exactly the horizon.
+// Lowest key first; ties by the largest demand increase; bridges with neither number next,
+// failed bridges last. Where the life index is the lower, fatigue governs the bridge's rank
+// (Fatigue.Governs), and the outputs say so. rating.RankOrder orders the strength key alone.
 package ranking
 
 // Row is one line of a run's priority list.
@@ -50,4 +59,20 @@ type Row struct {
 	// the truss spacing.
 	GoverningCase string
 	NoRocking     bool
+
+	// Fatigue is the bridge's fatigue summary (zero where the run checked no fatigue).
+	Fatigue Fatigue
+}
+
+// Fatigue is a bridge's fatigue summary in the priority list.
+type Fatigue struct {
+	// NoData counts the members without area or category (not checked); nil: the run
+	// checked no fatigue.
+	NoData *int
+	// LifeYears is the shortest remaining fatigue life under the proposed traffic, Member its
+	// member, LifeIndex that life over the planning horizon (nil: no life runs out).
+	LifeYears, LifeIndex *float64
+	Member               string
+	// Governs: the life index is below the lowest proposed RF, so fatigue sets the rank.
+	Governs bool
 }

@@ -200,7 +200,8 @@ func Summarise(members []Assessment) Bridge {
 }
 
 // RankOrder sorts bridges for the priority list: lowest proposed RF first, then the largest
-// demand increase; bridges with no rated member go last, ordered by demand increase. key
+// demand increase; bridges with no rated member go last, ordered by demand increase. (A
+// run's stored priority list also weighs the fatigue life index: internal/ranking.) key
 // gives each index's summary; the returned slice holds the indices in rank order.
 func RankOrder(n int, key func(i int) Bridge) []int {
 	idx := make([]int, n)

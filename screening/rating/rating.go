@@ -57,6 +57,11 @@ type Member struct {
 	ReferenceTrain   string
 	RatingSense      Sense
 	RatingSenseGiven bool
+	// AreaMM2 (mm², 0: not held) and FatigueCategory (the inventory's text: a detail category
+	// in MPa or "riveted"; "": not held) are for the fatigue check (screening/fatigue); the
+	// rating does not use them.
+	AreaMM2         float64
+	FatigueCategory string
 }
 
 // StoredSense is the sense a member's stored rating factor rates: the one the inventory

@@ -183,6 +183,7 @@ func ExplainIn(w io.Writer, run Run, b Bridge, member string, u units.System) er
 		}
 	}
 
+	explainFatigue(p, run, b, m, lines.X, eta, t.SpanM())
 	explainRating(ew, run, m, u)
 	for _, c := range Caution {
 		p("CAUTION: %s\n", c)

@@ -4,6 +4,7 @@ import (
 	"time"
 
 	"github.com/trussfleet/trussfleet/internal/ranking"
+	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/rating"
 	"github.com/trussfleet/trussfleet/screening/traffic"
@@ -40,6 +41,9 @@ type Run struct {
 	BridgesTotal   int
 	BridgesFailed  int
 	BridgesFlagged int
+	// Fatigue is the run's fatigue plan (nil: the run checked no fatigue), for explaining a
+	// member's fatigue arithmetic.
+	Fatigue *screening.FatiguePlan
 }
 
 // BridgeRow is one line of the priority list (package internal/ranking, which store reads
@@ -64,6 +68,8 @@ type Bridge struct {
 	FloorNotes []string
 	// Table is the joint table of a bridge whose truss type is "table" (nil otherwise).
 	Table *truss.Table
+	// YearBuilt as the inventory holds it now (0: not known), for the fatigue damage to date.
+	YearBuilt int
 }
 
 // Section is a bridge's cross-section and what else its dynamic allowance and dead load rest
@@ -100,6 +106,23 @@ type Member struct {
 	// Truss is the main truss whose results these are, the one governing the member ("" in
 	// runs from before the cross-section).
 	Truss string
+	// Fatigue is the member's stored fatigue outcome (Status "" where the run checked no
+	// fatigue).
+	Fatigue Fatigue
+}
+
+// Fatigue is a member's fatigue outcome as stored: status (no-data, below-cut-off, damaged),
+// the detail used, yearly damages (Miner sums) existing and proposed, their ratio, the damage
+// to date, the remaining years and the year they run out (nil: never), the largest proposed
+// stress range (MPa) and the proposed train doing most damage.
+type Fatigue struct {
+	Status                                        string
+	CategoryMPa, AreaMM2                          *float64
+	DamageExisting, DamageProposed, Ratio, ToDate *float64
+	RemainingYears                                *float64
+	EndYear                                       *int
+	RangeProposedMPa                              *float64
+	Train                                         string
 }
 
 // Scenario is a member's live-load envelope under one scenario (kN after the truss share,

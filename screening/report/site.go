@@ -457,6 +457,8 @@ type section struct {
 	Captions            []string
 	Calc                []calcView
 	Notes               []string
+	// Fatigue draws a fatigue-flagged member's stress history and ranges (nil: none).
+	Fatigue *fatigueChart
 }
 
 type calcView struct {
@@ -589,6 +591,7 @@ func memberSection(run Run, b Bridge, t *truss.Truss, lines *analysis.Lines, i i
 		signedQty(u, units.Length, clean(pos+neg)), lu, signedQty(u, units.Force, analysis.DeadLoad(lines.X, eta, b.DeadLoadKNPerM)), fu))
 	s.Captions = append(s.Captions, placementText(ex, tr, ob, lines.X, eta, sense, m.Proposed.shareOf(sign, b), u))
 	s.Captions = append(s.Captions, sectionCaptions(m)...)
+	s.Fatigue = drawFatigue(run, b, m, lines.X, eta, t.SpanM())
 	return s
 }
 

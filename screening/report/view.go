@@ -191,6 +191,8 @@ func reasons(run Run, m Member, u units.System) []string {
 				what = "a sense"
 			}
 			r = fmt.Sprintf("no-capacity: the proposed traffic loads the member in %s, for which it holds no capacity and no stored rating factor rated in that sense (unrated).", what)
+		case "fatigue-life", "fatigue-rise":
+			r = fatigueReason(run, m, f)
 		default:
 			r = fmt.Sprintf("%s: flagged by the screening run.", f)
 		}

@@ -1,0 +1,43 @@
+// Package fatigue finds how fast each member's fatigue life is used up by the trains that
+// cross it: the force history of one passage, its stress cycles, and their damage on the
+// member's S-N curve.
+//
+// One passage. A member's force under a train is the sum of each axle's load times the
+// influence line at the axle (and of each distributed part's load per metre times the line's
+// area under it). The line is straight between panel points and zero beyond the bearings, so
+// as the train moves the force is straight (with distributed parts, a parabola) between the
+// positions where an axle or a part's end passes a vertex of the line where it kinks: History
+// visits exactly those positions, in order, starting and ending with the bridge empty, and
+// adds each parabola's turning point. Nothing is stepped, so no peak is missed; the largest and
+// smallest values of the history are the member's envelope under that train (screening/
+// envelope, which the tests check). A passage is one definite train: a consist of a variable
+// count runs at its largest count, and loads that are envelopes of many trains (Load Model
+// 71's parts where unfavourable, Cooper's trailing load, a uniform load of variable length)
+// are refused with ErrNotAPassage, since no real train applies them.
+//
+// Cycles. Turning keeps the history's peaks and valleys; Rainflow counts their cycles by the
+// three-point rainflow method of ASTM E1049 with half cycles. Stress range = force range
+// (kN) times the truss's share of the track, times the fatigue dynamic factor, divided by
+// the member's area (mm², giving MPa via kN/mm² x 1000).
+//
+// Damage. Curve is an S-N curve of the shape of EN 1993-1-9 (values from memory; check them
+// against the edition in force): the detail category is the range at 2e6 cycles, slope 3 to
+// the constant-amplitude limit at 5e6 cycles, slope 5 to the cut-off at 1e8 cycles, nothing
+// below. Damage is the Palmgren-Miner sum n/N, each range multiplied by the partial factor
+// gamma_Mf. DynamicFactor is EN 1991-2 Annex C's fatigue factor 1 + (phi' + phi”/2)/2 for a
+// train at a known speed (from memory).
+//
+// Units: m, kN, MPa; forces tension positive. Inputs are never modified. A Calculator holds
+// scratch space; give each goroutine its own.
+//
+//	line, _ := fatigue.NewLine(x, eta)     // once per member
+//	tr, _ := fatigue.PrepareTrain(train)   // once per train
+//	var c fatigue.Calculator
+//	h := c.History(line, tr, fatigue.LeftToRight, nil)
+//	cycles, _ := fatigue.Rainflow(fatigue.Turning(h, fatigue.TurningTol(h), nil), nil, nil)
+//	d := curve.Damage(cycles, share*factor*1000/areaMM2) // damage of one passage
+//
+// Screening is not an assessment of remaining fatigue life: it ranks where a licensed
+// engineer should look first. Local codes, the owner's standards and licensed engineers
+// govern.
+package fatigue

@@ -1,0 +1,209 @@
+package fatigue
+
+import (
+	"fmt"
+	"math"
+	"testing"
+
+	"github.com/trussfleet/trussfleet/screening/analysis"
+	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/traffic"
+	"pgregory.net/rapid"
+)
+
+func genLine(t *rapid.T) (x, eta []float64) {
+	n := rapid.IntRange(2, 7).Draw(t, "points")
+	x = []float64{rapid.Float64Range(-5, 5).Draw(t, "x0")}
+	for k := 1; k < n; k++ {
+		x = append(x, x[k-1]+rapid.Float64Range(0.5, 8).Draw(t, "dx"))
+	}
+	jumps := rapid.Bool().Draw(t, "jumps")
+	eta = make([]float64, n)
+	for k := range eta {
+		if (k == 0 || k == n-1) && !jumps {
+			continue
+		}
+		eta[k] = rapid.Float64Range(-2, 2).Draw(t, "eta")
+	}
+	return x, eta
+}
+
+// genPassageTrain draws a train of fixed count with finite parts applied whole, the trains a
+// passage takes.
+func genPassageTrain(t *rapid.T) *traffic.Train {
+	tr := &traffic.Train{Name: "drawn"}
+	for k := range rapid.IntRange(1, 3).Draw(t, "vehicles") {
+		v := traffic.Vehicle{Name: fmt.Sprint("v", k), LengthM: rapid.Float64Range(1.5, 12).Draw(t, "length")}
+		at := 0.0
+		for range rapid.IntRange(1, 3).Draw(t, "axles") {
+			at = min(at+rapid.Float64Range(0, 4).Draw(t, "gap"), v.LengthM)
+			v.Axles = append(v.Axles, traffic.Axle{AtM: at, LoadKN: rapid.Float64Range(10, 300).Draw(t, "load")})
+		}
+		n := rapid.IntRange(1, 3).Draw(t, "count")
+		tr.Consist = append(tr.Consist, traffic.Group{Vehicle: v, Min: n, Max: n})
+	}
+	if rapid.Bool().Draw(t, "part") {
+		from := rapid.Float64Range(-5, 20).Draw(t, "from")
+		tr.Parts = append(tr.Parts, traffic.Part{FromM: from, ToM: from + rapid.Float64Range(0.5, 30).Draw(t, "part length"),
+			QKNPerM: rapid.Float64Range(5, 150).Draw(t, "q"), Mode: traffic.Whole})
+	}
+	return tr
+}
+
+// forceAt is the brute force: the member force with the train's front at s (left to right),
+// summing every axle and integrating every part over the line directly (analysis.Interpolate;
+// the integral by the trapezium rule over the line's pieces, exact for a linear piece).
+func forceAt(x, eta []float64, tr *traffic.Train, s float64) float64 {
+	f := 0.0
+	for _, a := range tr.Axles(tr.Consist[len(tr.Consist)-1].Max) {
+		f += a.LoadKN * analysis.Interpolate(x, eta, s-a.AtM)
+	}
+	for _, p := range tr.Parts {
+		a, b := max(s-p.ToM, x[0]), min(s-p.FromM, x[len(x)-1])
+		if a >= b {
+			continue
+		}
+		pts := []float64{a}
+		for _, xv := range x {
+			if xv > a && xv < b {
+				pts = append(pts, xv)
+			}
+		}
+		pts = append(pts, b)
+		for k := 1; k < len(pts); k++ {
+			f += p.QKNPerM * (analysis.Interpolate(x, eta, pts[k-1]) + analysis.Interpolate(x, eta, pts[k])) / 2 * (pts[k] - pts[k-1])
+		}
+	}
+	return f
+}
+
+func scaleOf(x, eta []float64, tr *traffic.Train) float64 {
+	w := 0.0
+	for _, a := range tr.Axles(tr.Consist[len(tr.Consist)-1].Max) {
+		w += a.LoadKN
+	}
+	for _, p := range tr.Parts {
+		w += p.QKNPerM * (p.ToM - p.FromM)
+	}
+	e := 0.0
+	for _, v := range eta {
+		e = max(e, math.Abs(v))
+	}
+	return max(w*e, 1)
+}
+
+// The history's extremes over both directions are the envelope's (screening/envelope, an
+// independent sweep with its own brute-force tests), and every point of the history away from
+// a jump is the brute-force force at its position, and the brute force at random positions
+// never leaves the range of the history's neighbouring points.
+func TestHistoryAgreesWithEnvelopeAndBruteForce(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		x, eta := genLine(t)
+		tr := genPassageTrain(t)
+		l, p := prepared(t, x, eta, tr)
+		env, err := envelope.Compute(x, [][]float64{eta}, tr, envelope.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		tol := 1e-9 * scaleOf(x, eta, tr)
+		var c Calculator
+		hi, lo := 0.0, 0.0
+		for _, dir := range []Direction{LeftToRight, RightToLeft} {
+			h := c.History(l, p, dir, nil)
+			if h[0].Value != 0 || math.Abs(h[len(h)-1].Value) > tol {
+				t.Fatalf("%s: history does not start and end empty: %v", dir, h)
+			}
+			xd, ed := x, eta
+			if dir == RightToLeft {
+				xd, ed = mirror(x, eta)
+			}
+			for k, pt := range h {
+				hi, lo = max(hi, pt.Value), min(lo, pt.Value)
+				nearJump := (k > 0 && h[k-1].HeadM == pt.HeadM) || (k+1 < len(h) && h[k+1].HeadM == pt.HeadM)
+				if !nearJump {
+					if want := forceAt(xd, ed, tr, pt.HeadM); math.Abs(want-pt.Value) > tol {
+						t.Fatalf("%s: point %d at %v: history %v, brute force %v", dir, k, pt.HeadM, pt.Value, want)
+					}
+				}
+				if k == 0 {
+					continue
+				}
+				// Between two points the force is monotonic: any position in between lies
+				// within their values.
+				a := h[k-1]
+				if pt.HeadM > a.HeadM {
+					// kept off the ends, where a jump at a bearing lies a rounding away
+					s := a.HeadM + (0.001+0.998*rapid.Float64Range(0, 1).Draw(t, "between"))*(pt.HeadM-a.HeadM)
+					if s > a.HeadM && s < pt.HeadM {
+						f := forceAt(xd, ed, tr, s)
+						if f > max(a.Value, pt.Value)+tol || f < min(a.Value, pt.Value)-tol {
+							t.Fatalf("%s: force %v at %v outside its points' values %v and %v", dir, f, s, a.Value, pt.Value)
+						}
+					}
+				}
+			}
+		}
+		// screening/envelope: the largest tension and compression over both directions.
+		if math.Abs(hi-env[0].Max.Value) > tol || math.Abs(lo-env[0].Min.Value) > tol {
+			t.Fatalf("history extremes %v, %v; envelope %v, %v", hi, lo, env[0].Max.Value, env[0].Min.Value)
+		}
+	})
+}
+
+func mirror(x, eta []float64) ([]float64, []float64) {
+	n := len(x)
+	mx, me := make([]float64, n), make([]float64, n)
+	for j := range x {
+		mx[j] = x[0] + x[n-1] - x[n-1-j]
+		me[j] = eta[n-1-j]
+	}
+	return mx, me
+}
+
+// TestSteadyCountsAreLinear: a passage of a train with many identical vehicles has the
+// damage of steady's two shorter trains extended linearly (the shortcut Check takes), on any
+// line and train: the reference counts the real train's whole history (Turning, Rainflow).
+func TestSteadyCountsAreLinear(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		x, eta := genLine(t)
+		tr := genPassageTrain(t)
+		last := &tr.Consist[len(tr.Consist)-1]
+		span := x[len(x)-1] - x[0]
+		p0, err := PrepareTrain(tr)
+		if err != nil {
+			t.Fatal(err)
+		}
+		// enough vehicles that the shortcut applies, and a few more
+		n := p0.steady(span)
+		if n >= p0.count {
+			n = int(math.Ceil((p0.tailM-p0.r0+span)/p0.unitLen)) + 3
+		}
+		last.Min = n + rapid.IntRange(2, 8).Draw(t, "extra vehicles")
+		last.Max = last.Min
+		p, err := PrepareTrain(tr)
+		if err != nil {
+			t.Fatal(err)
+		}
+		l, err := NewLine(x, eta)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if p.steady(span) >= p.count {
+			t.Fatalf("steady count %d not below the train's %d", p.steady(span), p.count)
+		}
+		curve, _ := NewCurve(71, 1)
+		// ranges up to about 150 MPa: on both slopes of the curve
+		scale := 150 / max(scaleOf(x, eta, tr), 1e-9)
+		var c Calculator
+		for _, dir := range []Direction{LeftToRight, RightToLeft} {
+			c.Forget()
+			got := c.passage(l, p, dir, span).damage(curve, scale)
+			h := c.History(l, p, dir, nil)
+			cycles, _ := Rainflow(Turning(h, PassageTol(l, p), nil), nil, nil)
+			want := curve.Damage(cycles, scale)
+			if math.Abs(got-want) > 1e-9*max(want, 1e-12) {
+				t.Fatalf("%s, %d vehicles (steady %d): shortcut damage %v, whole history %v", dir, p.count, p.steady(span), got, want)
+			}
+		}
+	})
+}
