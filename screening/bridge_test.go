@@ -46,12 +46,7 @@ func TestSingleAxleClosedForm(t *testing.T) {
 	if res.Err != nil {
 		t.Fatal(res.Err)
 	}
-	var m *screening.MemberResult
-	for i := range res.Members {
-		if res.Members[i].Label == "L2-L3" {
-			m = &res.Members[i]
-		}
-	}
+	m := memberNamed(res, "L2-L3")
 	dead, lex, lpr := 36*q, share*100*1.5, share*400*1.5
 	rfEx, rfPr := (cap-dead)/lex, (cap-dead)/lpr // working-stress rating equation, no dynamic allowance
 	near := func(a, b float64) bool { return math.Abs(a-b) < 1e-9*(1+math.Abs(b)) }

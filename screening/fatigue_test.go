@@ -12,6 +12,16 @@ import (
 	"github.com/trussfleet/trussfleet/screening/truss"
 )
 
+// memberNamed is the result of the member with the label (nil: none).
+func memberNamed(res screening.Result, label string) *screening.MemberResult {
+	for i := range res.Members {
+		if res.Members[i].Label == label {
+			return &res.Members[i]
+		}
+	}
+	return nil
+}
+
 // fatiguePlan is a plan with fatigue: one axle of existing and one of proposed traffic.
 func fatiguePlan(exKN, prKN float64) screening.Plan {
 	ref := func(name string, kn float64) screening.TrainRef {
@@ -47,12 +57,7 @@ func TestFatigueThroughScreen(t *testing.T) {
 	if res.Err != nil {
 		t.Fatal(res.Err)
 	}
-	var m *screening.MemberResult
-	for i := range res.Members {
-		if res.Members[i].Label == "L2-L3" {
-			m = &res.Members[i]
-		}
-	}
+	m := memberNamed(res, "L2-L3")
 	f := m.Fatigue
 	// Method of sections: 1.5 x 400 kN x 0.5 x 1.2 / 2000 mm² = 180 MPa.
 	want := m.Proposed.Max.Value * 1.2 * 1000 / 2000

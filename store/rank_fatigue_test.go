@@ -8,18 +8,23 @@ import (
 	"github.com/trussfleet/trussfleet/store/pgtest"
 )
 
+// execer runs statements on db, failing t on an error.
+func execer(t *testing.T, db *store.DB) func(q string) {
+	return func(q string) {
+		t.Helper()
+		if _, err := db.Pool.Exec(context.Background(), q); err != nil {
+			t.Fatalf("%s: %v", q, err)
+		}
+	}
+}
+
 // TestRankWeighsFatigue: the priority order takes the lower of the proposed RF and the
 // fatigue life index (internal/ranking), says where fatigue governs, and a pruned base run
 // passes the fatigue summary on to the run that takes its picture over (migration 016).
 func TestRankWeighsFatigue(t *testing.T) {
 	ctx := context.Background()
 	db := pgtest.DB(t)
-	exec := func(q string) {
-		t.Helper()
-		if _, err := db.Pool.Exec(ctx, q); err != nil {
-			t.Fatalf("%s: %v", q, err)
-		}
-	}
+	exec := execer(t, db)
 	exec(`INSERT INTO runs (id, status, program_version, config, config_hash, trains, bridges_total)
 		OVERRIDING SYSTEM VALUE VALUES (1, 'completed', 't', '{}', 'c', '{}', 4)`)
 	exec(`INSERT INTO result_sets (id, bridge_id, digest) OVERRIDING SYSTEM VALUE VALUES (7, 'NER-B', '\x01')`)

@@ -15,12 +15,7 @@ import (
 func TestPruneKeepsFailuresFailed(t *testing.T) {
 	ctx := context.Background()
 	db := pgtest.DB(t)
-	exec := func(q string) {
-		t.Helper()
-		if _, err := db.Pool.Exec(ctx, q); err != nil {
-			t.Fatalf("%s: %v", q, err)
-		}
-	}
+	exec := execer(t, db)
 	exec(`INSERT INTO runs (id, status, program_version, config, config_hash, trains, bridges_total)
 		OVERRIDING SYSTEM VALUE VALUES (1, 'completed', 't', '{}', 'c', '{}', 3)`)
 	exec(`INSERT INTO runs (id, status, mode, base_run_id, complete, program_version, config, config_hash, trains, bridges_total)
