@@ -8,9 +8,10 @@ import (
 )
 
 // memberE is member i's Cooper E rating, NaN (NULL) where the run did not ask for the
-// network view or the member is not rated under Cooper E80.
+// network view, the member is not rated under Cooper E80, or it is a floor element (the
+// network view rates the truss members, which come first in r.Members).
 func memberE(r screening.Result, i int) float64 {
-	if r.Network == nil {
+	if r.Network == nil || i >= len(r.Network.MemberE) {
 		return math.NaN()
 	}
 	return r.Network.MemberE[i]

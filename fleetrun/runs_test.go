@@ -115,7 +115,12 @@ func runToEnd(t *testing.T, db *store.DB, id int64, jobs int) {
 		}
 		time.Sleep(50 * time.Millisecond)
 	}
-	t.Fatalf("run %d did not complete", id)
+	// The jobs' own errors say why (a worker's failure is retried, not logged).
+	var errs []string
+	if err := db.Pool.QueryRow(ctx, "SELECT coalesce(array_agg(e::text), '{}') FROM river_job, unnest(errors) e").Scan(&errs); err != nil {
+		t.Logf("reading job errors: %v", err)
+	}
+	t.Fatalf("run %d did not complete; job errors: %s", id, strings.Join(errs, "\n"))
 }
 
 // TestRunScreensEveryBridgeOnce: a run over an invented fleet ends with exactly one result
