@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"github.com/trussfleet/trussfleet/internal/units"
+	"github.com/trussfleet/trussfleet/screening/fatigue"
 	"github.com/trussfleet/trussfleet/screening/rating"
 )
 
@@ -73,6 +74,8 @@ var flagMeaning = map[string]string{
 	string(rating.Worse):       "proposed RF below the existing RF by more than the set fraction",
 	string(rating.NewReversal): "dead plus live force changes sign under the proposed traffic only, by at least the set share of the larger force",
 	string(rating.NoCapacity):  "unrated: D + L acts in a sense with no capacity and no stored RF rated in it (flagged only where the settings ask)",
+	string(fatigue.FlagLife):   "remaining fatigue life under the proposed traffic (Miner's sum, EN 1993-1-9 S-N curve) shorter than the planning horizon",
+	string(fatigue.FlagRise):   "yearly fatigue damage under the proposed traffic more than the set factor times the existing",
 }
 
 // flagOrder lists the known flags in report order, then any others in the order met.
