@@ -184,8 +184,23 @@ func inventBridge(r *rand.Rand, i, line int, chainage float64) (screening.Bridge
 	}
 	row := []string{id, name, lines[line], f(round(chainage, 0.001)), typ, f(span), strconv.Itoa(n), f(depth), deck, "", "2", "0.5",
 		strconv.Itoa(tracks), f(dead), strconv.Itoa(year), "", "", inspected, "", "", "", "", "", "", "", ""}
+	lat, lon := place(line, chainage)
+	row[BridgeColumn("latitude")], row[BridgeColumn("longitude")] = f(round(lat, 1e-5)), f(round(lon, 1e-5))
 	withSection(&b, row, i, tracks)
 	return b, row
+}
+
+// place puts a bridge on the map: the invented railway's lines run straight out from one
+// junction, each on a bearing of its own, and a bridge stands its chainage along its line.
+// The junction's position is arbitrary (invented, like the railway: no real line or bridge
+// is there); the positions only let the map export show the fleet.
+func place(line int, chainageKm float64) (lat, lon float64) {
+	const junctionLat, junctionLon = 61.3, 9.2 // degrees, WGS 84
+	const kmPerDegree = 111.32                 // along a meridian (common practice)
+	bearing := (25 + 70*float64(line)) * math.Pi / 180
+	lat = junctionLat + chainageKm*math.Cos(bearing)/kmPerDegree
+	lon = junctionLon + chainageKm*math.Sin(bearing)/(kmPerDegree*math.Cos(junctionLat*math.Pi/180))
+	return lat, lon
 }
 
 // withSection gives some bridges a cross-section, chosen by their number so that the random
