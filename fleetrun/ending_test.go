@@ -85,7 +85,9 @@ func TestTimedOutChunkIsSplit(t *testing.T) {
 		}
 		return screening.ScreenAll(ctx, bs, s, threads)
 	}
-	wc, err := fleetrun.NewWorkerClientScreening(db, fleetrun.WorkerOptions{Jobs: 2, Threads: 1, JobTimeout: 300 * time.Millisecond,
+	// The slow bridge waits for the job's end, so the timeout costs the test its own length
+	// only; it is long enough that the other bridges never reach it on a loaded machine.
+	wc, err := fleetrun.NewWorkerClientScreening(db, fleetrun.WorkerOptions{Jobs: 2, Threads: 1, JobTimeout: 3 * time.Second,
 		RescueAfter: time.Minute}, hang)
 	if err != nil {
 		t.Fatal(err)
@@ -94,7 +96,7 @@ func TestTimedOutChunkIsSplit(t *testing.T) {
 		t.Fatal(err)
 	}
 	defer wc.Stop(ctx)
-	waitRun(t, db, id, 30*time.Second)
+	waitRun(t, db, id, 60*time.Second)
 	for b, st := range bridgeStates(t, db, id) {
 		switch {
 		case b == slow && (st[0] != "failed" || !strings.Contains(st[1], "longer than the job timeout")):
