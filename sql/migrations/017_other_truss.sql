@@ -9,3 +9,10 @@ ALTER TABLE member_assessments
     ADD COLUMN other_truss text NOT NULL DEFAULT '' CHECK (other_truss IN ('', 'A', 'B')),
     ADD COLUMN other_rf_existing double precision,
     ADD COLUMN other_rf_proposed double precision;
+
+---- create above / drop below ----
+
+ALTER TABLE member_assessments
+    DROP COLUMN other_rf_proposed,
+    DROP COLUMN other_rf_existing,
+    DROP COLUMN other_truss;
