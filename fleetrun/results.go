@@ -276,6 +276,7 @@ func (e *resultEncoder) memberAssessment(setID int64, m screening.MemberResult) 
 		e.ma.RFProposed = finite(a.WorstPr.RF)
 		e.ma.SenseProposed = m.SenseName(a.WorstPr.Sense)
 	}
+	e.ma.Other = otherTrussColumns(m.Other)
 	e.copy.MemberAssessment(&e.ma)
 }
 

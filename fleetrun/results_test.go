@@ -55,7 +55,7 @@ func referenceRows(setIDs []int64, results []screening.Result) (mr, ma [][]any) 
 				sense = a.WorstPr.Sense.String()
 			}
 			ma = append(ma, append([]any{setIDs[i], m.Label, fleetrun.RFOrNil(a.WorstEx, a.HasEx), fleetrun.RFOrNil(a.WorstPr, a.HasPr),
-				sense, fleetrun.Num(a.DemandIncrease), flags}, fat...))
+				sense, fleetrun.Num(a.DemandIncrease), flags}, append(fat, otherRow(m.Other)...)...))
 		}
 	}
 	return mr, ma
@@ -166,7 +166,9 @@ var (
 		pgtype.TextOID, pgtype.Float8OID, pgtype.TextArrayOID,
 		// the fatigue columns (migration 016)
 		pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID,
-		pgtype.Float8OID, pgtype.Float8OID, pgtype.Int4OID, pgtype.Float8OID, pgtype.Float8OID, pgtype.TextOID}
+		pgtype.Float8OID, pgtype.Float8OID, pgtype.Int4OID, pgtype.Float8OID, pgtype.Float8OID, pgtype.TextOID,
+		// the other truss (migration 017)
+		pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID}
 )
 
 // pgxCopyStream encodes rows as pgx v5's CopyFrom does before it sends them (copy_from.go,
@@ -220,7 +222,8 @@ func edgeResults() []screening.Result {
 					Proposed: []rating.Factor{{Sense: rating.Compression, RF: 0.97, Basis: rating.FromCapacity}},
 					WorstEx:  rating.Factor{Sense: rating.Compression, RF: 1.43}, HasEx: true,
 					WorstPr: rating.Factor{Sense: rating.Compression, RF: 0.97}, HasPr: true,
-					DemandIncrease: 0.2, Flags: []rating.Flag{rating.Exceeds, rating.Worse}}},
+					DemandIncrease: 0.2, Flags: []rating.Flag{rating.Exceeds, rating.Worse}},
+				Other: &screening.OtherTruss{Truss: "B", RFExisting: nan, RFProposed: 1.125, HasEx: true, HasPr: true}},
 			{Label: "L0–U1", Kind: truss.EndPost, Dead: nan,
 				Existing: screening.Envelope{Max: loadedAt(inf, "Brøgg shuttle ✓", envelope.RightToLeft, nan, -inf, inf, 3),
 					Min: screening.Extreme{Value: -inf}, Impact: nan},
@@ -535,4 +538,20 @@ func BenchmarkEncodeResults(b *testing.B) {
 	mr, ma := referenceRows(ids, results)
 	b.Logf("one job: %d bridges, %d member_results and %d member_assessments rows, %d + %d bytes", len(results), len(mr), len(ma),
 		len(fleetrun.EncodeMemberResults(nil, ids, results)), len(fleetrun.EncodeMemberAssessments(nil, ids, results)))
+}
+
+// otherRow is the other-truss columns of a member_assessments row, built from the screening
+// result: "" and NULLs where one truss was screened.
+func otherRow(o *screening.OtherTruss) []any {
+	if o == nil {
+		return []any{"", nil, nil}
+	}
+	var ex, pr *float64
+	if o.HasEx {
+		ex = fleetrun.Num(o.RFExisting)
+	}
+	if o.HasPr {
+		pr = fleetrun.Num(o.RFProposed)
+	}
+	return []any{o.Truss, ex, pr}
 }

@@ -149,7 +149,7 @@ func storedMembers(ctx context.Context, db *store.DB, run report.Run, bridgeID s
 	}
 	for _, a := range assessments {
 		members[a.Member] = &report.Member{Label: a.Member, RFExisting: ptr(a.RFExisting), RFProposed: ptr(a.RFProposed),
-			SenseProposed: a.SenseProposed, Flags: a.Flags, Fatigue: fatigueOf(a.Fatigue)}
+			SenseProposed: a.SenseProposed, Flags: a.Flags, Fatigue: fatigueOf(a.Fatigue), Other: otherOf(a.Other)}
 	}
 	results, err := db.MemberResults(ctx, *set)
 	if err != nil {
@@ -217,4 +217,13 @@ func ptr(v pgtype.Float8) *float64 {
 func section(b store.Bridge) report.Section {
 	return report.Section{TrackOffsetsM: b.TrackOffsetsM, TrussWeightKNPerM: b.TrussWeightKNPerM, TrussSpacingM: store.OrZero(b.TrussSpacingM),
 		LineSpeedKmh: store.OrZero(b.LineSpeedKmh), FirstFrequencyHz: store.OrZero(b.FirstFrequencyHz)}
+}
+
+// otherOf is a member's stored outcome on the truss that does not govern it; nil where one
+// truss was screened.
+func otherOf(o store.OtherTrussColumns) *report.OtherTruss {
+	if o.Truss == "" {
+		return nil
+	}
+	return &report.OtherTruss{Truss: o.Truss, RFExisting: ptr(o.RFExisting), RFProposed: ptr(o.RFProposed)}
 }

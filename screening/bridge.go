@@ -180,6 +180,9 @@ type MemberResult struct {
 	Effect string
 	// Fatigue is the member's fatigue check; nil when the run checks no fatigue.
 	Fatigue *fatigue.Result
+	// Other is the member's outcome on the truss that does not govern it; nil where only one
+	// truss is screened (other_truss.go).
+	Other *OtherTruss
 }
 
 // Result is one bridge's outcome.
@@ -334,8 +337,13 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 			}
 			m := MemberResult{Label: l.Label, Kind: l.Kind, Dead: dead, Truss: tr, Existing: ex[k][i], Proposed: pr[k][i], Assessment: a, Dynamic: dyn[i]}
 			if k == 0 || governs(m, res.Members[i]) {
+				if k > 0 {
+					keepOther(&m, res.Members[i])
+				}
 				assess[i] = a
 				res.Members[i] = m
+			} else {
+				keepOther(&res.Members[i], m)
 			}
 		}
 	}

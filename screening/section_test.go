@@ -238,3 +238,36 @@ func TestTrussMembers(t *testing.T) {
 		t.Error("a truss row of a member the geometry lacks was accepted")
 	}
 }
+
+// TestOtherTrussKept: one track 0.6 m towards A between trusses 5.2 m apart puts
+// 1/2 + 0.6/5.2 of its load on A and 1/2 - 0.6/5.2 on B (lever rule, common practice). A
+// governs L2-L3; B's outcome is kept beside it, its RF that of B's share: working stress
+// without dead load or allowance, RF = C / (share × 1.5 P) (method of sections for the
+// single axle over L2, as in pratt48). A symmetric bridge screens one truss and keeps none.
+func TestOtherTrussKept(t *testing.T) {
+	const pEx, pPr, c = 100.0, 400.0, 600.0
+	s := settings(t, axle("existing axle", pEx), axle("proposed axle", pPr))
+	b := pratt48(0, 0, 5.2, 0.6)
+	b.DeadLoadKNPerM = 0
+	b.Members = map[string]rating.Member{"L2-L3": {CapacityTension: c, CapacityCompression: c}}
+	m := member(t, screening.ScreenBridge(b, s), "L2-L3")
+	shareA, shareB := 0.5+0.6/5.2, 0.5-0.6/5.2 // lever rule
+	if m.Truss != "A" || m.Other == nil || m.Other.Truss != "B" || !m.Other.HasPr || !m.Other.HasEx {
+		t.Fatalf("governing truss %s, other %+v; want A with B's outcome kept", m.Truss, m.Other)
+	}
+	for _, chk := range []struct {
+		name      string
+		got, want float64
+	}{
+		{"A proposed", m.Assessment.WorstPr.RF, c / (shareA * 1.5 * pPr)},
+		{"B proposed", m.Other.RFProposed, c / (shareB * 1.5 * pPr)},
+		{"B existing", m.Other.RFExisting, c / (shareB * 1.5 * pEx)},
+	} {
+		if math.Abs(chk.got-chk.want) > 1e-9*chk.want { // source: lever rule and method of sections
+			t.Errorf("%s RF %g, want %g", chk.name, chk.got, chk.want)
+		}
+	}
+	if m := member(t, screening.ScreenBridge(pratt48(0.5, 1, 0), s), "L2-L3"); m.Other != nil {
+		t.Errorf("a bridge without a cross-section kept another truss: %+v", m.Other)
+	}
+}

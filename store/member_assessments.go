@@ -9,7 +9,7 @@ import (
 )
 
 // Table member_assessments: sql/migrations/002_screening.sql, 004, 009 (made anew, keyed by
-// result set), 012 (fatigue).
+// result set), 012 (fatigue), 017 (the other truss).
 
 // MemberAssessment is a row of member_assessments: one member's rating under both scenarios
 // and its flags, in a result set.
@@ -27,6 +27,15 @@ type MemberAssessment struct {
 	// Fatigue is the member's fatigue check (migration 016); its Status is "" where the run
 	// checked no fatigue.
 	Fatigue FatigueColumns
+	// Other is the member's outcome on the truss that does not govern it (migration 017).
+	Other OtherTrussColumns
+}
+
+// OtherTrussColumns are a member's lowest rating factors, existing and proposed, on the main
+// truss that does not govern it; Truss is "" (the factors NULL) where one truss was screened.
+type OtherTrussColumns struct {
+	Truss                  string
+	RFExisting, RFProposed pgtype.Float8
 }
 
 // FatigueColumns are a member's fatigue outcome: the status (no-data, below-cut-off,
@@ -67,6 +76,9 @@ var memberAssessmentColumns = []column[MemberAssessment]{
 	{"fatigue_range_existing_mpa", func(a *MemberAssessment) any { return &a.Fatigue.RangeExistingMPa }},
 	{"fatigue_range_proposed_mpa", func(a *MemberAssessment) any { return &a.Fatigue.RangeProposedMPa }},
 	{"fatigue_train", func(a *MemberAssessment) any { return &a.Fatigue.Train }},
+	{"other_truss", func(a *MemberAssessment) any { return &a.Other.Truss }},
+	{"other_rf_existing", func(a *MemberAssessment) any { return &a.Other.RFExisting }},
+	{"other_rf_proposed", func(a *MemberAssessment) any { return &a.Other.RFProposed }},
 }
 
 // fatigueColumns lists member_assessments' fatigue columns (their names begin fatigue_),

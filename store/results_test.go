@@ -59,8 +59,9 @@ func TestResultRowsRoundTrip(t *testing.T) {
 	}
 	assessments := []store.MemberAssessment{
 		{SetID: set, Member: "U1-U2", RFExisting: f(1.43), RFProposed: f(0.97), SenseProposed: "compression",
-			DemandIncrease: f(0.2), Flags: []string{"exceeds", "naïve, {braced} \"quoted\" \\ flag"}},
-		{SetID: set, Member: "L0-L1", DemandIncrease: f(0), Flags: []string{}},
+			DemandIncrease: f(0.2), Flags: []string{"exceeds", "naïve, {braced} \"quoted\" \\ flag"},
+			Other: store.OtherTrussColumns{Truss: "B", RFExisting: f(1.875), RFProposed: f(1.2)}},
+		{SetID: set, Member: "L0-L1", DemandIncrease: f(0), Flags: []string{}, Other: store.OtherTrussColumns{Truss: "A", RFProposed: f(0.5)}},
 	}
 	var e store.CopyEncoder
 	err := pgx.BeginFunc(ctx, db.Pool, func(tx pgx.Tx) error {

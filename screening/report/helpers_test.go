@@ -232,6 +232,15 @@ func memberOf(m screening.MemberResult, inv rating.Member, trains map[string]*tr
 	}
 	out.Existing = scenarioOf(m.Existing, a.Existing, trains)
 	out.Proposed = scenarioOf(m.Proposed, a.Proposed, trains)
+	if o := m.Other; o != nil {
+		out.Other = &OtherTruss{Truss: o.Truss}
+		if o.HasEx {
+			out.Other.RFExisting = ptr(o.RFExisting)
+		}
+		if o.HasPr {
+			out.Other.RFProposed = ptr(o.RFProposed)
+		}
+	}
 	for _, s := range []struct {
 		out *Scenario
 		e   screening.Envelope

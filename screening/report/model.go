@@ -109,6 +109,9 @@ type Member struct {
 	// Fatigue is the member's stored fatigue outcome (Status "" where the run checked no
 	// fatigue).
 	Fatigue Fatigue
+	// Other is the member's outcome on the truss that does not govern it; nil where one truss
+	// was screened (other_truss.go).
+	Other *OtherTruss
 }
 
 // Fatigue is a member's fatigue outcome as stored: status (no-data, below-cut-off, damaged),

@@ -117,6 +117,7 @@ func explainSection(w io.Writer, b Bridge, m Member, u units.System) {
 	if m.Truss != "" {
 		fmt.Fprintf(w, "  results of truss %s, the one that governs this member\n", m.Truss)
 	}
+	explainOther(w, m)
 	if b.Section.TrussWeightKNPerM > 0 {
 		fmt.Fprintf(w, "  of the dead load, %s %s is the truss's own weight, half at each chord's joints; the rest acts at the deck chord's panel points\n",
 			qty(u, units.PerLength, b.Section.TrussWeightKNPerM), u.Name(units.PerLength))

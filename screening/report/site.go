@@ -441,6 +441,8 @@ type bridgeView struct {
 	Sections   []section
 	// SupportWord says where the bearings are (forms.go).
 	SupportWord string
+	// Trusses lists the members whose trusses' proposed RF differ (other_truss.go).
+	Trusses []trussRow
 }
 
 type memberRow struct {
@@ -521,6 +523,7 @@ func bridgePage(run Run, b Bridge, u units.System) bridgeView {
 		e := drawElevation(t, run, byLabel, u)
 		v.Elevation = &e
 		v.FloorPlan = floorPlan(run, b, t, u)
+		v.Trusses = trussRows(b.Members)
 	}
 	// Most severe first: the member that matters is not to be found 24th in the geometry's
 	// order.
