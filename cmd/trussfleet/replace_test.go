@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"fmt"
 	"path/filepath"
 	"regexp"
@@ -8,6 +9,7 @@ import (
 	"testing"
 
 	"github.com/trussfleet/trussfleet/screening/truss"
+	"github.com/trussfleet/trussfleet/store"
 	"github.com/trussfleet/trussfleet/store/pgtest"
 )
 
@@ -99,4 +101,49 @@ func TestImportMembersReplace(t *testing.T) {
 	// R-2, in the first file only, keeps its rows: the count removed is R-1's alone, and both
 	// bridges now screen.
 	run(false, "screen")
+}
+
+// TestDemoReplacesOlderMembers: a database that holds a demo bridge's member row of another
+// geometry (as one made by an older demo fleet does) screens the whole demo fleet again:
+// the demo's members.csv replaces the rows of the bridges it lists.
+func TestDemoReplacesOlderMembers(t *testing.T) {
+	if testing.Short() {
+		t.Skip("screens the whole demo fleet")
+	}
+	ctx := context.Background()
+	url := pgtest.URL(t)
+	root := filepath.Join("..", "..")
+	base := []string{"--database-url", url}
+	if out, err := runCmd(t, append(base, "import", "bridges", filepath.Join(root, "testdata", "demo", "bridges.csv"))...); err != nil {
+		t.Fatalf("%v\n%s", err, out)
+	}
+	db, err := store.Open(ctx, store.Options{URL: url})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	// A label no demo geometry has: written past the importer, which checks labels against
+	// the bridge's present geometry, as the rows of an older geometry were once checked.
+	if _, err := db.Pool.Exec(ctx, `INSERT INTO members (bridge_id, member, truss, capacity_tension_kn, condition_factor)
+		VALUES ('NER-00001', 'L98-L99', '', 1000, 1)`); err != nil {
+		t.Fatal(err)
+	}
+	out, err := runCmd(t, append(base, "demo", "--from", filepath.Join(root, "testdata", "demo"),
+		"--trains", filepath.Join(root, "configs", "trains"), "--traffic", filepath.Join(root, "testdata", "demo", "traffic.yaml"),
+		"--out", t.TempDir())...)
+	if err != nil {
+		t.Fatalf("demo over an older member row: %v\n%s", err, out)
+	}
+	if !regexp.MustCompile(`Imported members .*, 1 removed\n`).MatchString(out) {
+		t.Errorf("demo output, want the older row removed:\n%s", out)
+	}
+	ms, err := db.Members(ctx, "NER-00001")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, m := range ms {
+		if m.Member == "L98-L99" {
+			t.Errorf("the older row is still stored")
+		}
+	}
 }
