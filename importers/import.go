@@ -20,19 +20,25 @@ type Options struct {
 	Check bool
 	// Sheet names the sheet of an .xlsx workbook to read; "" reads the first.
 	Sheet string
+	// Replace, for a members import only: the file is the whole truth for every bridge it
+	// has rows for, so stored member rows of those bridges that the file does not list are
+	// deleted in the same transaction (Counts.Deleted). Bridges the file does not mention
+	// keep their rows.
+	Replace bool
 }
 
 // Result says what an import did (or, with Options.Check, would do).
 type Result struct {
-	File    string
-	Kind    store.Kind
-	Counts  store.Counts
-	Ignored []string // columns of the file that trussfleet does not use
-	Format  string   // how the file was read, when not UTF-8 with commas (Report.Format)
-	Checked bool     // Options.Check: nothing was written
-	BatchID int64    // the import_batches row, 0 when nothing was written
-	SHA256  string   // of the file as read
-	Notes   []string // what the import found besides its counts (joint tables: each truss's degree of indeterminacy)
+	File     string
+	Kind     store.Kind
+	Counts   store.Counts
+	Ignored  []string // columns of the file that trussfleet does not use
+	Format   string   // how the file was read, when not UTF-8 with commas (Report.Format)
+	Checked  bool     // Options.Check: nothing was written
+	Replaced bool     // Options.Replace: Counts.Deleted says how many stored rows the file dropped
+	BatchID  int64    // the import_batches row, 0 when nothing was written
+	SHA256   string   // of the file as read
+	Notes    []string // what the import found besides its counts (joint tables: each truss's degree of indeterminacy)
 }
 
 // ImportBridgesFile imports a bridges CSV file from disk.
@@ -88,7 +94,10 @@ func ImportMembers(ctx context.Context, db *store.DB, file string, r io.Reader, 
 // nothing when any row is bad or a key repeats.
 func load[T store.Row](ctx context.Context, db *store.DB, kind store.Kind, file string, r io.Reader, opts Options,
 	key []string, parse func(io.Reader, func(store.Staged[T]) bool) (Report, error)) (Result, error) {
-	res := Result{File: file, Kind: kind, Checked: opts.Check}
+	res := Result{File: file, Kind: kind, Checked: opts.Check, Replaced: opts.Replace}
+	if opts.Replace && kind != store.KindMembers {
+		return res, fmt.Errorf("%s: replacing applies to a members file only, not to %s", file, kind)
+	}
 	im, err := db.BeginImport(ctx, kind, file)
 	if err != nil {
 		return res, err
@@ -112,6 +121,11 @@ func load[T store.Row](ctx context.Context, db *store.DB, kind store.Kind, file 
 	}
 	if res.Counts, err = im.Merge(ctx); err != nil {
 		return res, fmt.Errorf("%s: %w", file, err)
+	}
+	if opts.Replace {
+		if res.Counts.Deleted, err = im.DropAbsent(ctx); err != nil {
+			return res, fmt.Errorf("%s: %w", file, err)
+		}
 	}
 	res.SHA256 = hex.EncodeToString(h.Sum(nil))
 	if opts.Check {

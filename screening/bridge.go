@@ -267,7 +267,7 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 	for _, ms := range b.allMembers() {
 		for label := range ms {
 			if t.Member(label) < 0 && !isFloorLabel(label) {
-				return fail(fmt.Errorf("inventory member %q is not in the %s geometry (members: %s)", label, t.Params.Type, strings.Join(t.Labels(), ", ")))
+				return fail(fmt.Errorf("inventory member %q is not in the %s geometry (members: %s) (import members.csv with --replace to drop rows of an older geometry)", label, t.Params.Type, strings.Join(t.Labels(), ", ")))
 			}
 		}
 	}

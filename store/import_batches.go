@@ -28,6 +28,7 @@ type Counts struct {
 	Inserted  int // new keys
 	Updated   int // existing keys whose values changed
 	Unchanged int // existing keys with the same values
+	Deleted   int // stored rows absent from the file, removed by a replacing import (Import.DropAbsent)
 }
 
 // Batch is one recorded import.

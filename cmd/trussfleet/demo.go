@@ -56,7 +56,7 @@ Running it again re-imports (nothing changes) and screens again as a new run.`,
 					return importers.ImportTrussTablesFile(ctx, db, filepath.Join(from, "trusses.csv"), importers.Options{})
 				}},
 				{"members", func() (importers.Result, error) {
-					return importers.ImportMembersFile(ctx, db, filepath.Join(from, "members.csv"), importers.Options{})
+					return importers.ImportMembersFile(ctx, db, filepath.Join(from, "members.csv"), importers.Options{Replace: true})
 				}},
 			}
 			for _, s := range steps {
@@ -65,7 +65,7 @@ Running it again re-imports (nothing changes) and screens again as a new run.`,
 					return err
 				}
 				c := res.Counts
-				fmt.Fprintf(out, "Imported %-8s %s: %d inserted, %d updated, %d unchanged\n", s.what, res.File, c.Inserted, c.Updated, c.Unchanged)
+				fmt.Fprintf(out, "Imported %-8s %s: %d inserted, %d updated, %d unchanged%s\n", s.what, res.File, c.Inserted, c.Updated, c.Unchanged, removed(res, ", %d removed"))
 			}
 			if err := useDemoTraffic(&a.cfg, traffic); err != nil {
 				return err
