@@ -101,12 +101,9 @@ func TestFloorLimitsCategories(t *testing.T) {
 	}
 }
 
-// TestFloorERating: the bridge's E rating is its stringer's, 80 x the stringer's RF under
-// Cooper E80 (AREMA practice, from memory: the E rating is 80 RF), here against the RF of the
-// same bridge screened with Cooper E80 as its proposed traffic, and each floor element's
-// E rating sits at its index in the results.
-func TestFloorERating(t *testing.T) {
-	b, s, _, _ := floorNetworkBridge(t)
+// screenUnderE80 screens the bridge with Cooper E80 as its proposed traffic.
+func screenUnderE80(t *testing.T, b screening.Bridge, s *screening.Settings) screening.Result {
+	t.Helper()
 	pr, err := screening.NewScenario("proposed", []*traffic.Train{traffic.Cooper(80)})
 	if err != nil {
 		t.Fatal(err)
@@ -116,6 +113,16 @@ func TestFloorERating(t *testing.T) {
 	if res.Err != nil {
 		t.Fatal(res.Err)
 	}
+	return res
+}
+
+// TestFloorERating: the bridge's E rating is its stringer's, 80 x the stringer's RF under
+// Cooper E80 (AREMA practice, from memory: the E rating is 80 RF), here against the RF of the
+// same bridge screened with Cooper E80 as its proposed traffic, and each floor element's
+// E rating sits at its index in the results.
+func TestFloorERating(t *testing.T) {
+	b, s, _, _ := floorNetworkBridge(t)
+	res := screenUnderE80(t, b, s)
 	if len(res.Network.MemberE) != len(res.Members) {
 		t.Fatalf("%d member E ratings for %d results", len(res.Network.MemberE), len(res.Members))
 	}
