@@ -8,8 +8,8 @@ import (
 )
 
 // memberE is member i's Cooper E rating, NaN (NULL) where the run did not ask for the
-// network view, the member is not rated under Cooper E80, or it is a floor element (the
-// network view rates the truss members, which come first in r.Members).
+// network view or the member (a truss member or a rated floor element) is not rated under
+// Cooper E80.
 func memberE(r screening.Result, i int) float64 {
 	if r.Network == nil || i >= len(r.Network.MemberE) {
 		return math.NaN()

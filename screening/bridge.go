@@ -217,6 +217,9 @@ type Screener struct {
 	// scaled holds a train's extremes scaled by its speed factor (speed.go), while merged.
 	scaled []envelope.Extremes
 	floor  floor.Analyser
+	// floorRated is what screenFloor prepared of the current bridge's rated floor system, for
+	// the network view (floor_network.go); nil where the floor is not rated.
+	floorRated *floorRated
 }
 
 type sweptTrain struct {
@@ -355,7 +358,8 @@ func (w *Screener) Screen(b Bridge, s *Settings) (res Result) {
 	}
 	res.Summary = rating.Summarise(assess)
 	if s.Network != nil {
-		// The truss members only (the floor elements follow them in res.Members).
+		// The truss members (the floor elements follow them in res.Members: rateNetwork
+		// takes them from w.floorRated).
 		if res.Network, err = w.rateNetwork(b, s, el, ords, res.Members[:len(lines.Members)], refs, trusses, md); err != nil {
 			return fail(err)
 		}

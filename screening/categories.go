@@ -46,14 +46,15 @@ func NewNetworkTrains() (*NetworkTrains, error) {
 }
 
 // NetworkResult is a bridge's network outcome: its line categories and Cooper E rating, and
-// each member's E rating (MemberE, indexing Result.Members; NaN where the member is not rated
-// under Cooper E80).
+// each member's E rating (MemberE, indexing Result.Members, the floor elements' too; NaN where
+// the member is not rated under Cooper E80).
 type NetworkResult struct {
 	network.Rating
 	MemberE []float64
 }
 
-// rateNetwork rates the bridge's truss members under the network trains, with each member's
+// rateNetwork rates the bridge's truss members, and its floor elements where the floor
+// system is rated (floor_network.go), under the network trains, with each member's
 // dynamic allowance and the bridge's cross-section (each track alone and all tracks with the
 // multiple-presence rule, on both trusses where their loads differ: sectionEnvelopes, as the
 // scenarios are loaded), by rating.Rate with each member's capacities (or stored rating
@@ -116,6 +117,23 @@ func (w *Screener) rateNetwork(b Bridge, s *Settings, el *envelope.Lines, ords [
 			}
 		}
 	}
+	// The floor elements, where rated, follow the truss members (floor_network.go).
+	fl, err := w.floorNetwork(nt)
+	if err != nil {
+		return nil, err
+	}
+	if fl != nil {
+		for i, el := range fl.els {
+			e := math.NaN()
+			if f, ok := fl.rate(b, s, i, fl.e80[i], 1); ok && !math.IsInf(f.RF, 0) {
+				e = network.ERating(f.RF)
+				if math.IsNaN(out.ERating) || e < out.ERating {
+					out.ERating, out.EMember = e, el.Label
+				}
+			}
+			out.MemberE = append(out.MemberE, e)
+		}
+	}
 	geomOf := make([]int, len(network.Categories))
 	for g, geo := range nt.Geometries {
 		for _, c := range geo.Categories {
@@ -145,6 +163,9 @@ func (w *Screener) rateNetwork(b Bridge, s *Settings, el *envelope.Lines, ords [
 				nt.Geometries[short].LengthM, nt.Geometries[long].LengthM) {
 				cr.Limit = network.LimitAxleLoad
 			}
+		}
+		if fl != nil && fl.worstCategory(b, s, nt, c, geomOf[c], &cr) {
+			rated = true
 		}
 		cr.Pass = cr.RF >= 1
 		pass[c] = cr.Pass

@@ -123,15 +123,7 @@ func TestBridgeCarriesD4NotE4(t *testing.T) {
 // worst member's.
 func TestERatingIsEighty(t *testing.T) {
 	b, s, _, _, _ := categoryBridge(t)
-	pr, err := screening.NewScenario("proposed", []*traffic.Train{traffic.Cooper(80)})
-	if err != nil {
-		t.Fatal(err)
-	}
-	s.Proposed = pr
-	res := screening.ScreenBridge(b, s)
-	if res.Err != nil {
-		t.Fatal(res.Err)
-	}
+	res := screenUnderE80(t, b, s)
 	low, at := math.Inf(1), ""
 	for i, m := range res.Members {
 		a := m.Assessment

@@ -46,6 +46,7 @@ func (b Bridge) FloorSystemOf(t *truss.Truss) floor.System {
 // member results (kinds stringer and floor-beam), with the same rating equations, condition
 // factors and flags as the truss members; assess gains their assessments.
 func (w *Screener) screenFloor(b Bridge, s *Settings, t *truss.Truss, res *Result, assess []rating.Assessment) ([]rating.Assessment, error) {
+	w.floorRated = nil
 	if !b.Floor.Rate {
 		for label := range b.Members {
 			if isFloorLabel(label) {
@@ -98,11 +99,13 @@ func (w *Screener) screenFloor(b Bridge, s *Settings, t *truss.Truss, res *Resul
 	if s.FloorLengths != nil {
 		lengths = *s.FloorLengths
 	}
+	fr := &floorRated{sys: sys, els: els, impact: make([]float64, len(els)), refs: refs}
 	for i, e := range els {
 		impact := e.Impact(s.Dynamic, lengths)
 		if !(impact >= 1) || math.IsInf(impact, 0) {
 			return nil, fmt.Errorf("dynamic allowance %s gives 1 + I = %v for %s", s.Dynamic, impact, e.Label)
 		}
+		fr.impact[i] = impact
 		exE := Envelope{Max: ex[i].Max, Min: ex[i].Min, Impact: impact}
 		prE := Envelope{Max: pr[i].Max, Min: pr[i].Min, Impact: impact}
 		inv := b.Members[e.Label]
@@ -122,6 +125,7 @@ func (w *Screener) screenFloor(b Bridge, s *Settings, t *truss.Truss, res *Resul
 		res.Members = append(res.Members, MemberResult{Label: e.Label, Kind: e.Kind, Effect: string(e.Effect),
 			Dead: e.Dead, Existing: exE, Proposed: prE, Assessment: a})
 	}
+	w.floorRated = fr
 	return assess, nil
 }
 
