@@ -190,16 +190,28 @@ func inventBridge(r *rand.Rand, i, line int, chainage float64) (screening.Bridge
 	return b, row
 }
 
-// place puts a bridge on the map: the invented railway's lines run straight out from one
-// junction, each on a bearing of its own, and a bridge stands its chainage along its line.
-// The junction's position is arbitrary (invented, like the railway: no real line or bridge
-// is there); the positions only let the map export show the fleet.
+// place puts a bridge on the map: the invented railway's lines run out from one junction,
+// each on a bearing of its own, and a bridge stands its chainage along its line. A line
+// longer than lapKm (a large benchmark fleet's lines run to thousands of kilometres) folds
+// back and forth beside itself, lapGapKm further out at each lap, so that every position
+// stays a valid one near the junction. The junction's position is arbitrary (invented, like
+// the railway: no real line or bridge is there); the positions only let the map export show
+// the fleet.
 func place(line int, chainageKm float64) (lat, lon float64) {
 	const junctionLat, junctionLon = 61.3, 9.2 // degrees, WGS 84
 	const kmPerDegree = 111.32                 // along a meridian (common practice)
+	const lapKm, lapGapKm = 400.0, 6.0
+	lap := math.Floor(chainageKm / lapKm)
+	along := chainageKm - lap*lapKm
+	if int(lap)%2 == 1 {
+		along = lapKm - along // the way back
+	}
+	side := lap * lapGapKm
 	bearing := (25 + 70*float64(line)) * math.Pi / 180
-	lat = junctionLat + chainageKm*math.Cos(bearing)/kmPerDegree
-	lon = junctionLon + chainageKm*math.Sin(bearing)/(kmPerDegree*math.Cos(junctionLat*math.Pi/180))
+	north := along*math.Cos(bearing) - side*math.Sin(bearing)
+	east := along*math.Sin(bearing) + side*math.Cos(bearing)
+	lat = junctionLat + north/kmPerDegree
+	lon = junctionLon + east/(kmPerDegree*math.Cos(junctionLat*math.Pi/180))
 	return lat, lon
 }
 
