@@ -24,7 +24,9 @@ func (e *exitError) Unwrap() error { return e.err }
 
 func main() {
 	root := newRootCmd()
-	if err := root.Execute(); err != nil {
+	err := root.Execute()
+	stopProfile()
+	if err != nil {
 		// Messages quote inventory text (a bridge ID, a value of a file), so they are written
 		// through safetext, line by line.
 		fmt.Fprintln(os.Stderr, "trussfleet:", safetext.TerminalLines(err.Error()))

@@ -36,6 +36,9 @@ first; local codes, the owner's standards and licensed practice govern.`,
 		SilenceErrors: true,
 		PersistentPreRunE: func(cmd *cobra.Command, args []string) error {
 			a.stderr = cmd.ErrOrStderr()
+			if err := startProfile(cmd.Name()); err != nil {
+				return err
+			}
 			a.cfgUsed = a.cfgFile
 			if a.cfgUsed == "" {
 				a.cfgUsed = findConfigFile()
