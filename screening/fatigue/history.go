@@ -270,6 +270,7 @@ type Calculator struct {
 	// buildEvents' output and scratch, valid within one History.
 	events []event
 	heads  []int32
+	heap   []event
 	// Check's scratch, valid within one passage of yearly.
 	hist   []Point
 	turn   []float64
@@ -394,11 +395,21 @@ func (c *Calculator) walk(l *Line, tr *Train, dir Direction, emit func(s, v floa
 
 // buildEvents lists in c.events every position where an item reaches a kink, in order. The
 // items are in order of offset, so each kink's events are already in order; the lists of the
-// kinks are merged by taking the smallest head each time (a line has a few kinks: a chord
-// three, a diagonal four), earlier kinks first among equal positions.
+// kinks are merged, earlier kinks first among equal positions. Most lines have a few kinks
+// (a chord three, a diagonal four), merged by taking the smallest head each time; a line
+// with many (a continuous truss's members kink at every panel point) goes through a heap.
 func (c *Calculator) buildEvents(k *kinks, tr *Train) {
+	c.events = slices.Grow(c.events[:0], len(k.x)*len(tr.items))
+	if len(k.x) > heapMergeKinks {
+		c.heapEvents(k, tr)
+		return
+	}
+	c.scanEvents(k, tr)
+}
+
+// scanEvents is buildEvents' merge by scanning every kink's head for the smallest.
+func (c *Calculator) scanEvents(k *kinks, tr *Train) {
 	nk, ni := len(k.x), len(tr.items)
-	c.events = slices.Grow(c.events[:0], nk*ni)
 	c.heads = append(c.heads[:0], make([]int32, nk)...)
 	for {
 		best, bs := -1, math.Inf(1)
@@ -414,6 +425,61 @@ func (c *Calculator) buildEvents(k *kinks, tr *Train) {
 		}
 		c.events = append(c.events, event{s: bs, it: c.heads[best], j: int32(best)})
 		c.heads[best]++
+	}
+}
+
+// heapMergeKinks is the number of kinks above which buildEvents merges through a heap: below
+// it, scanning every head costs less than keeping the heap in order (BenchmarkBuildEvents).
+const heapMergeKinks = 4
+
+// heapEvents is buildEvents' merge through a binary heap of the kinks' next events, ordered
+// by position and then by kink: the same order as the scan of the heads.
+func (c *Calculator) heapEvents(k *kinks, tr *Train) {
+	ni := int32(len(tr.items))
+	if ni == 0 {
+		return
+	}
+	h := c.heap[:0]
+	for j, x := range k.x {
+		h = append(h, event{s: x + tr.items[0].d, it: 0, j: int32(j)})
+	}
+	for i := len(h)/2 - 1; i >= 0; i-- {
+		siftDown(h, i)
+	}
+	for len(h) > 0 {
+		top := h[0]
+		c.events = append(c.events, top)
+		if next := top.it + 1; next < ni {
+			h[0] = event{s: k.x[top.j] + tr.items[next].d, it: next, j: top.j}
+		} else {
+			h[0] = h[len(h)-1]
+			h = h[:len(h)-1]
+		}
+		siftDown(h, 0)
+	}
+	c.heap = h
+}
+
+// before orders a heap's events: by position, then by kink.
+func before(a, b event) bool { return a.s < b.s || (a.s == b.s && a.j < b.j) }
+
+// siftDown moves h[i] down the min-heap h to its place.
+func siftDown(h []event, i int) {
+	n := len(h)
+	for {
+		l := 2*i + 1
+		if l >= n {
+			return
+		}
+		m := l
+		if r := l + 1; r < n && before(h[r], h[l]) {
+			m = r
+		}
+		if !before(h[m], h[i]) {
+			return
+		}
+		h[i], h[m] = h[m], h[i]
+		i = m
 	}
 }
 
