@@ -77,7 +77,7 @@ func floorSection(run Run, b Bridge, t *truss.Truss, s section, i int, u units.S
 		s.Captions = append(s.Captions, fmt.Sprintf("Train %s as now defined does not give the run's effect here: its definition has changed since the run, so its loads are not drawn.", ex.Train))
 		drawn, ob = false, onBridge{}
 	}
-	ch := drawIL(fmt.Sprintf("m%d", i), m.Label, t.SpanM(), xs, eta, ob, ex.Direction == envelope.LeftToRight, ex.HeadM, drawn, u)
+	ch := drawIL(fmt.Sprintf("m%d", i), m.Label, t.SpanM(), xs, eta, ob, ex.Direction == envelope.LeftToRight, ex.HeadM, drawn, u, m.Kind == string(floor.KindStringer) && effectQty(m.Label) == units.Moment)
 	s.Chart = &ch
 	lu, q := u.Name(units.Length), effectQty(m.Label)
 	cap := fmt.Sprintf("Influence line of %s along the track: %s", m.Label, what)

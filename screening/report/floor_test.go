@@ -51,6 +51,47 @@ func TestFloorOnTheBridgePage(t *testing.T) {
 	if sec == nil || sec.Chart == nil {
 		t.Fatalf("no drawn section for S1-3:M: %+v", sec)
 	}
+	// A stringer's moment line is a moment per unit load: a length, in the page's length
+	// unit (kN·m per kN is m; kip-ft per kip is ft, 0.3048 m: the international foot).
+	if got := sec.Chart.YLabel.Text; got != "η (kN·m/kN)" {
+		t.Errorf("stringer moment line's axis %q, want η (kN·m/kN)", got)
+	}
+	vi := bridgePage(f.Run, br, units.Imperial)
+	imperial := 0
+	for _, si := range vi.Sections {
+		if si.Label != "S1-3:M" || si.Chart == nil {
+			continue
+		}
+		imperial++
+		if got := si.Chart.YLabel.Text; got != "η (kip-ft/kip)" || !strings.HasSuffix(si.Chart.XLabel.Text, "(ft)") {
+			t.Errorf("imperial axes %q, %q", got, si.Chart.XLabel.Text)
+		}
+		// The line's peak stands at the section x_i the governing train's largest moment is
+		// at: x_i (L - x_i) / L per unit load (simple beam, textbook), half of it for each of
+		// the track's two stringer lines; in ft on the imperial page.
+		m := br.Members[0]
+		for _, mm := range br.Members {
+			if mm.Label == "S1-3:M" {
+				m = mm
+			}
+		}
+		_, _, xi, err := floor.ResultLine([]float64{0, 6, 12, 18, 24, 30, 36, 42, 48}, m.Label, m.Proposed.MaxTrain)
+		if err != nil {
+			t.Fatal(err)
+		}
+		peak := xi * (6 - xi) / 6 / 2
+		for _, c := range []struct {
+			ords []elevText
+			want string
+		}{{sec.Chart.Ordinates, num(peak, 3)}, {si.Chart.Ordinates, num(peak/0.3048, 3)}} {
+			if len(c.ords) != 1 || c.ords[0].Text != c.want {
+				t.Errorf("ordinates %+v, want the one peak %s (x_i = %v m)", c.ords, c.want, xi)
+			}
+		}
+	}
+	if imperial != 1 {
+		t.Errorf("%d drawn S1-3:M sections on the imperial page, want 1", imperial)
+	}
 	if len(sec.Calc) == 0 || sec.Calc[0].Sense != "moment" {
 		t.Errorf("calc %+v, want the sense named moment", sec.Calc)
 	}

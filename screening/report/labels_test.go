@@ -134,7 +134,7 @@ func TestUnratedMembersUnlabelled(t *testing.T) {
 func TestInfluenceLineAxisLabels(t *testing.T) {
 	xs := []float64{0, 6, 12, 18, 24}
 	eta := []float64{0, 0.75, 0.5, 0.25, 0}
-	c := drawIL("m", "U1-U2", 24, xs, eta, onBridge{}, true, 0, false, units.SI)
+	c := drawIL("m", "U1-U2", 24, xs, eta, onBridge{}, true, 0, false, units.SI, false)
 	if c.XLabel.Text != "position from left bearing x (m)" || c.YLabel.Text != "η (kN/kN)" {
 		t.Errorf("axis labels %q and %q", c.XLabel.Text, c.YLabel.Text)
 	}

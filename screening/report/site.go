@@ -585,7 +585,7 @@ func memberSection(run Run, b Bridge, t *truss.Truss, lines *analysis.Lines, i i
 		s.Captions = append(s.Captions, fmt.Sprintf("Train %s as now defined does not give the run's force here: its definition has changed since the run, so its loads are not drawn.", ex.Train))
 		tr = nil
 	}
-	c := drawIL(fmt.Sprintf("m%d", i), m.Label, t.SpanM(), lines.X, eta, ob, ex.Direction == 0, ex.HeadM, ex.Loaded && tr != nil, u)
+	c := drawIL(fmt.Sprintf("m%d", i), m.Label, t.SpanM(), lines.X, eta, ob, ex.Direction == 0, ex.HeadM, ex.Loaded && tr != nil, u, false)
 	s.Chart = &c
 	pos, neg := analysis.Areas(lines.X, eta)
 	lu, fu := u.Name(units.Length), u.Name(units.Force)

@@ -181,9 +181,18 @@ type rect struct {
 	Title      string
 }
 
-// drawIL draws the line (xs, eta) over a span of spanM with the loads ob on the bridge.
-func drawIL(id, label string, spanM float64, xs, eta []float64, ob onBridge, leftToRight bool, headM float64, loaded bool, u units.System) ilChart {
+// drawIL draws the line (xs, eta) over a span of spanM with the loads ob on the bridge. eta
+// is a force per unit load, or, where moment, a moment per unit load (kN·m per kN: a length),
+// which the ordinates and the axis show in u's length unit.
+func drawIL(id, label string, spanM float64, xs, eta []float64, ob onBridge, leftToRight bool, headM float64, loaded bool, u units.System, moment bool) ilChart {
 	const left, right, trainTop, deckY, plotTop, plotH, bottom = 56.0, 24.0, 18.0, 78.0, 96.0, 150.0, 40.0
+	// The ordinates' unit: force per force, or moment per force (a length) in u's unit.
+	ilUnit := u.Name(units.Force) + "/" + u.Name(units.Force)
+	ordinate := func(v float64) float64 { return v }
+	if moment {
+		ilUnit = u.Name(units.Moment) + "/" + u.Name(units.Force)
+		ordinate = func(v float64) float64 { return u.Convert(units.Length, v) }
+	}
 	c := ilChart{ID: id, Label: label, W: svgWidth, H: plotTop + plotH + bottom, Left: left, Right: svgWidth - right, DeckY: deckY}
 	s := (c.Right - c.Left) / spanM
 	px := func(x float64) float64 { return c.Left + x*s }
@@ -211,21 +220,21 @@ func drawIL(id, label string, spanM float64, xs, eta []float64, ob onBridge, lef
 		pos = append(pos, pt(xs[k], math.Max(v, 0)))
 		neg = append(neg, pt(xs[k], math.Min(v, 0)))
 		c.PanelLines = append(c.PanelLines, line{px(xs[k]), deckY, px(xs[k]), plotTop + plotH})
-		c.Ticks = append(c.Ticks, elevText{X: px(xs[k]), Y: plotTop + plotH + 16, Anchor: "middle", Text: num(xs[k], 1)})
+		c.Ticks = append(c.Ticks, elevText{X: px(xs[k]), Y: plotTop + plotH + 16, Anchor: "middle", Text: num(u.Convert(units.Length, xs[k]), 1)})
 		if v != 0 {
 			dy := -6.0
 			if v < 0 {
 				dy = 14
 			}
-			c.Ordinates = append(c.Ordinates, elevText{X: px(xs[k]), Y: py(v) + dy, Anchor: "middle", Text: num(v, 3)})
+			c.Ordinates = append(c.Ordinates, elevText{X: px(xs[k]), Y: py(v) + dy, Anchor: "middle", Text: num(ordinate(v), 3)})
 		}
 	}
 	last := xs[len(xs)-1]
 	pos, neg = append(pos, pt(last, 0)), append(neg, pt(last, 0))
 	c.Line, c.PosArea, c.NegArea = strings.Join(pts, " "), strings.Join(pos, " "), strings.Join(neg, " ")
 	// The x axis: distance from the left bearing, in the unit of the tick values.
-	c.XLabel = elevText{X: (c.Left + c.Right) / 2, Y: plotTop + plotH + 34, Anchor: "middle", Text: "position from left bearing x (m)"}
-	c.YLabel = elevText{X: 14, Y: plotTop + plotH/2, Rotate: -90, Anchor: "middle", Text: "η (kN/kN)"}
+	c.XLabel = elevText{X: (c.Left + c.Right) / 2, Y: plotTop + plotH + 34, Anchor: "middle", Text: "position from left bearing x (" + u.Name(units.Length) + ")"}
+	c.YLabel = elevText{X: 14, Y: plotTop + plotH/2, Rotate: -90, Anchor: "middle", Text: "η (" + ilUnit + ")"}
 
 	pmax := 0.0
 	for _, a := range ob.Axles {
@@ -237,7 +246,7 @@ func drawIL(id, label string, spanM float64, xs, eta []float64, ob onBridge, lef
 		c.Arrows = append(c.Arrows, arrow{
 			Shaft: line{x, top, x, deckY - 7},
 			Head:  fmt.Sprintf("%.2f,%.2f %.2f,%.2f %.2f,%.2f", x-3.5, deckY-8, x+3.5, deckY-8, x, deckY-1),
-			Title: fmt.Sprintf("axle %s %s at x = %s %s, η = %s", qty(u, units.Force, a.LoadKN), u.Name(units.Force), qty(u, units.Length, a.XM), u.Name(units.Length), num(clean(analysis.Interpolate(xs, eta, a.XM)), 3)),
+			Title: fmt.Sprintf("axle %s %s at x = %s %s, η = %s", qty(u, units.Force, a.LoadKN), u.Name(units.Force), qty(u, units.Length, a.XM), u.Name(units.Length), num(ordinate(clean(analysis.Interpolate(xs, eta, a.XM))), 3)),
 		})
 		c.Drops = append(c.Drops, line{x, deckY, x, py(clean(analysis.Interpolate(xs, eta, a.XM)))})
 	}
