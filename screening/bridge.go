@@ -103,6 +103,9 @@ type Settings struct {
 	Lengths string
 	// FloorLengths are the floor elements' determinant lengths; nil: floor.DefaultLengths.
 	FloorLengths *floor.Lengths
+	// floorMemo keeps the floor system's sweeps across the run's bridges (ShareTrains sets it:
+	// it serves the trains shared there).
+	floorMemo *floor.Memo
 	// Network, when set, rates every bridge by line category and Cooper E rating as well
 	// (categories.go).
 	Network *NetworkTrains
@@ -112,7 +115,8 @@ type Settings struct {
 
 // ShareTrains makes the trains that are defined alike, in either scenario or among the
 // references (a train in both scenarios; the existing freight train as the reference of
-// stored rating factors), one prepared load, so that a Screener sweeps each once per bridge.
+// stored rating factors), one prepared load, so that a Screener sweeps each once per bridge,
+// and gives the run a floor.Memo, so that bridges with equal panels share floor sweeps.
 // Call it once, before screening.
 func (s *Settings) ShareTrains() {
 	var seen []*envelope.Load
@@ -141,6 +145,7 @@ func (s *Settings) ShareTrains() {
 	if s.Network != nil {
 		s.Network.E80 = share(s.Network.E80)
 	}
+	s.floorMemo = &floor.Memo{}
 }
 
 // Extreme is one extreme force of a member (kN, after the truss share, before the dynamic

@@ -73,6 +73,7 @@ func (w *Screener) screenFloor(b Bridge, s *Settings, t *truss.Truss, res *Resul
 		}
 	}
 	w.floor.Reset()
+	w.floor.Memo = s.floorMemo
 	ex, err := w.floor.Live(sys, els, s.Existing.Trains)
 	if err != nil {
 		return nil, fmt.Errorf("existing traffic: %w", err)

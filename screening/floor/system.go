@@ -351,6 +351,8 @@ type Analyser struct {
 	track map[*envelope.Load]trackLive
 	ext   []envelope.Extremes
 	x     []float64 // the panel points the kept results are for
+	// Memo, where set, keeps the sweeps and moments across bridges and analysers (memo.go).
+	Memo *Memo
 }
 
 type peakKey struct {
@@ -382,6 +384,10 @@ func (a *Analyser) pairSweep(left, right float64, ld *envelope.Load) ([2]envelop
 	if r, ok := a.swept[sk]; ok {
 		return r, nil
 	}
+	if r, ok := a.Memo.sweep(sk); ok {
+		a.swept[sk] = r
+		return r, nil
+	}
 	k := [2]float64{left, right}
 	l, ok := a.lines[k]
 	if !ok {
@@ -407,6 +413,7 @@ func (a *Analyser) pairSweep(left, right float64, ld *envelope.Load) ([2]envelop
 		r[1] = a.ext[1].Max
 	}
 	a.swept[sk] = r
+	a.Memo.keepSweep(sk, r)
 	return r, nil
 }
 
@@ -425,9 +432,12 @@ func (a *Analyser) live(x []float64, ld *envelope.Load) (trackLive, error) {
 		k := peakKey{ld, p}
 		pk, ok := a.peaks[k]
 		if !ok {
-			var err error
-			if pk, err = MaxMoment(ld.Train(), p); err != nil {
-				return tl, err
+			if pk, ok = a.Memo.peak(k); !ok {
+				var err error
+				if pk, err = MaxMoment(ld.Train(), p); err != nil {
+					return tl, err
+				}
+				a.Memo.keepPeak(k, pk)
 			}
 			a.peaks[k] = pk
 		}
