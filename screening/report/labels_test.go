@@ -142,6 +142,19 @@ func TestInfluenceLineAxisLabels(t *testing.T) {
 	if c.XLabel.Y <= c.Ticks[0].Y || c.XLabel.Y > c.H {
 		t.Errorf("x axis label at y = %g, ticks at %g, drawing %g high", c.XLabel.Y, c.Ticks[0].Y, c.H)
 	}
+	// A stringer's line over one panel of a long span, with its section point 0.1 m from the
+	// panel's end: the two positions' labels would overlap, so one is left out, and no two
+	// labels stand closer than minTickGap.
+	xs = []float64{0, 53.3, 56.2, 56.3, 120}
+	c = drawIL("m", "S1-9:M", 120, xs, []float64{0, 0, 0.5, 0, 0}, onBridge{}, true, 0, false, units.SI, true)
+	if len(c.Ticks) != len(xs)-1 {
+		t.Errorf("%d labelled positions, want %d: %+v", len(c.Ticks), len(xs)-1, c.Ticks)
+	}
+	for k := 1; k < len(c.Ticks); k++ {
+		if c.Ticks[k].X-c.Ticks[k-1].X < minTickGap {
+			t.Errorf("labels %q and %q only %.1f px apart", c.Ticks[k-1].Text, c.Ticks[k].Text, c.Ticks[k].X-c.Ticks[k-1].X)
+		}
+	}
 }
 
 // TestCrowdedPageKey renders the page of a 16-panel truss whose every member is weak: the

@@ -181,6 +181,9 @@ type rect struct {
 	Title      string
 }
 
+// minTickGap is the least distance (px) between two labelled positions of a chart's axis.
+const minTickGap = 34
+
 // drawIL draws the line (xs, eta) over a span of spanM with the loads ob on the bridge. eta
 // is a force per unit load, or, where moment, a moment per unit load (kN·m per kN: a length),
 // which the ordinates and the axis show in u's length unit.
@@ -220,7 +223,11 @@ func drawIL(id, label string, spanM float64, xs, eta []float64, ob onBridge, lef
 		pos = append(pos, pt(xs[k], math.Max(v, 0)))
 		neg = append(neg, pt(xs[k], math.Min(v, 0)))
 		c.PanelLines = append(c.PanelLines, line{px(xs[k]), deckY, px(xs[k]), plotTop + plotH})
-		c.Ticks = append(c.Ticks, elevText{X: px(xs[k]), Y: plotTop + plotH + 16, Anchor: "middle", Text: num(u.Convert(units.Length, xs[k]), 1)})
+		// A position too close to the last one labelled (a section point beside a panel
+		// point) keeps its line but not its label, which would run into the other.
+		if len(c.Ticks) == 0 || px(xs[k])-c.Ticks[len(c.Ticks)-1].X >= minTickGap {
+			c.Ticks = append(c.Ticks, elevText{X: px(xs[k]), Y: plotTop + plotH + 16, Anchor: "middle", Text: num(u.Convert(units.Length, xs[k]), 1)})
+		}
 		if v != 0 {
 			dy := -6.0
 			if v < 0 {
