@@ -145,7 +145,7 @@ func TestInfluenceLineAxisLabels(t *testing.T) {
 	// A stringer's line over one panel of a long span, with its section point 0.1 m from the
 	// panel's end: the two positions' labels would overlap, so one is left out, and no two
 	// labels stand closer than minTickGap.
-	xs = []float64{0, 53.3, 56.2, 56.3, 120}
+	xs = []float64{0, 48, 56.2, 56.3, 120}
 	c = drawIL("m", "S1-9:M", 120, xs, []float64{0, 0, 0.5, 0, 0}, onBridge{}, true, 0, false, units.SI, true)
 	if len(c.Ticks) != len(xs)-1 {
 		t.Errorf("%d labelled positions, want %d: %+v", len(c.Ticks), len(xs)-1, c.Ticks)
