@@ -179,7 +179,7 @@ func TestFloorFatigueSummary(t *testing.T) {
 	el := rating.Member{CapacityTension: 1e4, SectionModulusMM3: 2.5e6, FatigueCategory: "riveted"}
 	b := floorBridge(map[string]rating.Member{
 		"S1-2:M": el, "S1-3:M": el, "FB4:M": {CapacityTension: 1e4, SectionModulusMM3: 6e6, FatigueCategory: "71"},
-		"S1-4:M": {CapacityTension: 1e4, FatigueCategory: "71"}, // no section modulus: no data
+		"S1-4:M": {CapacityTension: 1e4, FatigueCategory: "71"},  // no section modulus: no data
 		"S1-5:M": {CapacityTension: 1e4, SectionModulusMM3: 3e6}, // no category: no data
 		"L2-L3":  {CapacityTension: 1e4, CapacityCompression: 1e4, AreaMM2: 9000, FatigueCategory: "71"},
 	})
@@ -217,8 +217,8 @@ func TestFloorFatigueSummary(t *testing.T) {
 // EN 1991-2 Annex C (from memory) at the stringer's own determinant length, p + 3 m = 9 m
 // (Table 6.2, from memory), not the truss span. Written out here: v = 80 km/h, n0 = 80 / 9 Hz
 // (the lower bound for 4 <= L <= 20 m), K = v / (2 L n0), phi' = K / (1 - K + K^4),
-// phi'' = 0.56 e^-(L/10)^2 + 0.5 (L n0 / 80 - 1) e^-(L/20)^2 (alpha = 1 above 22 m/s),
-// factor 1 + (phi' + phi''/2) / 2, about 1.1429 (by hand). The range is 100 MPa times it.
+// phi” = 0.56 e^-(L/10)^2 + 0.5 (L n0 / 80 - 1) e^-(L/20)^2 (alpha = 1 above 22 m/s),
+// factor 1 + (phi' + phi”/2) / 2, about 1.1429 (by hand). The range is 100 MPa times it.
 func TestStringerFatigueAtSpeed(t *testing.T) {
 	el := rating.Member{CapacityTension: 1e4, SectionModulusMM3: 3e6, FatigueCategory: "71"}
 	p := floorFatiguePlan(oneAxle, oneAxle)
