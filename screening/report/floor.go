@@ -92,7 +92,9 @@ func floorSection(run Run, b Bridge, t *truss.Truss, s section, i int, u units.S
 		s.Captions = append(s.Captions, fmt.Sprintf("Proposed traffic: %s, %s, front at x = %s %s, gives L = %s %s.", orDash(ex.Train), ex.Direction,
 			qty(u, units.Length, ex.HeadM), lu, qty(u, q, ex.Value), u.Name(q)))
 	}
-	s.Fatigue = drawFatigue(run, b, m, nil, nil, t.SpanM())
+	if s.Fatigue = drawFatigue(run, b, m, nil, nil, t.SpanM()); s.Fatigue != nil {
+		s.Fatigue.Caption += floorFatigueNote(b, m, u)
+	}
 	return s
 }
 

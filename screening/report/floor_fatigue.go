@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"strings"
 
+	"github.com/trussfleet/trussfleet/internal/units"
 	"github.com/trussfleet/trussfleet/screening/fatigue"
 	"github.com/trussfleet/trussfleet/screening/floor"
 )
@@ -61,4 +62,20 @@ func floorFatigueBasis(b Bridge, m Member, rc *fatigueRecheck) string {
 		num(*m.Fatigue.SectionModulusMM3, 0), num(rc.lphiM, 1))
 	s.WriteString("  shear is not checked for fatigue: its details (connections, out-of-plane bending) need a detail assessment\n")
 	return s.String()
+}
+
+// floorFatigueNote adds to a floor element's fatigue chart where its stress is taken: its
+// fatigue section (the strength's influence line above may stand at another) and its section
+// modulus; and that shear is not checked.
+func floorFatigueNote(b Bridge, m Member, u units.System) string {
+	el, _, _ := floor.ResultEffect(m.Label)
+	fl, err := b.Floor.FatigueLine(el, floor.DefaultLengths)
+	if err != nil || m.Fatigue.SectionModulusMM3 == nil {
+		return ""
+	}
+	where := fmt.Sprintf("at mid-span of the stringer, %s %s into the panel (its moment influence line a triangle of height p/4)", qty(u, units.Length, fl.SectionM), u.Name(units.Length))
+	if m.Kind == string(floor.KindFloorBeam) {
+		where = fmt.Sprintf("under the stringer line %s %s from truss A, where the floor beam's largest live moment stands", qty(u, units.Length, fl.SectionM), u.Name(units.Length))
+	}
+	return fmt.Sprintf(" Stress: the moment %s over the section modulus W = %s mm³. Shear is not checked for fatigue: its details need a detail assessment.", where, num(*m.Fatigue.SectionModulusMM3, 0))
 }

@@ -123,7 +123,8 @@ func TestFloorFatigueExplained(t *testing.T) {
 	drawn := false
 	for _, s := range v.Sections {
 		if s.Label == "S1-3:M" {
-			drawn = s.Fatigue != nil && strings.Contains(s.Fatigue.Caption, "S1-3:M")
+			drawn = s.Fatigue != nil && strings.Contains(s.Fatigue.Caption, "S1-3:M") && strings.Contains(s.Fatigue.Caption, "mid-span") &&
+				strings.Contains(s.Fatigue.Caption, "W = 2500000 mm³")
 		}
 	}
 	if !drawn {
