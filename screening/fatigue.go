@@ -177,14 +177,13 @@ func (w *Screener) checkFatigue(b Bridge, s *Settings, spanM float64, lines *ana
 		// A category that is no EN 1993-1-9 detail category (an owner's own, or another
 		// code's letter) is kept in the inventory as written and not checked, as a member
 		// without one: the check has no S-N curve for it.
-		cat, has, err := fatigue.ParseCategory(inv.FatigueCategory, f.RivetedCategoryMPa)
-		if err != nil || !has || !(inv.AreaMM2 > 0) || math.IsInf(inv.AreaMM2, 0) {
-			sum.NoData++
-			continue
-		}
-		curve, err := fatigue.NewCurve(cat, f.GammaMf)
+		curve, ok, err := fatigueCurve(inv.FatigueCategory, inv.AreaMM2, f)
 		if err != nil {
 			return fmt.Errorf("member %s: %w", l.Label, err)
+		}
+		if !ok {
+			sum.NoData++
+			continue
 		}
 		line, err := fatigue.NewLine(lines.X, l.Ordinates)
 		if err != nil {

@@ -35,14 +35,13 @@ func (w *Screener) checkFloorFatigue(b Bridge, s *Settings, spanM float64, first
 		r := &fatigue.Result{Status: fatigue.NoData}
 		res.Members[k].Fatigue = r
 		inv := b.Members[e.Label]
-		cat, has, err := fatigue.ParseCategory(inv.FatigueCategory, f.RivetedCategoryMPa)
-		if err != nil || !has || !(inv.SectionModulusMM3 > 0) || math.IsInf(inv.SectionModulusMM3, 0) {
-			sum.NoData++
-			continue
-		}
-		curve, err := fatigue.NewCurve(cat, f.GammaMf)
+		curve, ok, err := fatigueCurve(inv.FatigueCategory, inv.SectionModulusMM3, f)
 		if err != nil {
 			return fmt.Errorf("floor element %s: %w", e.Element, err)
+		}
+		if !ok {
+			sum.NoData++
+			continue
 		}
 		fl, err := fr.sys.FatigueLine(e.Element, lengths)
 		if err != nil {
@@ -61,6 +60,20 @@ func (w *Screener) checkFloorFatigue(b Bridge, s *Settings, spanM float64, first
 		sum.add(k, r)
 	}
 	return nil
+}
+
+// fatigueCurve is the S-N curve of a member's inventory category where the member also holds
+// its detail's size (an area, a section modulus: positive and finite); ok is false where
+// either is missing, or the category is none of EN 1993-1-9's (an owner's own, another code's
+// letter: kept in the inventory as written, the check has no S-N curve for it), and the member
+// counts as without data.
+func fatigueCurve(category string, size float64, f *FatigueSettings) (c fatigue.Curve, ok bool, err error) {
+	cat, has, err := fatigue.ParseCategory(category, f.RivetedCategoryMPa)
+	if err != nil || !has || !(size > 0) || math.IsInf(size, 0) {
+		return fatigue.Curve{}, false, nil
+	}
+	c, err = fatigue.NewCurve(cat, f.GammaMf)
+	return c, err == nil, err
 }
 
 // sharedLine is a line built before that line equals, or the mirror image of one, or else
