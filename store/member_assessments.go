@@ -79,10 +79,10 @@ var memberAssessmentColumns = []column[MemberAssessment]{
 	{"fatigue_range_existing_mpa", func(a *MemberAssessment) any { return &a.Fatigue.RangeExistingMPa }},
 	{"fatigue_range_proposed_mpa", func(a *MemberAssessment) any { return &a.Fatigue.RangeProposedMPa }},
 	{"fatigue_train", func(a *MemberAssessment) any { return &a.Fatigue.Train }},
-	{"fatigue_section_modulus_mm3", func(a *MemberAssessment) any { return &a.Fatigue.SectionModulusMM3 }},
 	{"other_truss", func(a *MemberAssessment) any { return &a.Other.Truss }},
 	{"other_rf_existing", func(a *MemberAssessment) any { return &a.Other.RFExisting }},
 	{"other_rf_proposed", func(a *MemberAssessment) any { return &a.Other.RFProposed }},
+	{"fatigue_section_modulus_mm3", func(a *MemberAssessment) any { return &a.Fatigue.SectionModulusMM3 }},
 }
 
 // fatigueColumns lists member_assessments' fatigue columns (their names begin fatigue_),
