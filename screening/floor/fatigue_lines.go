@@ -94,12 +94,15 @@ func parseStringer(label string) (track, panel int, ok bool) {
 
 // fatigueSection is the stringer line (m from truss A) under which a floor beam of span b
 // takes its largest moment per unit reaction, over each track loaded alone and every track
-// at once (the cases of liveCoefficients, which rates the moment there).
+// at once (the cases of liveCoefficients, which rates the moment there); of lines with equal
+// moments, the first.
 func fatigueSection(b float64, lines [][2]float64) float64 {
 	best, at := -1.0, 0.0
 	consider := func(pts []pointLoad) {
 		for _, pl := range pts {
-			if m := momentAt(b, pl.y, pts); m > best {
+			// A line's moment must beat the best by more than rounding: of equal ones (a
+			// centred track's two lines) the first, nearer truss A, stands.
+			if m := momentAt(b, pl.y, pts); m > best*(1+1e-12) {
 				best, at = m, pl.y
 			}
 		}
