@@ -17,9 +17,15 @@ const (
 )
 
 // parseFloorFatigue reads a members.csv row's section modulus into m and refuses it on a
-// truss member's row, whose fatigue stress is its force over its area.
+// truss member's row, whose fatigue stress is its force over its area; and refuses an area on
+// a floor element's row, whose stress is its moment over its section modulus (an area there
+// would be kept and never used).
 func parseFloorFatigue(r memberRecord, p *row, m *store.Member, isFloor bool) {
 	m.SectionModulusMM3 = floorQuantity(p, colSectionModulus, r.SectionModulusMM3, r.SectionModulusIn3, maxSectionModulusMM3, "mm³")
+	if m.AreaMM2 != nil && isFloor {
+		p.fail(p.pick(colArea), pickRaw(p, colArea, r.AreaMM2, r.AreaIn2),
+			"%s is a floor element: its fatigue check takes section_modulus_mm3 (its moment over W), not an area", m.Member)
+	}
 	if m.SectionModulusMM3 != nil && !isFloor {
 		p.fail(p.pick(colSectionModulus), pickRaw(p, colSectionModulus, r.SectionModulusMM3, r.SectionModulusIn3),
 			"%s is a truss member: a section modulus is for a floor element's bending (S<track>-<panel>, FB<point>); a truss member's fatigue check takes its area_mm2", m.Member)

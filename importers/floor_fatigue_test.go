@@ -12,9 +12,9 @@ import (
 )
 
 func TestFloorSectionModulus(t *testing.T) {
-	head := "bridge_id,member,capacity_tension_kn,capacity_moment_knm,section_modulus_mm3,fatigue_category\n"
+	head := "bridge_id,member,capacity_tension_kn,capacity_moment_knm,section_modulus_mm3,fatigue_category,area_mm2\n"
 	var rows []store.Member
-	_, err := ParseMembers("members.csv", strings.NewReader(head+"NME-1,S1-3,,420,3.2e6,71\nNME-1,FB4,,900,,riveted\n"), floorStub{},
+	_, err := ParseMembers("members.csv", strings.NewReader(head+"NME-1,S1-3,,420,3.2e6,71,\nNME-1,FB4,,900,,riveted,\n"), floorStub{},
 		func(r store.Staged[store.Member]) bool { rows = append(rows, r.Row); return true })
 	if err != nil {
 		t.Fatal(err)
@@ -29,10 +29,11 @@ func TestFloorSectionModulus(t *testing.T) {
 		value     string
 		msg       string
 	}{
-		{"section modulus on a truss member", "NME-1,L0-L1,900,,2e6,71", 5, "2e6", "truss member"},
-		{"negative section modulus", "NME-1,S1-2,,300,-1e6,71", 5, "-1e6", "greater than zero"},
-		{"section modulus beyond the bound", "NME-1,S1-2,,300,5e9,71", 5, "5e9", "at most 1e+09 mm³"},
-		{"section modulus not a number", "NME-1,S1-2,,300,big,71", 5, "big", "not a number"},
+		{"section modulus on a truss member", "NME-1,L0-L1,900,,2e6,71,9000", 5, "2e6", "truss member"},
+		{"negative section modulus", "NME-1,S1-2,,300,-1e6,71,", 5, "-1e6", "greater than zero"},
+		{"section modulus beyond the bound", "NME-1,S1-2,,300,5e9,71,", 5, "5e9", "at most 1e+09 mm³"},
+		{"section modulus not a number", "NME-1,S1-2,,300,big,71,", 5, "big", "not a number"},
+		{"area on a floor element", "NME-1,S1-2,,300,3e6,71,9000", 7, "9000", "section_modulus_mm3"},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {

@@ -107,7 +107,8 @@ func TestFloorFatigueExplained(t *testing.T) {
 	out := buf.String()
 	for _, want := range []string{"section modulus W 2500000 mm³", "mid-span, 3.00 m into the panel", "share 0.5", "0.2400 MPa per kN·m", // 0.5 x 1.2 x 1e6 / 2.5e6 (by hand)
 		"x 1e6 / W", fmt.Sprintf("damage a year (Miner's sum over the trains) %.4g", stored.PerYearProposed),
-		fmt.Sprintf("damage a year (Miner's sum over the trains) %.4g", stored.PerYearExisting), "shear is not checked", "CAUTION"} {
+		fmt.Sprintf("damage a year (Miner's sum over the trains) %.4g", stored.PerYearExisting), "shear is not checked", "CAUTION",
+		"(moment)\n"} { // the rating's sense is the element's effect, not tension
 		if !strings.Contains(out, want) {
 			t.Errorf("explain lacks %q:\n%s", want, out)
 		}
@@ -125,6 +126,9 @@ func TestFloorFatigueExplained(t *testing.T) {
 		if s.Label == "S1-3:M" {
 			drawn = s.Fatigue != nil && strings.Contains(s.Fatigue.Caption, "S1-3:M") && strings.Contains(s.Fatigue.Caption, "mid-span") &&
 				strings.Contains(s.Fatigue.Caption, "W = 2500000 mm³")
+			if s.Unit != "kN·m" {
+				t.Errorf("the rating table of S1-3:M is in %q, want kN·m", s.Unit)
+			}
 		}
 	}
 	if !drawn {
