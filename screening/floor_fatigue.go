@@ -52,7 +52,9 @@ func (w *Screener) checkFloorFatigue(b Bridge, s *Settings, spanM float64, first
 			return fmt.Errorf("floor element %s: %w", e.Element, err)
 		}
 		line, built = sharedLine(built, line)
-		fb := fatigue.Bridge{SpanM: spanM, DeterminantM: fl.DeterminantM, YearBuilt: b.YearBuilt, Shares: fl.Shares}
+		// SpanM bounds the line's extent (a passage's steady count); a panel or two lie within
+		// any span, the max keeps it so for any geometry.
+		fb := fatigue.Bridge{SpanM: max(spanM, fl.X[len(fl.X)-1]-fl.X[0]), DeterminantM: fl.DeterminantM, YearBuilt: b.YearBuilt, Shares: fl.Shares}
 		m := fatigue.Member{Line: line, Curve: curve, SectionModulusMM3: inv.SectionModulusMM3}
 		if *r, err = w.fcalc.Check(m, fb, &f.Settings, f.Existing, f.Proposed, nil); err != nil {
 			return fmt.Errorf("floor element %s, fatigue: %w", e.Element, err)

@@ -3,6 +3,9 @@ package floor
 import (
 	"math"
 	"testing"
+
+	"github.com/trussfleet/trussfleet/screening/fatigue"
+	"pgregory.net/rapid"
 )
 
 // TestFloorBeamFatigueShares: two tracks at +1.5 m and -1.5 m (towards truss A positive) on
@@ -49,4 +52,69 @@ func (s System) stringerLinesChecked(t *testing.T) [][2]float64 {
 		t.Fatal(err)
 	}
 	return c.stringerLines()
+}
+
+// TestFatigueLinesAgreeWithLive: for random single-track floor systems and axle trains, two
+// computations of one effect agree. A floor beam's moment history of one passage (the passage
+// walk of screening/fatigue on its fatigue line, times its share) peaks at the live moment
+// the strength check rates (Analyser.Live: the exact envelope of its reaction line times the
+// statics across the beam). A stringer's mid-span moment never exceeds the absolute largest
+// moment anywhere along the span that the strength check rates (MaxMoment), and reaches it
+// for a single axle (P L / 4 at mid-span, textbook).
+func TestFatigueLinesAgreeWithLive(t *testing.T) {
+	rapid.Check(t, func(rt *rapid.T) {
+		n := rapid.IntRange(1, 5).Draw(rt, "axles")
+		loads := make([]float64, n)
+		sp := make([]float64, max(n-1, 0))
+		for i := range loads {
+			loads[i] = rapid.Float64Range(10, 300).Draw(rt, "load")
+		}
+		for i := range sp {
+			sp[i] = rapid.Float64Range(0.5, 5).Draw(rt, "spacing")
+		}
+		tr := axles("random", loads, sp)
+		panels := rapid.IntRange(2, 6).Draw(rt, "panels")
+		x := []float64{0}
+		for range panels {
+			x = append(x, x[len(x)-1]+rapid.Float64Range(3, 8).Draw(rt, "panel"))
+		}
+		b := rapid.Float64Range(4, 9).Draw(rt, "truss spacing")
+		st := rapid.Float64Range(1.2, 2).Draw(rt, "stringer spacing")
+		e := rapid.Float64Range(-1, 1).Draw(rt, "offset") * (b - st) / 2
+		sys := System{PanelX: x, TrussSpacingM: b, StringerSpacingM: st, TrackOffsetsM: []float64{e}}
+		els, live := liveUnder(t, sys, tr)
+		ft, err := fatigue.PrepareTrain(tr)
+		if err != nil {
+			rt.Fatal(err)
+		}
+		var c fatigue.Calculator
+		for i, el := range els {
+			if el.Effect != Moment {
+				continue
+			}
+			fl, err := sys.FatigueLine(el.Element, DefaultLengths)
+			if err != nil {
+				rt.Fatal(err)
+			}
+			line, err := fatigue.NewLine(fl.X, fl.Eta)
+			if err != nil {
+				rt.Fatal(err)
+			}
+			peak := 0.0
+			for _, dir := range []fatigue.Direction{fatigue.LeftToRight, fatigue.RightToLeft} {
+				for _, pt := range c.History(line, ft, dir, nil) {
+					peak = max(peak, pt.Value*fl.Shares[0])
+				}
+			}
+			want := live[i].Max.Value
+			switch {
+			case el.Kind == KindFloorBeam && math.Abs(peak-want) > 1e-9*max(want, 1):
+				rt.Fatalf("%s: history peak %.12g, strength's live moment %.12g", el.Label, peak, want)
+			case el.Kind == KindStringer && peak > want*(1+1e-9)+1e-9:
+				rt.Fatalf("%s: mid-span peak %.12g above the span's largest moment %.12g", el.Label, peak, want)
+			case el.Kind == KindStringer && n == 1 && math.Abs(peak-want) > 1e-9*max(want, 1):
+				rt.Fatalf("%s: one axle's mid-span peak %.12g, largest moment %.12g (P L / 4 at mid-span)", el.Label, peak, want)
+			}
+		}
+	})
 }
