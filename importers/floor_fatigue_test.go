@@ -23,19 +23,28 @@ func TestFloorSectionModulus(t *testing.T) {
 		rows[1].SectionModulusMM3 != nil || rows[1].FatigueCategory != "riveted" {
 		t.Fatalf("rows %+v", rows)
 	}
-	tests := []struct {
-		name, row string
-		column    int
-		value     string
-		msg       string
-	}{
+	badFloorRows(t, head, []badRow{
 		{"section modulus on a truss member", "NME-1,L0-L1,900,,2e6,71,9000", 5, "2e6", "truss member"},
 		{"negative section modulus", "NME-1,S1-2,,300,-1e6,71,", 5, "-1e6", "greater than zero"},
 		{"section modulus beyond the bound", "NME-1,S1-2,,300,5e9,71,", 5, "5e9", "at most 1e+09 mm³"},
 		{"section modulus not a number", "NME-1,S1-2,,300,big,71,", 5, "big", "not a number"},
 		{"area on a floor element", "NME-1,S1-2,,300,3e6,71,9000", 7, "9000", "section_modulus_mm3"},
-	}
-	for _, tc := range tests {
+	})
+}
+
+// badRow is a members.csv row that must fail, and the error it must give: its column, the
+// value quoted and a part of the message.
+type badRow struct {
+	name, row string
+	column    int
+	value     string
+	msg       string
+}
+
+// badFloorRows checks each row, after head, against floorStub's bridge (badMemberRow).
+func badFloorRows(t *testing.T, head string, rows []badRow) {
+	t.Helper()
+	for _, tc := range rows {
 		t.Run(tc.name, func(t *testing.T) {
 			badMemberRow(t, head+tc.row+"\n", floorStub{}, tc.column, tc.value, tc.msg)
 		})

@@ -52,15 +52,6 @@ func BenchmarkScreenFloorFatigue(b *testing.B) {
 				br.Members[l+floor.Moment.Suffix()] = rating.Member{CapacityTension: 1e4, SectionModulusMM3: 4e6, FatigueCategory: "71"}
 			}
 		}
-		b.Run(fmt.Sprintf("floor-fatigue=%v", withFloor), func(b *testing.B) {
-			var w screening.Screener
-			cpu0 := cpuTime()
-			for b.Loop() {
-				if r := w.Screen(br, s); r.Err != nil {
-					b.Fatal(r.Err)
-				}
-			}
-			b.ReportMetric(float64((cpuTime()-cpu0).Nanoseconds())/float64(b.N), "cpu-ns/op")
-		})
+		b.Run(fmt.Sprintf("floor-fatigue=%v", withFloor), func(b *testing.B) { benchScreen(b, br, s) })
 	}
 }

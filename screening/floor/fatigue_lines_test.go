@@ -63,16 +63,8 @@ func (s System) stringerLinesChecked(t *testing.T) [][2]float64 {
 // for a single axle (P L / 4 at mid-span, textbook).
 func TestFatigueLinesAgreeWithLive(t *testing.T) {
 	rapid.Check(t, func(rt *rapid.T) {
-		n := rapid.IntRange(1, 5).Draw(rt, "axles")
-		loads := make([]float64, n)
-		sp := make([]float64, max(n-1, 0))
-		for i := range loads {
-			loads[i] = rapid.Float64Range(10, 300).Draw(rt, "load")
-		}
-		for i := range sp {
-			sp[i] = rapid.Float64Range(0.5, 5).Draw(rt, "spacing")
-		}
-		tr := axles("random", loads, sp)
+		tr := drawAxles(rt, 5)
+		n := len(tr.Consist[0].Vehicle.Axles)
 		panels := rapid.IntRange(2, 6).Draw(rt, "panels")
 		x := []float64{0}
 		for range panels {
