@@ -89,6 +89,7 @@ func TestFloorFatigueExplained(t *testing.T) {
 	b.Floor = screening.FloorSystem{Rate: true, StringerSpacingM: 1.5}
 	b.Members["S1-3:M"] = rating.Member{CapacityTension: 1e4, SectionModulusMM3: 2.5e6, FatigueCategory: "71"}
 	b.Members["S1-4:M"] = rating.Member{CapacityTension: 1e4}
+	b.Members["FB4:M"] = rating.Member{CapacityTension: 1e4, SectionModulusMM3: 6e6, FatigueCategory: "71"}
 	f := screenFleet(t, []invented{b})
 	run, br, res := withFatigue(t, f, b)
 	var stored *fatigue.Result
@@ -119,6 +120,18 @@ func TestFloorFatigueExplained(t *testing.T) {
 	}
 	if !strings.Contains(buf.String(), "no section modulus or no fatigue category for S1-4:M") {
 		t.Errorf("S1-4:M explain:\n%s", buf.String())
+	}
+	// The floor beam: its section under the stringer line (5.5 - 1.5) / 2 = 2 m from truss A,
+	// its moment (R/2) x 2 m = 1.0 R (statics across the beam, each line bringing R/2).
+	buf.Reset()
+	if err := ExplainIn(&buf, run, br, "FB4:M", units.SI); err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"under the stringer line 2.00 m from truss A", "track 1 1.0000 m", "section modulus W 6000000 mm³",
+		"determinant length 11.0 m"} { // 2 b (EN 1991-2 Table 6.2, from memory)
+		if !strings.Contains(buf.String(), want) {
+			t.Errorf("FB4:M explain lacks %q:\n%s", want, buf.String())
+		}
 	}
 	v := bridgePage(run, br, units.SI)
 	drawn := false
