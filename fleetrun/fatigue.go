@@ -34,6 +34,9 @@ func fatigueColumns(r *fatigue.Result) store.FatigueColumns {
 		return c
 	}
 	c.CategoryMPa, c.AreaMM2 = finite(r.CategoryMPa), finite(r.AreaMM2)
+	if r.SectionModulusMM3 > 0 { // a floor element: its section modulus, no area
+		c.AreaMM2, c.SectionModulusMM3 = pgtype.Float8{}, finite(r.SectionModulusMM3)
+	}
 	c.DamageExisting, c.DamageProposed = finite(r.PerYearExisting), finite(r.PerYearProposed)
 	c.DamageRatio, c.DamageToDate = finite(r.Ratio), finite(r.ToDate)
 	c.RemainingYears = finite(r.RemainingYears)

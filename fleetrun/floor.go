@@ -42,7 +42,12 @@ func floorMember(m store.Member, sb *screening.Bridge) bool {
 			r.RatingFactor, r.ReferenceTrain = *m.RatingFactor, *m.ReferenceTrain
 			r.RatingSense, r.RatingSenseGiven = rating.Tension, true
 		}
-		if r.CapacityTension > 0 || r.RatingFactor > 0 {
+		fatigueData := false
+		if e.eff == floor.Moment {
+			// The moment's result carries the element's fatigue data (its fatigue check).
+			fatigueData = floorFatigueData(m, &r)
+		}
+		if r.CapacityTension > 0 || r.RatingFactor > 0 || fatigueData {
 			sb.Members[m.Member+e.eff.Suffix()] = r
 		}
 	}

@@ -55,7 +55,7 @@ func referenceRows(setIDs []int64, results []screening.Result) (mr, ma [][]any) 
 				sense = a.WorstPr.Sense.String()
 			}
 			ma = append(ma, append([]any{setIDs[i], m.Label, fleetrun.RFOrNil(a.WorstEx, a.HasEx), fleetrun.RFOrNil(a.WorstPr, a.HasPr),
-				sense, fleetrun.Num(a.DemandIncrease), flags}, append(fat, otherRow(m.Other)...)...))
+				sense, fleetrun.Num(a.DemandIncrease), flags}, append(append(fat, otherRow(m.Other)...), sectionModulusCell(m.Fatigue))...))
 		}
 	}
 	return mr, ma
@@ -96,9 +96,22 @@ func fatigueRow(r *fatigue.Result) []any {
 		y := int32(r.EndYear)
 		end = &y
 	}
-	return []any{string(r.Status), fleetrun.Num(r.CategoryMPa), fleetrun.Num(r.AreaMM2), fleetrun.Num(r.PerYearExisting),
+	area := fleetrun.Num(r.AreaMM2)
+	if r.SectionModulusMM3 > 0 { // a floor element: no area
+		area = nil
+	}
+	return []any{string(r.Status), fleetrun.Num(r.CategoryMPa), area, fleetrun.Num(r.PerYearExisting),
 		fleetrun.Num(r.PerYearProposed), fleetrun.Num(r.Ratio), fleetrun.Num(r.ToDate), fleetrun.Num(r.RemainingYears), end,
 		fleetrun.Num(r.MaxRangeExistingMPa), fleetrun.Num(r.MaxRangeProposedMPa), r.Governing}
+}
+
+// sectionModulusCell is a floor element's section modulus as member_assessments stores it
+// (migration 018): NULL for a truss member and where no check was made.
+func sectionModulusCell(r *fatigue.Result) *float64 {
+	if r == nil || r.Status == fatigue.NoData || !(r.SectionModulusMM3 > 0) {
+		return nil
+	}
+	return fleetrun.Num(r.SectionModulusMM3)
 }
 
 func memberResultRow(setID int64, scenario string, m screening.MemberResult, e screening.Envelope, rfs []rating.Factor) []any {
@@ -168,7 +181,9 @@ var (
 		pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID, pgtype.Float8OID,
 		pgtype.Float8OID, pgtype.Float8OID, pgtype.Int4OID, pgtype.Float8OID, pgtype.Float8OID, pgtype.TextOID,
 		// the other truss (migration 017)
-		pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID}
+		pgtype.TextOID, pgtype.Float8OID, pgtype.Float8OID,
+		// a floor element's section modulus (migration 018)
+		pgtype.Float8OID}
 )
 
 // pgxCopyStream encodes rows as pgx v5's CopyFrom does before it sends them (copy_from.go,
@@ -254,7 +269,11 @@ func edgeResults() []screening.Result {
 					DemandIncrease: -0.125, Flags: []rating.Flag{"naïve, {braced} \"quoted\" \\ flag", rating.NoCapacity, ""}},
 				Fatigue: &fatigue.Result{Status: fatigue.BelowCutOff, CategoryMPa: 90, AreaMM2: 1e-300, RemainingYears: inf, Ratio: nan}},
 		}},
-		{BridgeID: "DONE-004", Members: []screening.MemberResult{{Label: "U0-U1", Kind: truss.TopChord, Dead: 1}}},
+		{BridgeID: "DONE-004", Members: []screening.MemberResult{{Label: "U0-U1", Kind: truss.TopChord, Dead: 1},
+			{Label: "S1-2:M", Kind: "stringer", Effect: "moment", Dead: 9,
+				Fatigue: &fatigue.Result{Status: fatigue.Damaged, CategoryMPa: 71, SectionModulusMM3: 3.15e6, PerYearExisting: 0.02,
+					PerYearProposed: 0.05, Ratio: 2.5, ToDate: 1.4, RemainingYears: 0, EndYear: 2026, MaxRangeExistingMPa: 88.1,
+					MaxRangeProposedMPa: 101.4, Governing: "Northmoor freight proposed", Flags: []fatigue.Flag{fatigue.FlagLife, fatigue.FlagRise}}}}},
 	}
 }
 

@@ -50,6 +50,7 @@ func parseMemberFloor(r memberRecord, p *row, m *store.Member) {
 	m.CapacityMomentKNM = floorQuantity(p, colMoment, r.CapacityMomentKNM, r.CapacityMomentKipFt, maxMomentKNM, "kN·m")
 	m.CapacityShearKN = floorQuantity(p, colShear, r.CapacityShearKN, r.CapacityShearKip, maxCapacityKN, "kN")
 	isFloor := floor.IsLabel(m.Member)
+	parseFloorFatigue(r, p, m, isFloor)
 	sense := ""
 	if m.RatingSense != nil {
 		sense = *m.RatingSense

@@ -35,12 +35,7 @@ func TestFloorMembers(t *testing.T) {
 		rows[1].Member != "FB4" || rows[2].RatingSense == nil || *rows[2].RatingSense != "shear" {
 		t.Fatalf("rows %+v", rows)
 	}
-	tests := []struct {
-		name, row string
-		column    int
-		value     string
-		msg       string
-	}{
+	badFloorRows(t, head, []badRow{
 		{"floor element with a tension capacity", "NME-1,S1-3,100,,,,,", 3, "100", "capacity_moment and capacity_shear"},
 		{"truss member with a moment capacity", "NME-1,L0-L1,,100,,,,", 4, "100", "truss member"},
 		{"stringer beyond the panels", "NME-1,S1-9,,100,,,,", 2, "S1-9", "FB0 to FB8"},
@@ -48,12 +43,7 @@ func TestFloorMembers(t *testing.T) {
 		{"floor rating factor without its sense", "NME-1,FB2,,,,0.9,cooper:e=80,", 8, "", "moment or shear"},
 		{"floor rating factor in tension", "NME-1,FB2,,,,0.9,cooper:e=80,tension", 8, "tension", "moment or shear"},
 		{"negative shear capacity", "NME-1,FB2,,,-5,,,", 5, "-5", "greater than zero"},
-	}
-	for _, tc := range tests {
-		t.Run(tc.name, func(t *testing.T) {
-			badMemberRow(t, head+tc.row+"\n", floorStub{}, tc.column, tc.value, tc.msg)
-		})
-	}
+	})
 }
 
 func TestFloorImperialAndBridgeColumns(t *testing.T) {

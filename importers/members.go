@@ -36,6 +36,9 @@ type memberRecord struct {
 	CapacityMomentKipFt string `csv:"capacity_moment_kipft"`
 	CapacityShearKN     string `csv:"capacity_shear_kn"`
 	CapacityShearKip    string `csv:"capacity_shear_kip"`
+	// A floor element's section modulus for its fatigue check (floor_fatigue.go).
+	SectionModulusMM3 string `csv:"section_modulus_mm3"`
+	SectionModulusIn3 string `csv:"section_modulus_in3"`
 }
 
 func (r memberRecord) srcLine() string { return r.SrcLine }
@@ -51,7 +54,7 @@ var (
 		colTension, colCompression, {name: "rating_factor"}, {name: "reference_train", maxChars: maxNameChars},
 		{name: "rating_sense", maxChars: maxNameChars}, {name: "condition_factor"}, colArea, {name: "fatigue_category", maxChars: maxFatigueCategory},
 		{name: "truss"},
-		colMoment, colShear,
+		colMoment, colShear, colSectionModulus,
 	}
 )
 

@@ -56,6 +56,7 @@ func Run(ctx context.Context, db *store.DB, runID int64) (report.Run, error) {
 	out.BridgesTotal, out.BridgesFailed = p.Total, p.Failed
 	out.FlagCounts, out.BridgesFlagged, err = db.FlagTotals(ctx, runID)
 	out.Fatigue = plan.Fatigue
+	out.FloorLengths = plan.FloorLengths
 	return out, err
 }
 
@@ -132,6 +133,7 @@ func Bridge(ctx context.Context, db *store.DB, run report.Run, bridgeID string) 
 	}
 	out.Members = append(out.Members, floorMembers(members, held, len(t.DeckJoints)-1, out.Tracks)...)
 	out.FloorNotes = floorNotes(b, inv, t)
+	out.Floor = floorSystem(b, inv, t)
 	return out, nil
 }
 
@@ -197,7 +199,8 @@ func extreme(value float64, train string, head pgtype.Float8, dir string, from, 
 func fatigueOf(f store.FatigueColumns) report.Fatigue {
 	out := report.Fatigue{Status: f.Status, CategoryMPa: ptr(f.CategoryMPa), AreaMM2: ptr(f.AreaMM2),
 		DamageExisting: ptr(f.DamageExisting), DamageProposed: ptr(f.DamageProposed), Ratio: ptr(f.DamageRatio),
-		ToDate: ptr(f.DamageToDate), RemainingYears: ptr(f.RemainingYears), RangeProposedMPa: ptr(f.RangeProposedMPa), Train: f.Train}
+		ToDate: ptr(f.DamageToDate), RemainingYears: ptr(f.RemainingYears), RangeProposedMPa: ptr(f.RangeProposedMPa), Train: f.Train,
+		SectionModulusMM3: ptr(f.SectionModulusMM3)}
 	if f.EndYear.Valid {
 		y := int(f.EndYear.Int32)
 		out.EndYear = &y

@@ -121,7 +121,8 @@ const maxTracks = 8
 
 // FatigueSummary counts a bridge's fatigue outcomes.
 type FatigueSummary struct {
-	// Checked members had an area and a category; NoData members lacked one (not flagged);
+	// Checked members had an area (a floor element: a section modulus) and a category; NoData
+	// members lacked one (not flagged);
 	// BelowCutOff members were checked and no range reached the cut-off.
 	Checked, NoData, BelowCutOff int
 	FlagCounts                   map[fatigue.Flag]int
@@ -132,6 +133,20 @@ type FatigueSummary struct {
 	Shortest      int
 	ShortestYears float64
 	ShortestIndex float64
+}
+
+// add counts the outcome r of the checked member res.Members[i].
+func (sum *FatigueSummary) add(i int, r *fatigue.Result) {
+	sum.Checked++
+	if r.Status == fatigue.BelowCutOff {
+		sum.BelowCutOff++
+	}
+	for _, fl := range r.Flags {
+		sum.FlagCounts[fl]++
+	}
+	if r.RemainingYears < sum.ShortestYears {
+		sum.Shortest, sum.ShortestYears = i, r.RemainingYears
+	}
 }
 
 // checkFatigue runs the fatigue check of every member with an area and a category (where the
@@ -162,42 +177,27 @@ func (w *Screener) checkFatigue(b Bridge, s *Settings, spanM float64, lines *ana
 		// A category that is no EN 1993-1-9 detail category (an owner's own, or another
 		// code's letter) is kept in the inventory as written and not checked, as a member
 		// without one: the check has no S-N curve for it.
-		cat, has, err := fatigue.ParseCategory(inv.FatigueCategory, f.RivetedCategoryMPa)
-		if err != nil || !has || !(inv.AreaMM2 > 0) || math.IsInf(inv.AreaMM2, 0) {
-			sum.NoData++
-			continue
-		}
-		curve, err := fatigue.NewCurve(cat, f.GammaMf)
+		curve, ok, err := fatigueCurve(inv.FatigueCategory, inv.AreaMM2, f)
 		if err != nil {
 			return fmt.Errorf("member %s: %w", l.Label, err)
+		}
+		if !ok {
+			sum.NoData++
+			continue
 		}
 		line, err := fatigue.NewLine(lines.X, l.Ordinates)
 		if err != nil {
 			return fmt.Errorf("member %s: %w", l.Label, err)
 		}
-		for _, o := range built {
-			if same, mirror := o.Matches(line); same {
-				line = o
-				break
-			} else if mirror {
-				line = o.Mirror()
-				break
-			}
-		}
-		built = append(built, line)
+		line, built = sharedLine(built, line)
 		if *r, err = w.fcalc.Check(fatigue.Member{Line: line, AreaMM2: inv.AreaMM2, Curve: curve}, fb, &f.Settings, f.Existing, f.Proposed, nil); err != nil {
 			return fmt.Errorf("member %s, fatigue: %w", l.Label, err)
 		}
-		sum.Checked++
-		if r.Status == fatigue.BelowCutOff {
-			sum.BelowCutOff++
-		}
-		for _, fl := range r.Flags {
-			sum.FlagCounts[fl]++
-		}
-		if r.RemainingYears < sum.ShortestYears {
-			sum.Shortest, sum.ShortestYears = i, r.RemainingYears
-		}
+		sum.add(i, r)
+	}
+	// The floor elements' results follow the truss members' (screenFloor).
+	if err := w.checkFloorFatigue(b, s, spanM, len(lines.Members), res, &sum); err != nil {
+		return err
 	}
 	sum.ShortestIndex = math.Inf(1)
 	if f.HorizonYears > 0 && sum.Shortest >= 0 {

@@ -9,7 +9,7 @@ import (
 )
 
 // Table member_assessments: sql/migrations/002_screening.sql, 004, 009 (made anew, keyed by
-// result set), 012 (fatigue), 017 (the other truss).
+// result set), 012 (fatigue), 017 (the other truss), 018 (a floor element's section modulus).
 
 // MemberAssessment is a row of member_assessments: one member's rating under both scenarios
 // and its flags, in a result set.
@@ -52,6 +52,9 @@ type FatigueColumns struct {
 	RangeExistingMPa               pgtype.Float8
 	RangeProposedMPa               pgtype.Float8
 	Train                          string
+	// SectionModulusMM3 is the section modulus a floor element's check used (migration
+	// 018; NULL for a truss member, whose AreaMM2 is its area).
+	SectionModulusMM3 pgtype.Float8
 }
 
 // memberAssessmentColumns are member_assessments' columns: the COPY that writes the rows,
@@ -79,6 +82,7 @@ var memberAssessmentColumns = []column[MemberAssessment]{
 	{"other_truss", func(a *MemberAssessment) any { return &a.Other.Truss }},
 	{"other_rf_existing", func(a *MemberAssessment) any { return &a.Other.RFExisting }},
 	{"other_rf_proposed", func(a *MemberAssessment) any { return &a.Other.RFProposed }},
+	{"fatigue_section_modulus_mm3", func(a *MemberAssessment) any { return &a.Fatigue.SectionModulusMM3 }},
 }
 
 // fatigueColumns lists member_assessments' fatigue columns (their names begin fatigue_),

@@ -7,7 +7,7 @@ import (
 	"github.com/jackc/pgx/v5"
 )
 
-// Table members: sql/migrations/001_inventory.sql; rating_sense, 011; truss, 012_cross_section.sql; floor capacities, 013_floor_system.sql.
+// Table members: sql/migrations/001_inventory.sql; rating_sense, 011; truss, 012_cross_section.sql; floor capacities, 013_floor_system.sql; section_modulus_mm3, 018_floor_fatigue.sql.
 
 // Member is one member's stored capacity, a row of the members table. A member has a
 // tension capacity, a compression capacity, or both; or instead a rating factor for a named
@@ -33,28 +33,34 @@ type Member struct {
 	// migration 014); RatingSense is then "moment" or "shear".
 	CapacityMomentKNM *float64
 	CapacityShearKN   *float64
+	// SectionModulusMM3 is a floor element's elastic section modulus (mm³) for its fatigue
+	// check (migration 018); nil for a truss member.
+	SectionModulusMM3 *float64
 }
 
 var membersTable = table{
 	name: "members",
 	key:  []string{"bridge_id", "member", "truss"},
 	cols: []string{"capacity_tension_kn", "capacity_compression_kn", "rating_factor", "reference_train",
-		"rating_sense", "condition_factor", "area_mm2", "fatigue_category", "capacity_moment_knm", "capacity_shear_kn"},
+		"rating_sense", "condition_factor", "area_mm2", "fatigue_category", "capacity_moment_knm", "capacity_shear_kn",
+		"section_modulus_mm3"},
 	touch: "updated_at",
 }
 
 const memberColumns = `bridge_id, member, capacity_tension_kn, capacity_compression_kn, rating_factor, reference_train,
-	rating_sense, condition_factor, area_mm2, fatigue_category, truss, capacity_moment_knm, capacity_shear_kn`
+	rating_sense, condition_factor, area_mm2, fatigue_category, truss, capacity_moment_knm, capacity_shear_kn,
+	section_modulus_mm3`
 
 func (m Member) values() []any {
 	return []any{m.BridgeID, m.Member, m.Truss, m.CapacityTensionKN, m.CapacityCompressionKN, m.RatingFactor, m.ReferenceTrain,
-		m.RatingSense, m.ConditionFactor, m.AreaMM2, m.FatigueCategory, m.CapacityMomentKNM, m.CapacityShearKN}
+		m.RatingSense, m.ConditionFactor, m.AreaMM2, m.FatigueCategory, m.CapacityMomentKNM, m.CapacityShearKN,
+		m.SectionModulusMM3}
 }
 
 func (m *Member) pointers() []any {
 	return []any{&m.BridgeID, &m.Member, &m.CapacityTensionKN, &m.CapacityCompressionKN, &m.RatingFactor,
 		&m.ReferenceTrain, &m.RatingSense, &m.ConditionFactor, &m.AreaMM2, &m.FatigueCategory, &m.Truss,
-		&m.CapacityMomentKNM, &m.CapacityShearKN}
+		&m.CapacityMomentKNM, &m.CapacityShearKN, &m.SectionModulusMM3}
 }
 
 // Members returns the stored members of one bridge, ordered by label.

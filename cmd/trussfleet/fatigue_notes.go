@@ -45,7 +45,7 @@ func printFatigueNotes(w io.Writer, rows []report.BridgeRow, counts map[string]i
 		}
 	}
 	if noData > 0 {
-		fmt.Fprintf(w, "%s here had no area or fatigue category and were not checked for fatigue.\n", plural(noData, "member"))
+		fmt.Fprintf(w, "%s here had no area (a floor element: no section modulus) or no fatigue category and were not checked for fatigue.\n", plural(noData, "member"))
 	}
 }
 

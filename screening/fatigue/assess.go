@@ -161,8 +161,10 @@ const (
 // Result is one member's fatigue outcome. Damages are Miner sums (1 uses up the life).
 type Result struct {
 	Status Status
-	// CategoryMPa and AreaMM2 are the detail used.
+	// CategoryMPa and AreaMM2 are the detail used (SectionModulusMM3 instead of the area for
+	// a bending element).
 	CategoryMPa, AreaMM2 float64
+	SectionModulusMM3    float64
 	// PerYearExisting and PerYearProposed are the yearly damages; Ratio their quotient (+Inf
 	// when only the proposed traffic does damage, 0 when neither does).
 	PerYearExisting, PerYearProposed, Ratio float64
@@ -190,12 +192,29 @@ type Member struct {
 	Line    *Line
 	AreaMM2 float64
 	Curve   Curve
+	// SectionModulusMM3, when positive, makes the member a bending element (a stringer, a
+	// floor beam): its line gives a moment (kN·m per kN) and its stress is M / W, in place of
+	// force over AreaMM2.
+	SectionModulusMM3 float64
+}
+
+// mpaPerUnit is the stress (MPa) of a unit of the member's line: 1 kN over mm² is 1000 MPa,
+// 1 kN·m over mm³ is 1e6 MPa (1 kN·m = 1e6 N·mm).
+func (m Member) mpaPerUnit() float64 {
+	if m.SectionModulusMM3 > 0 {
+		return 1e6 / m.SectionModulusMM3
+	}
+	return 1000 / m.AreaMM2
 }
 
 // Bridge is what the check needs of the member's bridge.
 type Bridge struct {
-	// SpanM is the determinant length of the fatigue dynamic factor.
+	// SpanM is the determinant length of the fatigue dynamic factor, and bounds the extent of
+	// the member's line (a passage's steady count, passage.go).
 	SpanM float64
+	// DeterminantM, when positive, is the determinant length of the dynamic factor in place
+	// of SpanM: a floor element's own (its line still lies within SpanM).
+	DeterminantM float64
 	// YearBuilt (0: not known).
 	YearBuilt int
 	// Shares are the truss's shares of each track's load.
@@ -209,7 +228,8 @@ type Passage struct {
 	Direction Direction
 	History   []Point
 	Cycles    []Cycle
-	// MPaPerKN turns the history's forces into stresses (share x dynamic factor / area).
+	// MPaPerKN turns the history's forces into stresses (share x dynamic factor / area); for a
+	// bending element, its moments (kN·m: share x dynamic factor x 1e6 / section modulus).
 	MPaPerKN float64
 	// PerYear is the number of these passages a year.
 	PerYear float64
@@ -221,7 +241,7 @@ type Passage struct {
 // keep, when not nil, receives every passage computed (for the report); the histories and
 // cycles it holds are the Calculator's until the next call unless keep copies them.
 func (c *Calculator) Check(m Member, b Bridge, s *Settings, existing, proposed []Traffic, keep func(proposed bool, p Passage)) (Result, error) {
-	r := Result{Status: Damaged, CategoryMPa: m.Curve.CategoryMPa, AreaMM2: m.AreaMM2}
+	r := Result{Status: Damaged, CategoryMPa: m.Curve.CategoryMPa, AreaMM2: m.AreaMM2, SectionModulusMM3: m.SectionModulusMM3}
 	var err error
 	r.PerYearExisting, r.MaxRangeExistingMPa, _, err = c.yearly(m, b, s, existing, keep, false)
 	if err != nil {
@@ -264,10 +284,14 @@ func (c *Calculator) Check(m Member, b Bridge, s *Settings, existing, proposed [
 // the train doing the most damage a year.
 func (c *Calculator) yearly(m Member, b Bridge, s *Settings, traffic []Traffic, keep func(bool, Passage), proposed bool) (perYear, maxRange float64, governing string, err error) {
 	worst := -1.0
+	lphi := b.SpanM
+	if b.DeterminantM > 0 {
+		lphi = b.DeterminantM
+	}
 	for _, t := range traffic {
 		f := s.DynamicFactor
 		if t.SpeedMPerS > 0 {
-			if f, err = DynamicFactor(t.SpeedMPerS, b.SpanM, LowerFrequency(b.SpanM)); err != nil {
+			if f, err = DynamicFactor(t.SpeedMPerS, lphi, LowerFrequency(lphi)); err != nil {
 				return 0, 0, "", err
 			}
 		}
@@ -283,7 +307,7 @@ func (c *Calculator) yearly(m Member, b Bridge, s *Settings, traffic []Traffic, 
 		for _, sh := range shares {
 			share = max(share, math.Abs(sh))
 		}
-		scale := share * f * 1000 / m.AreaMM2 // kN over mm² is 1000 MPa
+		scale := share * f * m.mpaPerUnit()
 		dirs := t.Directions
 		if len(dirs) == 0 {
 			dirs = []Direction{LeftToRight, RightToLeft}

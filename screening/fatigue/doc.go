@@ -18,7 +18,10 @@
 // Cycles. Turning keeps the history's peaks and valleys; Rainflow counts their cycles by the
 // three-point rainflow method of ASTM E1049 with half cycles. Stress range = force range
 // (kN) times the truss's share of the track, times the fatigue dynamic factor, divided by
-// the member's area (mm², giving MPa via kN/mm² x 1000).
+// the member's area (mm², giving MPa via kN/mm² x 1000). A bending element (a stringer or a
+// floor beam, Member.SectionModulusMM3) has a moment line instead: stress range = moment range
+// (kN·m) times its share of the track, times the dynamic factor taken at its own determinant
+// length (Bridge.DeterminantM), divided by its section modulus (mm³; kN·m/mm³ x 1e6 = MPa).
 //
 // Damage. Curve is an S-N curve of the shape of EN 1993-1-9 (values from memory; check them
 // against the edition in force): the detail category is the range at 2e6 cycles, slope 3 to

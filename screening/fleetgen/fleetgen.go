@@ -53,7 +53,7 @@ var (
 		"truss_spacing_m", "track_offsets_m", "line_speed_kmh", "first_frequency_hz", "truss_weight_kn_per_m",
 		"depths_m", "end_depth_m", "spans", "stringer_spacing_m", "stringer_dead_kn_per_m", "floor_beam_dead_kn_per_m"}
 	MemberHeader = []string{"bridge_id", "member", "capacity_tension_kn", "capacity_compression_kn", "rating_factor", "reference_train", "condition_factor", "area_mm2", "fatigue_category",
-		"capacity_moment_knm", "capacity_shear_kn"}
+		"capacity_moment_knm", "capacity_shear_kn", "section_modulus_mm3"}
 )
 
 // Generate writes the bridges and members CSV files of an invented fleet.
@@ -265,13 +265,13 @@ func writeMembers(w *csv.Writer, r *rand.Rand, b screening.Bridge, year int, res
 			cond = round(0.8+0.18*r.Float64(), 0.01)
 		}
 		area := round(math.Max(ct, cc)/0.165, 100) // mm² at about 165 MPa working stress
-		row := []string{b.ID, m.Label, f(ct), f(cc), "", "", f(cond), f(area), "71", "", ""}
+		row := []string{b.ID, m.Label, f(ct), f(cc), "", "", f(cond), f(area), "71", "", "", ""}
 		if stored {
 			rf, ok := storedRF(m, ct*cond, cc*cond)
 			if !ok {
 				continue // a member the reference train does not load: nothing to store
 			}
-			row = []string{b.ID, m.Label, "", "", f(round(rf, 0.01)), refName, "1", f(area), "71", "", ""}
+			row = []string{b.ID, m.Label, "", "", f(round(rf, 0.01)), refName, "1", f(area), "71", "", "", ""}
 		}
 		if err := w.Write(row); err != nil {
 			return err

@@ -52,7 +52,9 @@ func inventFloor(r *rand.Rand, share float64, b *screening.Bridge, row []string)
 // sized as the truss members are: for the design loading times the bridge's margin, or for
 // today's traffic (the reference train) with a little to spare where the design left it short.
 // The proposed heavier axles raise the floor's effects nearly in proportion to the axle load,
-// so on some bridges a floor element is the first to fall short, as in practice.
+// so on some bridges a floor element is the first to fall short, as in practice. Each element
+// also has a section modulus (its moment capacity at about 165 MPa working stress, as the
+// members' areas are sized) and detail category 71 (riveted), for its fatigue check.
 func writeFloor(w *csv.Writer, r *rand.Rand, b screening.Bridge, res screening.Result, margin float64) error {
 	if !b.Floor.Rate {
 		return nil
@@ -80,9 +82,15 @@ func writeFloor(w *csv.Writer, r *rand.Rand, b screening.Bridge, res screening.R
 	}
 	for _, el := range order {
 		c := caps[el]
-		if err := w.Write([]string{b.ID, el, "", "", "", "", "1", "", "71", f(c[0]), f(c[1])}); err != nil {
+		if err := w.Write([]string{b.ID, el, "", "", "", "", "1", "", "71", f(c[0]), f(c[1]), f(sectionModulus(c[0]))}); err != nil {
 			return err
 		}
 	}
 	return nil
+}
+
+// sectionModulus is the section modulus (mm³) that carries a moment capacity (kN·m) at about
+// 165 MPa working stress: kN·m x 1e6 = N·mm, over N/mm².
+func sectionModulus(momentKNM float64) float64 {
+	return round(momentKNM*1e6/165, 1e4)
 }

@@ -45,6 +45,14 @@
 // (stringer p + 3 m, floor beam 2 b, end floor beam 3.6 m; Lengths, configurable) or AREMA's
 // (the stringer's length; the longer adjacent panel for a floor beam), values from memory.
 //
+// Fatigue (System.FatigueLine): a floor element's bending moment at its fatigue section as an
+// influence line along the track with each track's factor, for screening/fatigue's exact
+// passages: a stringer at mid-span (a triangle of height p/4, half the track's axles on a
+// line), a floor beam under the stringer line where its largest live moment stands (its
+// reaction triangle times the moment per unit reaction of each track, by statics). The fatigue
+// stress is that moment over the element's section modulus (screening/floor_fatigue.go).
+// Shear is not checked for fatigue.
+//
 // Units are kN and m throughout. Inputs are never modified.
 //
 //	els, notes, err := floor.System{PanelX: x, TrussSpacingM: 5.5}.Elements()

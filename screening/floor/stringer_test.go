@@ -201,20 +201,25 @@ func bruteMoment(ft flatTrain, L float64, nx, ns int) float64 {
 	return best
 }
 
+// drawAxles draws a group of 1 to most axles of 10 to 300 kN, 0.5 to 5 m apart.
+func drawAxles(rt *rapid.T, most int) *traffic.Train {
+	n := rapid.IntRange(1, most).Draw(rt, "axles")
+	loads := make([]float64, n)
+	sp := make([]float64, max(n-1, 0))
+	for i := range loads {
+		loads[i] = rapid.Float64Range(10, 300).Draw(rt, "load")
+	}
+	for i := range sp {
+		sp[i] = rapid.Float64Range(0.5, 5).Draw(rt, "spacing")
+	}
+	return axles("random", loads, sp)
+}
+
 // TestMaxMomentRapid: for random axle groups and spans, the exact maximum is never beaten by
 // a brute force over positions and sections, and the envelope at its section reproduces it.
 func TestMaxMomentRapid(t *testing.T) {
 	rapid.Check(t, func(rt *rapid.T) {
-		n := rapid.IntRange(1, 6).Draw(rt, "axles")
-		loads := make([]float64, n)
-		sp := make([]float64, max(n-1, 0))
-		for i := range loads {
-			loads[i] = rapid.Float64Range(10, 300).Draw(rt, "load")
-		}
-		for i := range sp {
-			sp[i] = rapid.Float64Range(0.5, 5).Draw(rt, "spacing")
-		}
-		tr := axles("random", loads, sp)
+		tr := drawAxles(rt, 6)
 		if rapid.Bool().Draw(rt, "part") {
 			from := rapid.Float64Range(-3, 10).Draw(rt, "from")
 			tr.Parts = []traffic.Part{{FromM: from, ToM: from + rapid.Float64Range(0.5, 8).Draw(rt, "len"), QKNPerM: rapid.Float64Range(5, 150).Draw(rt, "q")}}

@@ -299,15 +299,7 @@ func beamMaxima(span float64, pts []pointLoad) (m, v float64) {
 		rb += pl.p * pl.y / span
 	}
 	for _, at := range pts {
-		mm := 0.0
-		for _, pl := range pts {
-			if pl.y <= at.y {
-				mm += pl.p * pl.y * (span - at.y) / span
-			} else {
-				mm += pl.p * at.y * (span - pl.y) / span
-			}
-		}
-		m = max(m, mm)
+		m = max(m, momentAt(span, at.y, pts))
 	}
 	return m, max(ra, rb)
 }

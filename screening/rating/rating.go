@@ -62,6 +62,9 @@ type Member struct {
 	// rating does not use them.
 	AreaMM2         float64
 	FatigueCategory string
+	// SectionModulusMM3 (mm³, 0: not held) stands for the area of a floor element, whose
+	// fatigue stress is its moment over it (screening/floor_fatigue.go).
+	SectionModulusMM3 float64
 }
 
 // StoredSense is the sense a member's stored rating factor rates: the one the inventory

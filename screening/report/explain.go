@@ -220,7 +220,7 @@ func explainRating(w io.Writer, run Run, m Member, u units.System) {
 	}
 	fmt.Fprintf(w, "  existing RF %s, proposed RF %s", rfText(m.RFExisting), rfText(m.RFProposed))
 	if m.SenseProposed != "" {
-		fmt.Fprintf(w, " (%s)", m.SenseProposed)
+		fmt.Fprintf(w, " (%s)", senseName(m.Label, m.SenseProposed))
 	}
 	fmt.Fprintf(w, "\n\nWhy flagged\n")
 	if rs := reasons(run, m, u); len(rs) > 0 {

@@ -9,6 +9,7 @@ import (
 	"github.com/trussfleet/trussfleet/internal/safetext"
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/fatigue"
+	"github.com/trussfleet/trussfleet/screening/floor"
 )
 
 // explainFatigue writes a member's fatigue arithmetic (where the run checked fatigue and the
@@ -22,7 +23,11 @@ func explainFatigue(p func(string, ...any), run Run, b Bridge, m Member, xs, eta
 		return
 	}
 	p("\n\nFatigue (EN 1993-1-9 S-N curve, rainflow counting ASTM E1049, Miner's sum; values from memory)\n")
-	if f.Status == string(fatigue.NoData) || f.CategoryMPa == nil || f.AreaMM2 == nil {
+	if f.Status == string(fatigue.NoData) || f.CategoryMPa == nil || (f.AreaMM2 == nil && f.SectionModulusMM3 == nil) {
+		if _, _, isFloor := floor.ResultEffect(m.Label); isFloor {
+			p("  not checked: the inventory holds no section modulus or no fatigue category for %s (counted, not flagged); its shear is not checked for fatigue (connections and out-of-plane details need a detail assessment)\n", m.Label)
+			return
+		}
 		p("  not checked: the inventory holds no area or no fatigue category for %s (counted, not flagged)", m.Label)
 		return
 	}
@@ -35,7 +40,15 @@ func explainFatigue(p func(string, ...any), run Run, b Bridge, m Member, xs, eta
 	p("  detail category %s MPa at 2e6 cycles, gamma_Mf %s: constant-amplitude limit %s MPa (5e6), cut-off %s MPa (1e8);\n",
 		num(curve.CategoryMPa, 1), num(set.GammaMf, 2), num(curve.LimitMPa(), 1), num(curve.CutOffMPa(), 1))
 	p("  N = 2e6 (dC / (gamma_Mf dS))^3 above the limit, 5e6 (dD / (gamma_Mf dS))^5 down to the cut-off, none below\n")
-	p("  area %s mm²; stress = force x track share x dynamic factor / area\n", num(*f.AreaMM2, 0))
+	if f.SectionModulusMM3 != nil {
+		p("%s", floorFatigueBasis(b, m, rc))
+	} else {
+		p("  area %s mm²; stress = force x track share x dynamic factor / area\n", num(*f.AreaMM2, 0))
+	}
+	perUnit := "kN" // MPa per unit of the line: a force, or a floor element's moment
+	if f.SectionModulusMM3 != nil {
+		perUnit = "kN·m"
+	}
 	type line struct {
 		proposed bool
 		text     string
@@ -52,8 +65,8 @@ func explainFatigue(p func(string, ...any), run Run, b Bridge, m Member, xs, eta
 		for _, c := range ps.Cycles {
 			total += c.Count
 		}
-		lines = append(lines, line{ps.proposed, fmt.Sprintf("    %s, %s: %s a year; %s MPa per kN; %s cycles a passage, largest %s; damage %s a passage, %s a year",
-			safetext.Terminal(ps.Train), ps.Direction, num(ps.PerYear, 0), num(ps.MPaPerKN, 4), num(total, 1),
+		lines = append(lines, line{ps.proposed, fmt.Sprintf("    %s, %s: %s a year; %s MPa per %s; %s cycles a passage, largest %s; damage %s a passage, %s a year",
+			safetext.Terminal(ps.Train), ps.Direction, num(ps.PerYear, 0), num(ps.MPaPerKN, 4), perUnit, num(total, 1),
 			strings.Join(top, ", "), sci(ps.Damage), sci(ps.Damage*ps.PerYear))})
 	}
 	for _, sc := range []struct {
@@ -66,9 +79,10 @@ func explainFatigue(p func(string, ...any), run Run, b Bridge, m Member, xs, eta
 		for _, t := range sc.traffic {
 			factor := fmt.Sprintf("dynamic factor %s (no speed given)", num(set.DynamicFactor, 3))
 			if t.SpeedKmh > 0 {
-				v, _ := fatigue.DynamicFactor(t.SpeedKmh/3.6, spanM, fatigue.LowerFrequency(spanM))
+				lphi := rc.lphiM
+				v, _ := fatigue.DynamicFactor(t.SpeedKmh/3.6, lphi, fatigue.LowerFrequency(lphi))
 				factor = fmt.Sprintf("at %s km/h over %s m, n0 %s Hz (lower bound), dynamic factor 1 + (phi' + phi''/2)/2 = %s",
-					num(t.SpeedKmh, 0), num(spanM, 1), num(fatigue.LowerFrequency(spanM), 2), num(v, 3))
+					num(t.SpeedKmh, 0), num(lphi, 1), num(fatigue.LowerFrequency(lphi), 2), num(v, 3))
 			}
 			p("    %s: %s\n", safetext.Terminal(t.Train.Asked), factor)
 		}
@@ -107,6 +121,8 @@ type fatigueRecheck struct {
 	curve    fatigue.Curve
 	result   fatigue.Result
 	passages []keptPassage
+	// lphiM is the determinant length the dynamic factor of a train at speed took.
+	lphiM float64
 }
 
 type keptPassage struct {
@@ -118,8 +134,24 @@ type keptPassage struct {
 // trains, the bridge's year built and shares, the stored detail).
 func recheckFatigue(run Run, b Bridge, m Member, xs, eta []float64, spanM float64) (*fatigueRecheck, error) {
 	f := m.Fatigue
-	if run.Fatigue == nil || f.CategoryMPa == nil || f.AreaMM2 == nil {
-		return nil, fmt.Errorf("no fatigue check for member %s", m.Label)
+	fm := fatigue.Member{}
+	fb := fatigue.Bridge{SpanM: spanM, YearBuilt: b.YearBuilt}
+	if _, _, isFloor := floor.ResultEffect(m.Label); isFloor {
+		// A floor element: its moment line and shares (xs and eta are not its).
+		var err error
+		if xs, eta, fb, err = floorFatigueInput(run, b, m, fb); err != nil {
+			return nil, err
+		}
+		fm.SectionModulusMM3 = *f.SectionModulusMM3
+	} else {
+		if run.Fatigue == nil || f.CategoryMPa == nil || f.AreaMM2 == nil {
+			return nil, fmt.Errorf("no fatigue check for member %s", m.Label)
+		}
+		fm.AreaMM2 = *f.AreaMM2
+		fb.Shares = make([]float64, max(b.Tracks, 1))
+		for i := range fb.Shares {
+			fb.Shares[i] = b.TrussShare
+		}
 	}
 	set, err := run.Fatigue.Settings()
 	if err != nil {
@@ -129,23 +161,21 @@ func recheckFatigue(run Run, b Bridge, m Member, xs, eta []float64, spanM float6
 	if err != nil {
 		return nil, err
 	}
-	fl, err := fatigue.NewLine(xs, eta)
-	if err != nil {
+	if fm.Line, err = fatigue.NewLine(xs, eta); err != nil {
 		return nil, err
 	}
-	shares := make([]float64, max(b.Tracks, 1))
-	for i := range shares {
-		shares[i] = b.TrussShare
+	fm.Curve = curve
+	rc := &fatigueRecheck{set: set, curve: curve, lphiM: fb.SpanM}
+	if fb.DeterminantM > 0 {
+		rc.lphiM = fb.DeterminantM
 	}
-	rc := &fatigueRecheck{set: set, curve: curve}
 	keep := func(proposed bool, ps fatigue.Passage) {
 		ps.History = append([]fatigue.Point(nil), ps.History...)
 		ps.Cycles = append([]fatigue.Cycle(nil), ps.Cycles...)
 		rc.passages = append(rc.passages, keptPassage{ps, proposed})
 	}
 	var calc fatigue.Calculator
-	rc.result, err = calc.Check(fatigue.Member{Line: fl, AreaMM2: *f.AreaMM2, Curve: curve},
-		fatigue.Bridge{SpanM: spanM, YearBuilt: b.YearBuilt, Shares: shares}, &set.Settings, set.Existing, set.Proposed, keep)
+	rc.result, err = calc.Check(fm, fb, &set.Settings, set.Existing, set.Proposed, keep)
 	return rc, err
 }
 

@@ -92,6 +92,9 @@ func floorSection(run Run, b Bridge, t *truss.Truss, s section, i int, u units.S
 		s.Captions = append(s.Captions, fmt.Sprintf("Proposed traffic: %s, %s, front at x = %s %s, gives L = %s %s.", orDash(ex.Train), ex.Direction,
 			qty(u, units.Length, ex.HeadM), lu, qty(u, q, ex.Value), u.Name(q)))
 	}
+	if s.Fatigue = drawFatigue(run, b, m, nil, nil, t.SpanM()); s.Fatigue != nil {
+		s.Fatigue.Caption += floorFatigueNote(b, m, u)
+	}
 	return s
 }
 
@@ -257,6 +260,10 @@ func explainFloor(w io.Writer, run Run, b Bridge, t *truss.Truss, m Member, u un
 		} else {
 			p("    sum %s %s (L as screened: %s %s)\n", qty(u, q, sum), qu, qty(u, q, ex.Value), qu)
 		}
+	}
+	if eff == floor.Moment {
+		explainFatigue(p, run, b, m, nil, nil, t.SpanM())
+		p("\n")
 	}
 	explainRating(ew, run, m, u)
 	for _, c := range Caution {

@@ -6,6 +6,7 @@ import (
 	"github.com/trussfleet/trussfleet/internal/ranking"
 	"github.com/trussfleet/trussfleet/screening"
 	"github.com/trussfleet/trussfleet/screening/envelope"
+	"github.com/trussfleet/trussfleet/screening/floor"
 	"github.com/trussfleet/trussfleet/screening/rating"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 	"github.com/trussfleet/trussfleet/screening/truss"
@@ -44,6 +45,9 @@ type Run struct {
 	// Fatigue is the run's fatigue plan (nil: the run checked no fatigue), for explaining a
 	// member's fatigue arithmetic.
 	Fatigue *screening.FatiguePlan
+	// FloorLengths are the plan's floor determinant lengths (nil: floor.DefaultLengths), for
+	// a floor element's fatigue arithmetic.
+	FloorLengths *floor.Lengths
 }
 
 // BridgeRow is one line of the priority list (package internal/ranking, which store reads
@@ -70,6 +74,9 @@ type Bridge struct {
 	Table *truss.Table
 	// YearBuilt as the inventory holds it now (0: not known), for the fatigue damage to date.
 	YearBuilt int
+	// Floor is the floor system as screening sees it, for a floor element's fatigue line
+	// (floor.FatigueLine); nil where it is not rated.
+	Floor *floor.System
 }
 
 // Section is a bridge's cross-section and what else its dynamic allowance and dead load rest
@@ -126,6 +133,8 @@ type Fatigue struct {
 	EndYear                                       *int
 	RangeProposedMPa                              *float64
 	Train                                         string
+	// SectionModulusMM3 is a floor element's (its stress is its moment over it; AreaMM2 nil).
+	SectionModulusMM3 *float64
 }
 
 // Scenario is a member's live-load envelope under one scenario (kN after the truss share,

@@ -461,6 +461,8 @@ type section struct {
 	Notes               []string
 	// Fatigue draws a fatigue-flagged member's stress history and ranges (nil: none).
 	Fatigue *fatigueChart
+	// Unit is the unit of Calc's effects: a force, or a floor element's moment.
+	Unit string
 }
 
 type calcView struct {
@@ -552,7 +554,7 @@ func bridgePage(run Run, b Bridge, u units.System) bridgeView {
 
 func memberSection(run Run, b Bridge, t *truss.Truss, lines *analysis.Lines, i int, anchor string, u units.System) section {
 	m := b.Members[i]
-	s := section{Label: m.Label, Kind: m.Kind, Anchor: anchor, Flags: m.Flags, Reasons: reasons(run, m, u)}
+	s := section{Label: m.Label, Kind: m.Kind, Anchor: anchor, Flags: m.Flags, Reasons: reasons(run, m, u), Unit: u.Name(effectQty(m.Label))}
 	for _, c := range append(senses(m, "existing", m.Existing), senses(m, "proposed", m.Proposed)...) {
 		s.Calc = append(s.Calc, calcOf(c, u))
 	}
