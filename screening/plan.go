@@ -6,6 +6,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"sort"
+	"strconv"
 
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/floor"
@@ -82,13 +83,24 @@ type Plan struct {
 	Fatigue *FatiguePlan `json:"fatigue,omitempty"`
 }
 
-// Hash is a stable digest of the plan.
+// MethodVersion numbers the screening's computation: raise it with every change that gives
+// other results for the same inventory and plan (a new check, a corrected formula, a result
+// column filled differently). It is part of every plan's hash, so a run with --changed after
+// such a change screens every bridge again instead of carrying older results forward.
+// 2: the floor system's fatigue check.
+const MethodVersion = 2
+
+// Hash is a stable digest of the plan and of the method (MethodVersion) that computes it.
 func (p Plan) Hash() string {
+	return p.hashWith(MethodVersion)
+}
+
+func (p Plan) hashWith(method int) string {
 	b, err := json.Marshal(p)
 	if err != nil {
 		panic(err) // a Plan holds only strings and numbers
 	}
-	s := sha256.Sum256(b)
+	s := sha256.Sum256(append([]byte("trussfleet method "+strconv.Itoa(method)+"\n"), b...))
 	return hex.EncodeToString(s[:])
 }
 
