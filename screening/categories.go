@@ -21,6 +21,8 @@ type NetworkTrains struct {
 	loads      []*envelope.Load // Geometries' unit trains
 	long       []*envelope.Load // Geometries' long trains (network.LongSuffices)
 	E80        *envelope.Load
+	// cut are the trains cut to the wagons a span's lines can feel (network_wagons.go).
+	cut wagonLoads
 }
 
 // NewNetworkTrains prepares the trains of the network view.
@@ -69,9 +71,9 @@ func (w *Screener) rateNetwork(b Bridge, s *Settings, el *envelope.Lines, ords [
 		return w.sectionEnvelopes(el, Scenario{Name: ld.Name(), Trains: []*envelope.Load{ld}}, b, trusses, s.Presence, md)
 	}
 	unit := make([][][]Envelope, len(nt.loads))
-	loads := nt.loads
-	if network.LongSuffices(ords) {
-		loads = nt.long
+	loads, err := nt.forSpan(el.SpanM(), network.LongSuffices(ords))
+	if err != nil {
+		return nil, err
 	}
 	for g, ld := range loads {
 		env, err := envelopes(ld)

@@ -86,6 +86,11 @@ func BenchmarkNetworkTrains(b *testing.B) {
 		long := *g.Long
 		long.Name += " long"
 		trains = append(trains, g.Unit, &long)
+		n := network.WagonsThatMatter(lines.X[len(lines.X)-1]-lines.X[0], g.LengthM)
+		cutLong, cutUnit := g.Wagons(n, true), g.Wagons(n, false)
+		cutLong.Name += " long cut"
+		cutUnit.Name += " cut"
+		trains = append(trains, cutUnit, cutLong)
 	}
 	for _, tr := range trains {
 		ld, err := envelope.Prepare(tr)

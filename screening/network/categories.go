@@ -88,6 +88,12 @@ func (c Category) WagonLengthM() float64 { return WagonAxles * c.AxleLoadT / c.M
 // wagonTrain is a train of minCount to WagonsMax reference wagons of the length, each axle
 // carrying axleKN.
 func wagonTrain(name string, lengthM, axleKN float64, minCount int) *traffic.Train {
+	return wagonRake(name, lengthM, axleKN, minCount, WagonsMax)
+}
+
+// wagonRake is a train of minCount to maxCount reference wagons of the length, each axle
+// carrying axleKN.
+func wagonRake(name string, lengthM, axleKN float64, minCount, maxCount int) *traffic.Train {
 	v := traffic.Vehicle{Name: name + " reference wagon", LengthM: lengthM}
 	for _, at := range []float64{EndAxleM, EndAxleM + BogieAxlesM, lengthM - EndAxleM - BogieAxlesM, lengthM - EndAxleM} {
 		v.Axles = append(v.Axles, traffic.Axle{AtM: at, LoadKN: axleKN})
@@ -95,7 +101,7 @@ func wagonTrain(name string, lengthM, axleKN float64, minCount int) *traffic.Tra
 	return &traffic.Train{
 		Name:    name,
 		Note:    "trussfleet reference wagons standing in for the EN 15528 ones (category values from memory)",
-		Consist: []traffic.Group{{Vehicle: v, Min: minCount, Max: WagonsMax}},
+		Consist: []traffic.Group{{Vehicle: v, Min: minCount, Max: maxCount}},
 	}
 }
 
