@@ -267,9 +267,13 @@ type event struct {
 // Calculator computes passages, keeping its scratch space between calls. It is not safe for
 // concurrent use; give each goroutine its own. The zero value is ready to use.
 type Calculator struct {
-	// buildEvents' output and scratch, valid within one History.
-	events []event
-	heads  []int32
+	// events is mergeKinks' output where no list is kept (valid within one History),
+	// eventScratch its scratch; eventLists the merged lists kept for the current bridge, by
+	// eventIndex (events.go).
+	events       []event
+	eventScratch []event
+	eventLists   []eventList
+	eventIndex   map[eventKey]int
 	// Check's scratch, valid within one passage of yearly.
 	hist   []Point
 	turn   []float64
@@ -321,8 +325,7 @@ func (c *Calculator) walk(l *Line, tr *Train, dir Direction, emit func(s, v floa
 	if dir == RightToLeft {
 		k = l.dir[1]
 	}
-	c.buildEvents(k, tr)
-	ev := c.events
+	ev := c.eventsOf(k, tr)
 	if len(ev) == 0 {
 		emit(l.x0, 0)
 		return
@@ -390,31 +393,6 @@ func (c *Calculator) walk(l *Line, tr *Train, dir Direction, emit func(s, v floa
 	}
 	// After the last event every load has left: the value is zero but for rounding.
 	emit(sPrev+1, 0)
-}
-
-// buildEvents lists in c.events every position where an item reaches a kink, in order. The
-// items are in order of offset, so each kink's events are already in order; the lists of the
-// kinks are merged by taking the smallest head each time (a line has a few kinks: a chord
-// three, a diagonal four), earlier kinks first among equal positions.
-func (c *Calculator) buildEvents(k *kinks, tr *Train) {
-	nk, ni := len(k.x), len(tr.items)
-	c.events = slices.Grow(c.events[:0], nk*ni)
-	c.heads = append(c.heads[:0], make([]int32, nk)...)
-	for {
-		best, bs := -1, math.Inf(1)
-		for j, h := range c.heads {
-			if int(h) < ni {
-				if s := k.x[j] + tr.items[h].d; s < bs {
-					best, bs = j, s
-				}
-			}
-		}
-		if best < 0 {
-			return
-		}
-		c.events = append(c.events, event{s: bs, it: c.heads[best], j: int32(best)})
-		c.heads[best]++
-	}
 }
 
 // Turning reduces a history to its turning points: the first value, each value where the

@@ -87,6 +87,7 @@ func (c *Calculator) Forget() {
 		c.kept = map[passageKey]int{}
 	}
 	clear(c.kept)
+	c.forgetEvents()
 }
 
 // maxKeptPassages bounds the passages a Calculator keeps: a bridge's members times its
