@@ -175,13 +175,21 @@ func (w *Screener) checkFatigue(b Bridge, s *Settings, spanM float64, lines *ana
 		if err != nil {
 			return fmt.Errorf("member %s: %w", l.Label, err)
 		}
+		matched := false
 		for _, o := range built {
 			if same, mirror := o.Matches(line); same {
-				line = o
+				line, matched = o, true
 				break
 			} else if mirror {
-				line = o.Mirror()
+				line, matched = o.Mirror(), true
 				break
+			}
+		}
+		// A line that is a multiple of another's counts that line's passages
+		// (fatigue.Line.CountedAs): exact to rounding.
+		for k := 0; k < len(built) && !matched; k++ {
+			if p, ok := line.CountedAs(built[k]); ok {
+				line, matched = p, true
 			}
 		}
 		built = append(built, line)

@@ -129,10 +129,34 @@ func BenchmarkScreenFatigue(b *testing.B) {
 }
 
 // processCPU is the CPU time (user and system, ns) the test process has used so far.
-func processCPU(b *testing.B) int64 {
+func processCPU(b testing.TB) int64 {
 	var ru syscall.Rusage
 	if err := syscall.Getrusage(syscall.RUSAGE_SELF, &ru); err != nil {
 		b.Fatal(err)
 	}
 	return ru.Utime.Nano() + ru.Stime.Nano()
+}
+
+// BenchmarkCheckFatigue is the fatigue check alone of the bridges of BenchmarkScreenFatigue
+// (cpu-ns/op per bridge): what the check costs, without the noise of the rest.
+func BenchmarkCheckFatigue(b *testing.B) {
+	s := fatigueBenchSettings(b, true)
+	var checks []func(*screening.Screener) error
+	for _, br := range fatigueBenchBridges(b, fatigueBenchSettings(b, false)) {
+		c, err := screening.FatigueCheck(br, s)
+		if err != nil {
+			b.Fatal(err)
+		}
+		checks = append(checks, c)
+	}
+	var w screening.Screener
+	n := 0
+	cpu0 := processCPU(b)
+	for b.Loop() {
+		if err := checks[n%len(checks)](&w); err != nil {
+			b.Fatal(err)
+		}
+		n++
+	}
+	b.ReportMetric(float64(processCPU(b)-cpu0)/float64(n), "cpu-ns/op")
 }

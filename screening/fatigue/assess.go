@@ -284,6 +284,9 @@ func (c *Calculator) yearly(m Member, b Bridge, s *Settings, traffic []Traffic, 
 			share = max(share, math.Abs(sh))
 		}
 		scale := share * f * 1000 / m.AreaMM2 // kN over mm² is 1000 MPa
+		// The line's passages are counted over base, with ranges k times.
+		base, k := m.Line.counted()
+		counted := scale * k
 		dirs := t.Directions
 		if len(dirs) == 0 {
 			dirs = []Direction{LeftToRight, RightToLeft}
@@ -291,10 +294,10 @@ func (c *Calculator) yearly(m Member, b Bridge, s *Settings, traffic []Traffic, 
 		each := t.PerYear / float64(len(dirs))
 		d := 0.0
 		for _, dir := range dirs {
-			pc := c.passage(m.Line, t.Train, dir, b.SpanM)
-			one := pc.damage(m.Curve, scale)
+			pc := c.passage(base, t.Train, dir, b.SpanM)
+			one := pc.damage(m.Curve, counted)
 			d += each * one
-			maxRange = max(maxRange, pc.maxRange*scale)
+			maxRange = max(maxRange, pc.maxRange*counted)
 			if keep != nil {
 				c.hist = c.History(m.Line, t.Train, dir, c.hist)
 				c.cycles, c.stack = Rainflow(Turning(c.hist, PassageTol(m.Line, t.Train), c.turn), c.cycles, c.stack)

@@ -33,6 +33,8 @@ type Train struct {
 	items []item
 	// totalKN is the sum of the loads (axles, and parts' q times their length).
 	totalKN float64
+	// parts: the train has distributed parts.
+	parts bool
 	// The consist's structure, for passages with fewer vehicles in its last group (see
 	// steady): fixed holds every load but the last group's, unit one vehicle of the last
 	// group from its front, r0 where that group begins, unitLen its vehicles' length, count
@@ -88,6 +90,7 @@ func PrepareTrain(t *traffic.Train) (*Train, error) {
 			return nil, fmt.Errorf("train %q, parts[%d]: a part reaching indefinitely ahead or behind never leaves the bridge empty: %w", t.Name, i, ErrNotAPassage)
 		}
 		tr.fixed = append(tr.fixed, item{d: p.FromM, w: p.QKNPerM, part: true}, item{d: p.ToM, w: -p.QKNPerM, part: true})
+		tr.parts = true
 		tr.tailM = max(tr.tailM, p.FromM, p.ToM)
 	}
 	tr.items = tr.itemsWith(tr.count, nil)
@@ -136,6 +139,10 @@ type Line struct {
 	// dir[d] is the line as a train running in direction d sees it, mirrored for right to
 	// left so that every passage runs left to right.
 	dir [2]*kinks
+	// base, when set, is a line whose passages this one counts, its ranges factor times
+	// (CountedAs, proportional.go).
+	base   *Line
+	factor float64
 }
 
 // Mirror is the line of the mirror-image member: what a train running one way does to l, it
@@ -144,6 +151,9 @@ type Line struct {
 func (l *Line) Mirror() *Line {
 	m := *l
 	m.dir[0], m.dir[1] = l.dir[1], l.dir[0]
+	if l.base != nil {
+		m.base = l.base.Mirror()
+	}
 	return &m
 }
 
@@ -298,19 +308,26 @@ type Calculator struct {
 // Positions are those of the train's front in the coordinates the train sees: for right to
 // left, measured from x[last] leftwards and shifted by x[0] (the mirrored line's).
 func (c *Calculator) History(l *Line, tr *Train, dir Direction, dst []Point) []Point {
-	dst = dst[:0]
-	c.walk(l, tr, dir, func(s, v float64) { dst = append(dst, Point{s, v}) })
-	return dst
+	o := passageOut{all: true, hist: dst[:0]}
+	k := l.kinksFor(dir)
+	c.walk(k, tr, c.eventsOf(k, tr), walkState{}, math.Inf(1), &o)
+	if len(o.hist) == 0 {
+		o.hist = append(o.hist, Point{l.x0, 0})
+	}
+	return o.hist
 }
 
 // TurningOf appends to dst[:0] the turning points of one passage (Turning of History, with the
 // tolerance 1e-9 of the largest force the train could cause on the line, PassageTol) without
 // keeping the history: what the fatigue check needs of a passage.
 func (c *Calculator) TurningOf(l *Line, tr *Train, dir Direction, dst []float64) []float64 {
-	var t turning
-	t.tol, t.dst = PassageTol(l, tr), dst[:0]
-	c.walk(l, tr, dir, t.push)
-	return t.dst
+	o := passageOut{t: turning{tol: PassageTol(l, tr), dst: dst[:0]}}
+	k := l.kinksFor(dir)
+	c.walk(k, tr, c.eventsOf(k, tr), walkState{}, math.Inf(1), &o)
+	if len(o.t.dst) == 0 {
+		o.t.dst = append(o.t.dst, 0)
+	}
+	return o.t.dst
 }
 
 // PassageTol is 1e-9 of the largest force tr could cause on l: every load at the line's
@@ -319,27 +336,78 @@ func PassageTol(l *Line, tr *Train) float64 {
 	return 1e-9 * tr.totalKN * l.maxAbs
 }
 
-// walk visits the history of one passage (see History), calling emit with each point.
-func (c *Calculator) walk(l *Line, tr *Train, dir Direction, emit func(s, v float64)) {
-	k := l.dir[0]
+// kinksFor is the line as a train running in direction dir sees it.
+func (l *Line) kinksFor(dir Direction) *kinks {
 	if dir == RightToLeft {
-		k = l.dir[1]
+		return l.dir[1]
 	}
-	ev := c.eventsOf(k, tr)
-	if len(ev) == 0 {
-		emit(l.x0, 0)
+	return l.dir[0]
+}
+
+// passageOut receives a walk's points: every one (all, into hist: History), or only their
+// turning points (t: TurningOf and the fatigue check).
+type passageOut struct {
+	all  bool
+	hist []Point
+	t    turning
+}
+
+func (o *passageOut) emit(s, v float64) {
+	if o.all {
+		o.hist = append(o.hist, Point{s, v})
 		return
 	}
-	// Before the first event no load has reached the bridge.
-	emit(ev[0].s-1, 0)
-	var v, g, cc float64 // value, slope and curvature in s
-	sPrev := ev[0].s
+	o.t.push(s, v)
+}
+
+// walkState is where a walk stands at the top of an iteration: the next group of events at
+// index next (0: the walk has not begun), the front at s with the force v, its slope g and
+// curvature cc there; and, for a walk gathering turning points, the number of them so far
+// (turns), the last one's value and the sense (turning.dir).
+type walkState struct {
+	next             int
+	s, v, g, cc      float64
+	turns            int
+	lastTurn, turnTo float64
+}
+
+// walk visits the history of one passage of tr over k (events ev: eventsOf) from the state
+// from (the zero state: the beginning), passing each point to o (see History), and returns
+// the state at the top of the first iteration whose events are at or beyond stop (the zero
+// state if none is).
+//
+// Gathering turning points only (not o.all), a point on a straight stretch that goes on in
+// the same sense (the slopes before and after it of one sign, no jump there) is not passed:
+// its neighbours' values bracket it (floating-point sums of terms of one sign are monotonic;
+// the last event's point is passed, as the final zero is set rather than summed),
+// and such a point never changes the turning points (turning.push keeps the last value of a
+// run in one sense, and a value between its neighbours neither starts nor ends a run).
+// Trains with distributed parts (quadratic pieces) pass every point.
+func (c *Calculator) walk(k *kinks, tr *Train, ev []event, from walkState, stop float64, o *passageOut) (snap walkState) {
+	if len(ev) == 0 {
+		return snap
+	}
+	v, g, cc, sPrev := from.v, from.g, from.cc, from.s
+	if from.next == 0 {
+		// Before the first event no load has reached the bridge.
+		o.emit(ev[0].s-1, 0)
+		v, g, cc, sPrev = 0, 0, 0, ev[0].s
+	}
 	last := int32(len(k.x) - 1)
 	jumps := k.jump[0] != 0 || k.jump[last] != 0
+	thin := !o.all && !jumps && !tr.parts
+	snapped := false
 	// At the top of each iteration v, g, cc hold the force and its derivatives with the front
 	// at sPrev, every event before g0 applied, and every point up to sPrev is emitted.
-	for g0 := 0; g0 < len(ev); {
+	for g0 := from.next; g0 < len(ev); {
 		s := ev[g0].s
+		if !snapped && s >= stop {
+			snap = walkState{next: g0, s: sPrev, v: v, g: g, cc: cc, turns: len(o.t.dst), turnTo: o.t.dir}
+			if len(o.t.dst) > 0 {
+				snap.lastTurn = o.t.dst[len(o.t.dst)-1]
+			}
+			snapped = true
+		}
 		g1 := g0 + 1
 		for g1 < len(ev) && ev[g1].s == s {
 			g1++
@@ -347,7 +415,7 @@ func (c *Calculator) walk(l *Line, tr *Train, dir Direction, emit func(s, v floa
 		if dt := s - sPrev; dt > 0 {
 			if cc != 0 {
 				if t := -g / cc; t > 0 && t < dt {
-					emit(sPrev+t, v+g*t/2) // v + g t + cc t²/2 at t = -g/cc
+					o.emit(sPrev+t, v+g*t/2) // v + g t + cc t²/2 at t = -g/cc
 				}
 				v += g*dt + cc*dt*dt/2
 				g += cc * dt
@@ -355,7 +423,20 @@ func (c *Calculator) walk(l *Line, tr *Train, dir Direction, emit func(s, v floa
 				v += g * dt
 			}
 		}
-		emit(s, v)
+		if thin {
+			before := g
+			for _, e := range ev[g0:g1] {
+				g += tr.items[e.it].w * k.slope[e.j]
+			}
+			// The last event's value is passed: the final zero is set, not summed.
+			if !(before > 0 && g > 0) && !(before < 0 && g < 0) || g1 == len(ev) {
+				o.emit(s, v)
+			}
+			sPrev = s
+			g0 = g1
+			continue
+		}
+		o.emit(s, v)
 		if jumps {
 			// Axles arriving at the left bearing: the value with them on it; then those
 			// leaving at the right bearing: the value after.
@@ -367,7 +448,7 @@ func (c *Calculator) walk(l *Line, tr *Train, dir Direction, emit func(s, v floa
 				}
 			}
 			if arrive {
-				emit(s, v)
+				o.emit(s, v)
 			}
 			for _, e := range ev[g0:g1] {
 				if it := tr.items[e.it]; !it.part && e.j == last && k.jump[last] != 0 {
@@ -376,7 +457,7 @@ func (c *Calculator) walk(l *Line, tr *Train, dir Direction, emit func(s, v floa
 				}
 			}
 			if leave {
-				emit(s, v)
+				o.emit(s, v)
 			}
 		}
 		for _, e := range ev[g0:g1] {
@@ -392,7 +473,8 @@ func (c *Calculator) walk(l *Line, tr *Train, dir Direction, emit func(s, v floa
 		g0 = g1
 	}
 	// After the last event every load has left: the value is zero but for rounding.
-	emit(sPrev+1, 0)
+	o.emit(sPrev+1, 0)
+	return snap
 }
 
 // Turning reduces a history to its turning points: the first value, each value where the
