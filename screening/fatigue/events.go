@@ -1,6 +1,7 @@
 package fatigue
 
 import (
+	"cmp"
 	"math"
 	"slices"
 )
@@ -33,17 +34,39 @@ const maxKeptEventLists = 1024
 
 // eventsOf is the ordered events of tr over k, from the kept lists or merged and kept.
 func (c *Calculator) eventsOf(k *kinks, tr *Train) []event {
+	return c.keptEvents(k, tr, nil, nil)
+}
+
+// eventsExtending is eventsOf(k, tb) for a train tb whose items begin with ta's (ta with
+// more vehicles at its tail), given ta's events eva: tb's own items' events merged into eva.
+func (c *Calculator) eventsExtending(k *kinks, ta, tb *Train, eva []event) []event {
+	return c.keptEvents(k, tb, ta, eva)
+}
+
+// keptEvents finds tr's events over k among the kept lists, or builds them (from the events
+// eva of the train ta whose items tr's begin with, when ta is not nil) and keeps them.
+func (c *Calculator) keptEvents(k *kinks, tr, ta *Train, eva []event) []event {
 	h := uint64(14695981039346656037) // FNV-1a over the positions' bits
 	for _, x := range k.x {
 		h ^= math.Float64bits(x)
 		h *= 1099511628211
 	}
 	key := eventKey{tr: tr, n: len(k.x), h: h}
+	build := func(dst []event) []event {
+		if ta == nil {
+			return mergeKinks(dst, &c.eventScratch, k, tr.items, 0)
+		}
+		return c.extendEvents(dst, k, tr, len(ta.items), eva)
+	}
 	if i, ok := c.eventIndex[key]; ok && slices.Equal(c.eventLists[i].x, k.x) {
 		return c.eventLists[i].ev
 	} else if ok {
-		// Another list has the hash: merge into scratch and keep nothing.
-		c.events = mergeKinks(c.events, &c.eventScratch, k, tr)
+		// Another list has the hash: build into scratch (or, extending eva, which may be that
+		// scratch, anew) and keep nothing.
+		if ta != nil {
+			return build(nil)
+		}
+		c.events = build(c.events)
 		return c.events
 	}
 	if len(c.eventLists) >= maxKeptEventLists || c.eventIndex == nil {
@@ -56,9 +79,39 @@ func (c *Calculator) eventsOf(k *kinks, tr *Train) []event {
 	}
 	l := &c.eventLists[len(c.eventLists)-1]
 	l.tr, l.x = tr, k.x
-	l.ev = mergeKinks(l.ev, &c.eventScratch, k, tr)
+	l.ev = build(l.ev)
 	c.eventIndex[key] = len(c.eventLists) - 1
 	return l.ev
+}
+
+// extendEvents writes into dst the events of tr over k, given the events eva of the train
+// made of tr's first na items, and returns it: the events of the items from na on, merged
+// (mergeKinks) and then merged into eva. The order is (position, kink, item) as mergeKinks':
+// every item from na on comes after every item before, so among equal positions and kinks
+// eva's event comes first, and only the position and the kink decide otherwise. eva's events
+// before the first new position are copied as they are.
+func (c *Calculator) extendEvents(dst []event, k *kinks, tr *Train, na int, eva []event) []event {
+	ex := mergeKinks(c.extraEvents, &c.eventScratch, k, tr.items[na:], int32(na))
+	c.extraEvents = ex
+	n := len(eva) + len(ex)
+	out := slices.Grow(dst[:0], n)
+	if len(ex) == 0 {
+		return append(out, eva...)
+	}
+	i, _ := slices.BinarySearchFunc(eva, ex[0].s, func(e event, s float64) int { return cmp.Compare(e.s, s) })
+	out = append(out, eva[:i]...)
+	j := 0
+	for i < len(eva) && j < len(ex) {
+		if e, a := ex[j], eva[i]; e.s < a.s || e.s == a.s && e.j < a.j {
+			out = append(out, e)
+			j++
+		} else {
+			out = append(out, a)
+			i++
+		}
+	}
+	out = append(out, eva[i:]...)
+	return append(out, ex[j:]...)
 }
 
 // forgetEvents lets go of the kept lists (their storage stays for reuse).
@@ -73,20 +126,20 @@ func (c *Calculator) forgetEvents() {
 	clear(c.eventIndex)
 }
 
-// mergeKinks writes into dst every position where an item of tr reaches a kink of k, in
-// order of position, and returns it; tmp is scratch. The items are in order of offset, and
+// mergeKinks writes into dst every position where one of items (the train's items from index
+// first on) reaches a kink of k, in order of position, and returns it; tmp is scratch. The items are in order of offset, and
 // adding a kink's x keeps that order (also in floating point), so each kink's events are
 // already a sorted run; the runs, in order of kinks, are merged pairwise, about log2(kinks)
 // linear passes. Among equal positions earlier kinks come first, then earlier items: the
 // order (position, kink, item), which History's sums follow.
-func mergeKinks(dst []event, tmp *[]event, k *kinks, tr *Train) []event {
-	ni := len(tr.items)
+func mergeKinks(dst []event, tmp *[]event, k *kinks, items []item, first int32) []event {
+	ni := len(items)
 	n := ni * len(k.x)
 	src := slices.Grow(dst[:0], n)[:n]
 	pos := 0
 	for j, x := range k.x {
-		for i, it := range tr.items {
-			src[pos] = event{s: x + it.d, it: int32(i), j: int32(j)}
+		for i, it := range items {
+			src[pos] = event{s: x + it.d, it: first + int32(i), j: int32(j)}
 			pos++
 		}
 	}

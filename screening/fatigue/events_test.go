@@ -38,7 +38,7 @@ func TestMergedEventsAreSorted(t *testing.T) {
 		var c Calculator
 		for _, dir := range []int{0, 1} {
 			want := bruteEvents(l.dir[dir], p)
-			if got := mergeKinks(nil, new([]event), l.dir[dir], p); !slices.Equal(got, want) {
+			if got := mergeKinks(nil, new([]event), l.dir[dir], p.items, 0); !slices.Equal(got, want) {
 				t.Fatalf("direction %d: merged %v, brute force %v", dir, got, want)
 			}
 			if got := c.eventsOf(l.dir[dir], p); !slices.Equal(got, want) {

@@ -284,6 +284,8 @@ type Calculator struct {
 	eventScratch []event
 	eventLists   []eventList
 	eventIndex   map[eventKey]int
+	extraEvents  []event // extendEvents' scratch
+	turnB        []float64 // passage's scratch: the turning points of the longer train
 	// Check's scratch, valid within one passage of yearly.
 	hist   []Point
 	turn   []float64
