@@ -284,7 +284,7 @@ type Calculator struct {
 	eventScratch []event
 	eventLists   []eventList
 	eventIndex   map[eventKey]int
-	extraEvents  []event // extendEvents' scratch
+	extraEvents  []event   // extendEvents' scratch
 	turnB        []float64 // passage's scratch: the turning points of the longer train
 	// Check's scratch, valid within one passage of yearly.
 	hist   []Point
