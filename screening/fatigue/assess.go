@@ -267,7 +267,7 @@ func (c *Calculator) yearly(m Member, b Bridge, s *Settings, traffic []Traffic, 
 	for _, t := range traffic {
 		f := s.DynamicFactor
 		if t.SpeedMPerS > 0 {
-			if f, err = DynamicFactor(t.SpeedMPerS, b.SpanM, LowerFrequency(b.SpanM)); err != nil {
+			if f, err = c.dynamicFactor(t.SpeedMPerS, b.SpanM); err != nil {
 				return 0, 0, "", err
 			}
 		}
@@ -311,3 +311,24 @@ func (c *Calculator) yearly(m Member, b Bridge, s *Settings, traffic []Traffic, 
 	}
 	return perYear, maxRange, governing, nil
 }
+
+// dynamicFactor is DynamicFactor at the span's lower frequency, kept for the speeds and span
+// seen last: every member of a bridge takes the same factor for a train.
+func (c *Calculator) dynamicFactor(speedMPerS, spanM float64) (float64, error) {
+	for _, d := range c.dyn {
+		if d.speed == speedMPerS && d.span == spanM {
+			return d.f, nil
+		}
+	}
+	f, err := DynamicFactor(speedMPerS, spanM, LowerFrequency(spanM))
+	if err != nil {
+		return 0, err
+	}
+	if len(c.dyn) >= 8 {
+		c.dyn = c.dyn[:0]
+	}
+	c.dyn = append(c.dyn, dynamicFactor{speedMPerS, spanM, f})
+	return f, nil
+}
+
+type dynamicFactor struct{ speed, span, f float64 }

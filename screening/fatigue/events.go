@@ -132,9 +132,15 @@ func (c *Calculator) forgetEvents() {
 // already a sorted run; the runs, in order of kinks, are merged pairwise, about log2(kinks)
 // linear passes. Among equal positions earlier kinks come first, then earlier items: the
 // order (position, kink, item), which History's sums follow.
+//
+// A line of a few kinks (a chord's three, a diagonal's four) takes a direct merge instead:
+// the kink whose next event comes first gives it, the first such kink among equals.
 func mergeKinks(dst []event, tmp *[]event, k *kinks, items []item, first int32) []event {
 	ni := len(items)
 	n := ni * len(k.x)
+	if len(k.x) <= fewKinks {
+		return mergeFewKinks(slices.Grow(dst[:0], n)[:n], k.x, items, first)
+	}
 	src := slices.Grow(dst[:0], n)[:n]
 	pos := 0
 	for j, x := range k.x {
@@ -164,4 +170,40 @@ func mergeKinks(dst []event, tmp *[]event, k *kinks, items []item, first int32) 
 	}
 	*tmp = out
 	return src
+}
+
+// fewKinks is the most kinks mergeFewKinks takes.
+const fewKinks = 6
+
+// mergeFewKinks fills dst (len(items) len(x) long) with the events of items over kinks at x,
+// in the order (position, kink, item), and returns it. At the top of each iteration next[j]
+// is the position of kink j's next event (item at[j]), +Inf when it has none left.
+func mergeFewKinks(dst []event, x []float64, items []item, first int32) []event {
+	if len(items) == 0 {
+		return dst
+	}
+	var next [fewKinks]float64
+	var at [fewKinks]int32
+	nk := len(x)
+	for j := range nk {
+		next[j] = x[j] + items[0].d
+	}
+	for q := range dst {
+		best := 0
+		for j := 1; j < nk; j++ {
+			if next[j] < next[best] {
+				best = j
+			}
+		}
+		i := at[best]
+		dst[q] = event{s: next[best], it: first + i, j: int32(best)}
+		i++
+		at[best] = i
+		if int(i) < len(items) {
+			next[best] = x[best] + items[i].d
+		} else {
+			next[best] = math.Inf(1)
+		}
+	}
+	return dst
 }

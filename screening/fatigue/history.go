@@ -139,6 +139,9 @@ type Line struct {
 	// dir[d] is the line as a train running in direction d sees it, mirrored for right to
 	// left so that every passage runs left to right.
 	dir [2]*kinks
+	// own holds the kinks NewLine made (dir points at them, or, for a mirror image, at the
+	// other line's).
+	own [2]kinks
 	// base, when set, is a line whose passages this one counts, its ranges factor times
 	// (CountedAs, proportional.go).
 	base   *Line
@@ -208,22 +211,24 @@ func NewLine(x, eta []float64) (*Line, error) {
 	for _, e := range eta {
 		l.maxAbs = max(l.maxAbs, math.Abs(e))
 	}
-	k0 := kinksOf(x, eta)
-	l.dir[0] = &k0
-	mx, meta := make([]float64, n), make([]float64, n)
+	// One array holds both directions' kinks (five lists of at most n each) and the mirrored
+	// line: a screening builds a line for every member of every bridge.
+	buf := make([]float64, 12*n)
+	mx, meta := buf[10*n:11*n], buf[11*n:]
 	for j := range x {
 		mx[j] = x[0] + x[n-1] - x[n-1-j]
 		meta[j] = eta[n-1-j]
 	}
-	k1 := kinksOf(mx, meta)
-	l.dir[1] = &k1
+	l.own[0], l.own[1] = kinksOf(x, eta, buf[:5*n]), kinksOf(mx, meta, buf[5*n:10*n])
+	l.dir[0], l.dir[1] = &l.own[0], &l.own[1]
 	return l, nil
 }
 
 // kinksOf keeps the vertices where a line kinks or jumps. A slope change below 1e-12 of the
 // steepest slope the ordinates could make is rounding noise of a straight line (it moves a
 // force by less than 1e-12 of the largest it could be) and is not kept; the bearings are.
-func kinksOf(x, eta []float64) kinks {
+// The lists take their storage from buf (5 len(x) long).
+func kinksOf(x, eta []float64, buf []float64) kinks {
 	n := len(x)
 	minDx, scale := math.Inf(1), 0.0
 	for j := range x {
@@ -233,7 +238,7 @@ func kinksOf(x, eta []float64) kinks {
 		scale = max(scale, math.Abs(eta[j]))
 	}
 	noise := 1e-12 * scale / minDx
-	var k kinks
+	k := kinks{x: buf[0:0:n], jump: buf[n : n : 2*n], slope: buf[2*n : 2*n : 3*n], eta0: buf[3*n : 3*n : 4*n], area: buf[4*n : 4*n : 5*n]}
 	left, area := 0.0, 0.0
 	for j := range x {
 		right := 0.0
@@ -284,8 +289,9 @@ type Calculator struct {
 	eventScratch []event
 	eventLists   []eventList
 	eventIndex   map[eventKey]int
-	extraEvents  []event   // extendEvents' scratch
-	turnB        []float64 // passage's scratch: the turning points of the longer train
+	extraEvents  []event         // extendEvents' scratch
+	turnB        []float64       // passage's scratch: the turning points of the longer train
+	dyn          []dynamicFactor // the dynamic factors computed last (assess.go)
 	// Check's scratch, valid within one passage of yearly.
 	hist   []Point
 	turn   []float64
