@@ -211,17 +211,37 @@ func NewLine(x, eta []float64) (*Line, error) {
 	for _, e := range eta {
 		l.maxAbs = max(l.maxAbs, math.Abs(e))
 	}
-	// One array holds both directions' kinks (five lists of at most n each) and the mirrored
-	// line: a screening builds a line for every member of every bridge.
-	buf := make([]float64, 12*n)
-	mx, meta := buf[10*n:11*n], buf[11*n:]
+	// Both directions' kinks (five lists of at most n each) and the mirrored line are worked
+	// out in scratch (on the stack for a line of up to 21 points), and what the kinks keep is
+	// copied to one array: a screening builds a line for every member of every bridge.
+	var stack [12 * 21]float64
+	tmp := stack[:]
+	if 12*n > len(stack) {
+		tmp = make([]float64, 12*n)
+	}
+	mx, meta := tmp[10*n:11*n], tmp[11*n:12*n]
 	for j := range x {
 		mx[j] = x[0] + x[n-1] - x[n-1-j]
 		meta[j] = eta[n-1-j]
 	}
-	l.own[0], l.own[1] = kinksOf(x, eta, buf[:5*n]), kinksOf(mx, meta, buf[5*n:10*n])
+	k0, k1 := kinksOf(x, eta, tmp[:5*n]), kinksOf(mx, meta, tmp[5*n:10*n])
+	n0 := 5 * len(k0.x)
+	buf := make([]float64, n0+5*len(k1.x))
+	l.own[0], l.own[1] = k0.copyTo(buf[:n0]), k1.copyTo(buf[n0:])
 	l.dir[0], l.dir[1] = &l.own[0], &l.own[1]
 	return l, nil
+}
+
+// copyTo is k with its lists copied to buf (5 len(k.x) long).
+func (k kinks) copyTo(buf []float64) kinks {
+	n := len(k.x)
+	out := kinks{x: buf[0:n:n], jump: buf[n : 2*n : 2*n], slope: buf[2*n : 3*n : 3*n], eta0: buf[3*n : 4*n : 4*n], area: buf[4*n : 5*n : 5*n]}
+	copy(out.x, k.x)
+	copy(out.jump, k.jump)
+	copy(out.slope, k.slope)
+	copy(out.eta0, k.eta0)
+	copy(out.area, k.area)
+	return out
 }
 
 // kinksOf keeps the vertices where a line kinks or jumps. A slope change below 1e-12 of the
