@@ -399,21 +399,71 @@ type walkState struct {
 	lastTurn, turnTo float64
 }
 
+// state is a walk's state (walkState) at the top of the iteration of the events from next.
+func (o *passageOut) state(next int, s, v, g, cc float64) walkState {
+	st := walkState{next: next, s: s, v: v, g: g, cc: cc, turns: len(o.t.dst), turnTo: o.t.dir}
+	if len(o.t.dst) > 0 {
+		st.lastTurn = o.t.dst[len(o.t.dst)-1]
+	}
+	return st
+}
+
+// walkThin is walk gathering turning points of a train of axles over a line without jumps:
+// one event at a time, a group of events at one position ending where the next begins.
+// At the top of each iteration v is the force with the front at sPrev and g its slope,
+// every event before q applied; when open, the events at sPrev began with the slope before.
+func (c *Calculator) walkThin(k *kinks, tr *Train, ev []event, from walkState, stop float64, o *passageOut) (snap walkState) {
+	v, g, sPrev := from.v, from.g, from.s
+	q := from.next
+	if q == 0 {
+		// Before the first event no load has reached the bridge.
+		o.emit(ev[0].s-1, 0)
+		v, g, sPrev = 0, 0, ev[0].s
+	}
+	snapped, open, before := false, false, g
+	for ; q < len(ev); q++ {
+		e := ev[q]
+		if !open || e.s != sPrev {
+			if open && !(before > 0 && g > 0) && !(before < 0 && g < 0) {
+				o.emit(sPrev, v)
+			}
+			if !snapped && e.s >= stop {
+				snap, snapped = o.state(q, sPrev, v, g, 0), true
+			}
+			if dt := e.s - sPrev; dt > 0 {
+				v += g * dt
+			}
+			sPrev, before, open = e.s, g, true
+		}
+		g += tr.items[e.it].w * k.slope[e.j]
+	}
+	// The last event's value is passed: the final zero is set, not summed.
+	o.emit(sPrev, v)
+	o.emit(sPrev+1, 0)
+	return snap
+}
+
 // walk visits the history of one passage of tr over k (events ev: eventsOf) from the state
 // from (the zero state: the beginning), passing each point to o (see History), and returns
 // the state at the top of the first iteration whose events are at or beyond stop (the zero
 // state if none is).
 //
-// Gathering turning points only (not o.all), a point on a straight stretch that goes on in
-// the same sense (the slopes before and after it of one sign, no jump there) is not passed:
+// Gathering turning points only (not o.all) of a train of axles over a line without jumps
+// (walkThin), a point on a straight stretch that goes on in the same sense (the slopes
+// before and after it of one sign) is not passed:
 // its neighbours' values bracket it (floating-point sums of terms of one sign are monotonic;
 // the last event's point is passed, as the final zero is set rather than summed),
 // and such a point never changes the turning points (turning.push keeps the last value of a
 // run in one sense, and a value between its neighbours neither starts nor ends a run).
-// Trains with distributed parts (quadratic pieces) pass every point.
+// Elsewhere (distributed parts: quadratic pieces; jumps at a bearing) every point is passed.
 func (c *Calculator) walk(k *kinks, tr *Train, ev []event, from walkState, stop float64, o *passageOut) (snap walkState) {
 	if len(ev) == 0 {
 		return snap
+	}
+	last := int32(len(k.x) - 1)
+	jumps := k.jump[0] != 0 || k.jump[last] != 0
+	if !o.all && !jumps && !tr.parts {
+		return c.walkThin(k, tr, ev, from, stop, o)
 	}
 	v, g, cc, sPrev := from.v, from.g, from.cc, from.s
 	if from.next == 0 {
@@ -421,20 +471,13 @@ func (c *Calculator) walk(k *kinks, tr *Train, ev []event, from walkState, stop 
 		o.emit(ev[0].s-1, 0)
 		v, g, cc, sPrev = 0, 0, 0, ev[0].s
 	}
-	last := int32(len(k.x) - 1)
-	jumps := k.jump[0] != 0 || k.jump[last] != 0
-	thin := !o.all && !jumps && !tr.parts
 	snapped := false
 	// At the top of each iteration v, g, cc hold the force and its derivatives with the front
 	// at sPrev, every event before g0 applied, and every point up to sPrev is emitted.
 	for g0 := from.next; g0 < len(ev); {
 		s := ev[g0].s
 		if !snapped && s >= stop {
-			snap = walkState{next: g0, s: sPrev, v: v, g: g, cc: cc, turns: len(o.t.dst), turnTo: o.t.dir}
-			if len(o.t.dst) > 0 {
-				snap.lastTurn = o.t.dst[len(o.t.dst)-1]
-			}
-			snapped = true
+			snap, snapped = o.state(g0, sPrev, v, g, cc), true
 		}
 		g1 := g0 + 1
 		for g1 < len(ev) && ev[g1].s == s {
@@ -450,19 +493,6 @@ func (c *Calculator) walk(k *kinks, tr *Train, ev []event, from walkState, stop 
 			} else {
 				v += g * dt
 			}
-		}
-		if thin {
-			before := g
-			for _, e := range ev[g0:g1] {
-				g += tr.items[e.it].w * k.slope[e.j]
-			}
-			// The last event's value is passed: the final zero is set, not summed.
-			if !(before > 0 && g > 0) && !(before < 0 && g < 0) || g1 == len(ev) {
-				o.emit(s, v)
-			}
-			sPrev = s
-			g0 = g1
-			continue
 		}
 		o.emit(s, v)
 		if jumps {
