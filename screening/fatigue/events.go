@@ -28,9 +28,15 @@ type eventList struct {
 	ev []event
 }
 
-// maxKeptEventLists bounds the lists a Calculator keeps: a bridge of 62 members, each with
-// lines of its own kinks, under 6 trains of passages both ways stays below it.
-const maxKeptEventLists = 1024
+// maxKeptEventLists and maxKeptEvents bound the lists a Calculator keeps, and the events in
+// them (16 bytes each): a bridge of 62 members, each with lines of its own kinks, under 6
+// trains of passages both ways stays below them. A larger bridge's lists are let go and
+// merged again (a truss of over a hundred members whose every line kinks at every panel
+// point would otherwise hold tens of megabytes in each worker).
+const (
+	maxKeptEventLists = 1024
+	maxKeptEvents     = 1 << 16
+)
 
 // eventsOf is the ordered events of tr over k, from the kept lists or merged and kept.
 func (c *Calculator) eventsOf(k *kinks, tr *Train) []event {
@@ -69,7 +75,7 @@ func (c *Calculator) keptEvents(k *kinks, tr, ta *Train, eva []event) []event {
 		c.events = build(c.events)
 		return c.events
 	}
-	if len(c.eventLists) >= maxKeptEventLists || c.eventIndex == nil {
+	if len(c.eventLists) >= maxKeptEventLists || c.eventsKept+len(k.x)*len(tr.items) > maxKeptEvents || c.eventIndex == nil {
 		c.forgetEvents()
 	}
 	if len(c.eventLists) < cap(c.eventLists) {
@@ -80,6 +86,7 @@ func (c *Calculator) keptEvents(k *kinks, tr, ta *Train, eva []event) []event {
 	l := &c.eventLists[len(c.eventLists)-1]
 	l.tr, l.x = tr, k.x
 	l.ev = build(l.ev)
+	c.eventsKept += cap(l.ev)
 	c.eventIndex[key] = len(c.eventLists) - 1
 	return l.ev
 }
@@ -114,12 +121,21 @@ func (c *Calculator) extendEvents(dst []event, k *kinks, tr *Train, na int, eva 
 	return append(out, ex[j:]...)
 }
 
-// forgetEvents lets go of the kept lists (their storage stays for reuse).
+// forgetEvents lets go of the kept lists (their storage stays for reuse, up to the bound).
 func (c *Calculator) forgetEvents() {
-	for i := range c.eventLists {
-		c.eventLists[i].tr, c.eventLists[i].x = nil, nil
+	all := c.eventLists[:cap(c.eventLists)]
+	held := 0
+	for i := range all {
+		all[i].tr, all[i].x = nil, nil
+		held += cap(all[i].ev)
 	}
-	c.eventLists = c.eventLists[:0]
+	if held > maxKeptEvents {
+		// More than the bound: the storage goes too.
+		for i := range all {
+			all[i].ev = nil
+		}
+	}
+	c.eventLists, c.eventsKept = c.eventLists[:0], 0
 	if c.eventIndex == nil {
 		c.eventIndex = map[eventKey]int{}
 	}

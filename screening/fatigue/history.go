@@ -309,6 +309,7 @@ type Calculator struct {
 	eventScratch []event
 	eventLists   []eventList
 	eventIndex   map[eventKey]int
+	eventsKept   int             // the kept lists' capacity, in events
 	extraEvents  []event         // extendEvents' scratch
 	turnB        []float64       // passage's scratch: the turning points of the longer train
 	dyn          []dynamicFactor // the dynamic factors computed last (assess.go)
