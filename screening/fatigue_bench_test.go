@@ -36,14 +36,7 @@ func fatigueBenchBridges(b testing.TB, s *screening.Settings) []screening.Bridge
 	var out []screening.Bridge
 	var w screening.Screener
 	for i, p := range params {
-		t, err := truss.Build(p)
-		if err != nil {
-			b.Fatal(err)
-		}
-		mem := map[string]rating.Member{}
-		for _, l := range t.Labels() {
-			mem[l] = rating.Member{CapacityTension: 3000, CapacityCompression: 2500}
-		}
+		mem := withCapacities(b, p)
 		br := screening.Bridge{ID: fmt.Sprintf("B-%d", i), Truss: p, TrussShare: 0.5, Tracks: 1,
 			DeadLoadKNPerM: 9 + 0.14*p.SpanM, YearBuilt: 1900 + 5*i, Members: mem}
 		res := w.Screen(br, s)
@@ -159,4 +152,18 @@ func BenchmarkCheckFatigue(b *testing.B) {
 		n++
 	}
 	b.ReportMetric(float64(processCPU(b)-cpu0)/float64(n), "cpu-ns/op")
+}
+
+// withCapacities gives every member of the truss p the same capacities (3000 kN in tension,
+// 2500 kN in compression).
+func withCapacities(b testing.TB, p truss.Params) map[string]rating.Member {
+	t, err := truss.Build(p)
+	if err != nil {
+		b.Fatal(err)
+	}
+	mem := map[string]rating.Member{}
+	for _, l := range t.Labels() {
+		mem[l] = rating.Member{CapacityTension: 3000, CapacityCompression: 2500}
+	}
+	return mem
 }

@@ -5,6 +5,7 @@ import (
 	"slices"
 	"testing"
 
+	"github.com/trussfleet/trussfleet/screening/traffic"
 	"pgregory.net/rapid"
 )
 
@@ -16,19 +17,9 @@ func TestShorterPassagesAreWholeWalks(t *testing.T) {
 	rapid.Check(t, func(t *rapid.T) {
 		x, eta := genLine(t)
 		tr := genPassageTrain(t)
-		last := &tr.Consist[len(tr.Consist)-1]
 		span := x[len(x)-1] - x[0]
-		p0, err := PrepareTrain(tr)
-		if err != nil {
-			t.Fatal(err)
-		}
-		n := int(math.Ceil((p0.tailM-p0.r0+span)/p0.unitLen)) + 3
-		last.Min = 2*n + rapid.IntRange(2, 8).Draw(t, "extra vehicles")
-		last.Max = last.Min
-		p, err := PrepareTrain(tr)
-		if err != nil {
-			t.Fatal(err)
-		}
+		n := steadyCount(t, tr, span)
+		p := withVehicles(t, tr, 2*n+rapid.IntRange(2, 8).Draw(t, "extra vehicles"))
 		l, err := NewLine(x, eta)
 		if err != nil {
 			t.Fatal(err)
@@ -51,4 +42,25 @@ func TestShorterPassagesAreWholeWalks(t *testing.T) {
 			}
 		}
 	})
+}
+
+// steadyCount is the count of steady's shorter train for tr over a span, whatever the count
+// tr has: ceil((tailM - r0 + span) / unit length) + 3.
+func steadyCount(t *rapid.T, tr *traffic.Train, spanM float64) int {
+	p, err := PrepareTrain(tr)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return int(math.Ceil((p.tailM-p.r0+spanM)/p.unitLen)) + 3
+}
+
+// withVehicles is tr with count vehicles in its last group, prepared (tr is changed).
+func withVehicles(t *rapid.T, tr *traffic.Train, count int) *Train {
+	last := &tr.Consist[len(tr.Consist)-1]
+	last.Min, last.Max = count, count
+	p, err := PrepareTrain(tr)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return p
 }
