@@ -34,7 +34,7 @@
 // train is counted from two shorter ones (steady), the longer walking on from the shorter's
 // state where they part; members whose lines kink at the same panel points share the merged
 // list of the positions where a load passes a kink. Only the turning points of a passage are
-// gathered, and a point inside a straight run of one sense is never looked at twice.
+// gathered: a point inside a straight run of one sense is passed over.
 //
 // Units: m, kN, MPa; forces tension positive. Inputs are never modified. A Calculator holds
 // scratch space; give each goroutine its own.
