@@ -85,6 +85,10 @@ func (c *Calculator) keptEvents(k *kinks, tr, ta *Train, eva []event) []event {
 	}
 	l := &c.eventLists[len(c.eventLists)-1]
 	l.tr, l.x = tr, k.x
+	if ta != nil && sameArray(l.ev, eva) {
+		// The slot's storage is eva's (the lists were let go just now): build anew.
+		l.ev = nil
+	}
 	l.ev = build(l.ev)
 	c.eventsKept += cap(l.ev)
 	c.eventIndex[key] = len(c.eventLists) - 1
@@ -222,4 +226,10 @@ func mergeFewKinks(dst []event, x []float64, items []item, first int32) []event 
 		}
 	}
 	return dst
+}
+
+// sameArray reports whether a and b begin at the same element of one array (every list here
+// begins at its array's first).
+func sameArray(a, b []event) bool {
+	return cap(a) > 0 && cap(b) > 0 && &a[:1][0] == &b[:1][0]
 }

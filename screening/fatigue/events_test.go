@@ -5,6 +5,7 @@ import (
 	"slices"
 	"testing"
 
+	"github.com/trussfleet/trussfleet/screening/traffic"
 	"pgregory.net/rapid"
 )
 
@@ -56,4 +57,36 @@ func TestMergedEventsAreSorted(t *testing.T) {
 			}
 		}
 	})
+}
+
+// Extending a list whose storage the Calculator is about to take for the longer train's (the
+// kept lists let go at their bound, the first slot's storage reused) still gives the longer
+// train's events.
+func TestExtendingAfterTheListsAreLetGo(t *testing.T) {
+	x := []float64{0, 4, 9, 12}
+	l, err := NewLine(x, []float64{0, 1, -0.5, 0})
+	if err != nil {
+		t.Fatal(err)
+	}
+	long, err := PrepareTrain(axleTrainOf(40))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var c Calculator
+	k := l.dir[0]
+	c.eventsOf(k, long) // the first slot gets storage for 160 events
+	c.Forget()
+	ta, tb := c.withCount(long, 5), c.withCount(long, 6)
+	eva := c.eventsOf(k, ta) // in the first slot's storage
+	c.eventsKept = maxKeptEvents
+	if got, want := c.eventsExtending(k, ta, tb, eva), bruteEvents(k, tb); !slices.Equal(got, want) {
+		t.Fatalf("extended events %v, brute force %v", got, want)
+	}
+}
+
+// axleTrainOf is a train of n two-axle wagons, 6 m long, 100 kN axles 1 m and 5 m behind
+// each wagon's front.
+func axleTrainOf(n int) *traffic.Train {
+	v := traffic.Vehicle{Name: "wagon", LengthM: 6, Axles: []traffic.Axle{{AtM: 1, LoadKN: 100}, {AtM: 5, LoadKN: 100}}}
+	return &traffic.Train{Name: "wagons", Consist: []traffic.Group{{Vehicle: v, Min: n, Max: n}}}
 }
