@@ -38,15 +38,7 @@ func benchSetup(b *testing.B, withNetwork bool) ([]screening.Bridge, *screening.
 	s.ShareTrains()
 	var out []screening.Bridge
 	for _, p := range []truss.Params{{Type: "pratt", SpanM: 48, Panels: 8, DepthM: 6}, {Type: "pratt", SpanM: 96, Panels: 16, DepthM: 11}} {
-		t, err := truss.Build(p)
-		if err != nil {
-			b.Fatal(err)
-		}
-		mem := map[string]rating.Member{}
-		for _, l := range t.Labels() {
-			mem[l] = rating.Member{CapacityTension: 3000, CapacityCompression: 2500}
-		}
-		out = append(out, screening.Bridge{ID: p.Type, Truss: p, TrussShare: 0.5, Tracks: 1, DeadLoadKNPerM: 20, Members: mem})
+		out = append(out, screening.Bridge{ID: p.Type, Truss: p, TrussShare: 0.5, Tracks: 1, DeadLoadKNPerM: 20, Members: withCapacities(b, p)})
 	}
 	return out, s
 }

@@ -81,13 +81,21 @@ func fatigueCurve(category string, size float64, f *FatigueSettings) (c fatigue.
 // sharedLine is a line built before that line equals, or the mirror image of one, or else
 // line itself; built gains the line returned.
 func sharedLine(built []*fatigue.Line, line *fatigue.Line) (*fatigue.Line, []*fatigue.Line) {
+	matched := false
 	for _, o := range built {
 		if same, mirror := o.Matches(line); same {
-			line = o
+			line, matched = o, true
 			break
 		} else if mirror {
-			line = o.Mirror()
+			line, matched = o.Mirror(), true
 			break
+		}
+	}
+	// A line that is a multiple of another's counts that line's passages
+	// (fatigue.Line.CountedAs): exact to rounding.
+	for k := 0; k < len(built) && !matched; k++ {
+		if p, ok := line.CountedAs(built[k]); ok {
+			line, matched = p, true
 		}
 	}
 	return line, append(built, line)

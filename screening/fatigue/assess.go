@@ -291,7 +291,7 @@ func (c *Calculator) yearly(m Member, b Bridge, s *Settings, traffic []Traffic, 
 	for _, t := range traffic {
 		f := s.DynamicFactor
 		if t.SpeedMPerS > 0 {
-			if f, err = DynamicFactor(t.SpeedMPerS, lphi, LowerFrequency(lphi)); err != nil {
+			if f, err = c.dynamicFactor(t.SpeedMPerS, lphi); err != nil {
 				return 0, 0, "", err
 			}
 		}
@@ -308,6 +308,9 @@ func (c *Calculator) yearly(m Member, b Bridge, s *Settings, traffic []Traffic, 
 			share = max(share, math.Abs(sh))
 		}
 		scale := share * f * m.mpaPerUnit()
+		// The line's passages are counted over base, with ranges k times.
+		base, k := m.Line.counted()
+		counted := scale * k
 		dirs := t.Directions
 		if len(dirs) == 0 {
 			dirs = []Direction{LeftToRight, RightToLeft}
@@ -315,10 +318,10 @@ func (c *Calculator) yearly(m Member, b Bridge, s *Settings, traffic []Traffic, 
 		each := t.PerYear / float64(len(dirs))
 		d := 0.0
 		for _, dir := range dirs {
-			pc := c.passage(m.Line, t.Train, dir, b.SpanM)
-			one := pc.damage(m.Curve, scale)
+			pc := c.passage(base, t.Train, dir, b.SpanM)
+			one := pc.damage(m.Curve, counted)
 			d += each * one
-			maxRange = max(maxRange, pc.maxRange*scale)
+			maxRange = max(maxRange, pc.maxRange*counted)
 			if keep != nil {
 				c.hist = c.History(m.Line, t.Train, dir, c.hist)
 				c.cycles, c.stack = Rainflow(Turning(c.hist, PassageTol(m.Line, t.Train), c.turn), c.cycles, c.stack)
@@ -332,3 +335,24 @@ func (c *Calculator) yearly(m Member, b Bridge, s *Settings, traffic []Traffic, 
 	}
 	return perYear, maxRange, governing, nil
 }
+
+// dynamicFactor is DynamicFactor at the span's lower frequency, kept for the speeds and span
+// seen last: every member of a bridge takes the same factor for a train.
+func (c *Calculator) dynamicFactor(speedMPerS, spanM float64) (float64, error) {
+	for _, d := range c.dyn {
+		if d.speed == speedMPerS && d.span == spanM {
+			return d.f, nil
+		}
+	}
+	f, err := DynamicFactor(speedMPerS, spanM, LowerFrequency(spanM))
+	if err != nil {
+		return 0, err
+	}
+	if len(c.dyn) >= 8 {
+		c.dyn = c.dyn[:0]
+	}
+	c.dyn = append(c.dyn, dynamicFactor{speedMPerS, spanM, f})
+	return f, nil
+}
+
+type dynamicFactor struct{ speed, span, f float64 }

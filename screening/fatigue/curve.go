@@ -47,13 +47,19 @@ func (c Curve) gamma() float64 {
 
 // LimitMPa is the constant-amplitude fatigue limit: the range at 5e6 cycles on the slope-3
 // line, (2/5)^(1/3) = 0.737 times the category (before GammaMf).
-func (c Curve) LimitMPa() float64 { return c.CategoryMPa * math.Cbrt(CategoryCycles/LimitCycles) }
+func (c Curve) LimitMPa() float64 { return c.CategoryMPa * limitPerCategory }
 
 // CutOffMPa is the cut-off limit: the range at 1e8 cycles on the slope-5 line, (5/100)^(1/5)
 // = 0.549 times the constant-amplitude limit (before GammaMf).
 func (c Curve) CutOffMPa() float64 {
-	return c.LimitMPa() * math.Pow(LimitCycles/CutOffCycles, 1.0/5)
+	return c.LimitMPa() * cutOffPerLimit
 }
+
+// The knees' ratios, computed once (Damage reads them for every passage).
+var (
+	limitPerCategory = math.Cbrt(CategoryCycles / LimitCycles)
+	cutOffPerLimit   = math.Pow(LimitCycles/CutOffCycles, 1.0/5)
+)
 
 // Cycles is the number of cycles of the stress range rangeMPa (times GammaMf) to failure:
 // 2e6 (dC/dS)^3 down to the constant-amplitude limit, 5e6 (dD/dS)^5 down to the cut-off, +Inf

@@ -30,6 +30,15 @@
 // gamma_Mf. DynamicFactor is EN 1991-2 Annex C's fatigue factor 1 + (phi' + phi”/2)/2 for a
 // train at a known speed (from memory).
 //
+// Shared work. A Calculator counts each passage once per bridge (Forget between bridges): a
+// train in both scenarios once, a member of a symmetric truss over its mirror image's
+// passages run the other way (Line.Mirror), and a member whose line is a multiple of another's
+// over that line's passages with its ranges scaled (Line.CountedAs; equal to rounding). A long
+// train is counted from two shorter ones (steady), the longer walking on from the shorter's
+// state where they part; members whose lines kink at the same panel points share the merged
+// list of the positions where a load passes a kink. Only the turning points of a passage are
+// gathered: a point inside a straight run of one sense is passed over.
+//
 // Units: m, kN, MPa; forces tension positive. Inputs are never modified. A Calculator holds
 // scratch space; give each goroutine its own.
 //

@@ -33,6 +33,8 @@ type Train struct {
 	items []item
 	// totalKN is the sum of the loads (axles, and parts' q times their length).
 	totalKN float64
+	// parts: the train has distributed parts.
+	parts bool
 	// The consist's structure, for passages with fewer vehicles in its last group (see
 	// steady): fixed holds every load but the last group's, unit one vehicle of the last
 	// group from its front, r0 where that group begins, unitLen its vehicles' length, count
@@ -88,6 +90,7 @@ func PrepareTrain(t *traffic.Train) (*Train, error) {
 			return nil, fmt.Errorf("train %q, parts[%d]: a part reaching indefinitely ahead or behind never leaves the bridge empty: %w", t.Name, i, ErrNotAPassage)
 		}
 		tr.fixed = append(tr.fixed, item{d: p.FromM, w: p.QKNPerM, part: true}, item{d: p.ToM, w: -p.QKNPerM, part: true})
+		tr.parts = true
 		tr.tailM = max(tr.tailM, p.FromM, p.ToM)
 	}
 	tr.items = tr.itemsWith(tr.count, nil)
@@ -136,6 +139,13 @@ type Line struct {
 	// dir[d] is the line as a train running in direction d sees it, mirrored for right to
 	// left so that every passage runs left to right.
 	dir [2]*kinks
+	// own holds the kinks NewLine made (dir points at them, or, for a mirror image, at the
+	// other line's).
+	own [2]kinks
+	// base, when set, is a line whose passages this one counts, its ranges factor times
+	// (CountedAs, proportional.go).
+	base   *Line
+	factor float64
 }
 
 // Mirror is the line of the mirror-image member: what a train running one way does to l, it
@@ -144,6 +154,9 @@ type Line struct {
 func (l *Line) Mirror() *Line {
 	m := *l
 	m.dir[0], m.dir[1] = l.dir[1], l.dir[0]
+	if l.base != nil {
+		m.base = l.base.Mirror()
+	}
 	return &m
 }
 
@@ -198,22 +211,44 @@ func NewLine(x, eta []float64) (*Line, error) {
 	for _, e := range eta {
 		l.maxAbs = max(l.maxAbs, math.Abs(e))
 	}
-	k0 := kinksOf(x, eta)
-	l.dir[0] = &k0
-	mx, meta := make([]float64, n), make([]float64, n)
+	// Both directions' kinks (five lists of at most n each) and the mirrored line are worked
+	// out in scratch (on the stack for a line of up to 21 points), and what the kinks keep is
+	// copied to one array: a screening builds a line for every member of every bridge.
+	var stack [12 * 21]float64
+	tmp := stack[:]
+	if 12*n > len(stack) {
+		tmp = make([]float64, 12*n)
+	}
+	mx, meta := tmp[10*n:11*n], tmp[11*n:12*n]
 	for j := range x {
 		mx[j] = x[0] + x[n-1] - x[n-1-j]
 		meta[j] = eta[n-1-j]
 	}
-	k1 := kinksOf(mx, meta)
-	l.dir[1] = &k1
+	k0, k1 := kinksOf(x, eta, tmp[:5*n]), kinksOf(mx, meta, tmp[5*n:10*n])
+	n0 := 5 * len(k0.x)
+	buf := make([]float64, n0+5*len(k1.x))
+	l.own[0], l.own[1] = k0.copyTo(buf[:n0]), k1.copyTo(buf[n0:])
+	l.dir[0], l.dir[1] = &l.own[0], &l.own[1]
 	return l, nil
+}
+
+// copyTo is k with its lists copied to buf (5 len(k.x) long).
+func (k kinks) copyTo(buf []float64) kinks {
+	n := len(k.x)
+	out := kinks{x: buf[0:n:n], jump: buf[n : 2*n : 2*n], slope: buf[2*n : 3*n : 3*n], eta0: buf[3*n : 4*n : 4*n], area: buf[4*n : 5*n : 5*n]}
+	copy(out.x, k.x)
+	copy(out.jump, k.jump)
+	copy(out.slope, k.slope)
+	copy(out.eta0, k.eta0)
+	copy(out.area, k.area)
+	return out
 }
 
 // kinksOf keeps the vertices where a line kinks or jumps. A slope change below 1e-12 of the
 // steepest slope the ordinates could make is rounding noise of a straight line (it moves a
 // force by less than 1e-12 of the largest it could be) and is not kept; the bearings are.
-func kinksOf(x, eta []float64) kinks {
+// The lists take their storage from buf (5 len(x) long).
+func kinksOf(x, eta []float64, buf []float64) kinks {
 	n := len(x)
 	minDx, scale := math.Inf(1), 0.0
 	for j := range x {
@@ -223,7 +258,7 @@ func kinksOf(x, eta []float64) kinks {
 		scale = max(scale, math.Abs(eta[j]))
 	}
 	noise := 1e-12 * scale / minDx
-	var k kinks
+	k := kinks{x: buf[0:0:n], jump: buf[n : n : 2*n], slope: buf[2*n : 2*n : 3*n], eta0: buf[3*n : 3*n : 4*n], area: buf[4*n : 4*n : 5*n]}
 	left, area := 0.0, 0.0
 	for j := range x {
 		right := 0.0
@@ -267,10 +302,17 @@ type event struct {
 // Calculator computes passages, keeping its scratch space between calls. It is not safe for
 // concurrent use; give each goroutine its own. The zero value is ready to use.
 type Calculator struct {
-	// buildEvents' output and scratch, valid within one History.
-	events []event
-	heads  []int32
-	heap   []event
+	// events is mergeKinks' output where no list is kept (valid within one History),
+	// eventScratch its scratch; eventLists the merged lists kept for the current bridge, by
+	// eventIndex (events.go).
+	events       []event
+	eventScratch []event
+	eventLists   []eventList
+	eventIndex   map[eventKey]int
+	eventsKept   int             // the kept lists' capacity, in events
+	extraEvents  []event         // extendEvents' scratch
+	turnB        []float64       // passage's scratch: the turning points of the longer train
+	dyn          []dynamicFactor // the dynamic factors computed last (assess.go)
 	// Check's scratch, valid within one passage of yearly.
 	hist   []Point
 	turn   []float64
@@ -295,19 +337,26 @@ type Calculator struct {
 // Positions are those of the train's front in the coordinates the train sees: for right to
 // left, measured from x[last] leftwards and shifted by x[0] (the mirrored line's).
 func (c *Calculator) History(l *Line, tr *Train, dir Direction, dst []Point) []Point {
-	dst = dst[:0]
-	c.walk(l, tr, dir, func(s, v float64) { dst = append(dst, Point{s, v}) })
-	return dst
+	o := passageOut{all: true, hist: dst[:0]}
+	k := l.kinksFor(dir)
+	c.walk(k, tr, c.eventsOf(k, tr), walkState{}, math.Inf(1), &o)
+	if len(o.hist) == 0 {
+		o.hist = append(o.hist, Point{l.x0, 0})
+	}
+	return o.hist
 }
 
 // TurningOf appends to dst[:0] the turning points of one passage (Turning of History, with the
 // tolerance 1e-9 of the largest force the train could cause on the line, PassageTol) without
 // keeping the history: what the fatigue check needs of a passage.
 func (c *Calculator) TurningOf(l *Line, tr *Train, dir Direction, dst []float64) []float64 {
-	var t turning
-	t.tol, t.dst = PassageTol(l, tr), dst[:0]
-	c.walk(l, tr, dir, t.push)
-	return t.dst
+	o := passageOut{t: turning{tol: PassageTol(l, tr), dst: dst[:0]}}
+	k := l.kinksFor(dir)
+	c.walk(k, tr, c.eventsOf(k, tr), walkState{}, math.Inf(1), &o)
+	if len(o.t.dst) == 0 {
+		o.t.dst = append(o.t.dst, 0)
+	}
+	return o.t.dst
 }
 
 // PassageTol is 1e-9 of the largest force tr could cause on l: every load at the line's
@@ -316,28 +365,121 @@ func PassageTol(l *Line, tr *Train) float64 {
 	return 1e-9 * tr.totalKN * l.maxAbs
 }
 
-// walk visits the history of one passage (see History), calling emit with each point.
-func (c *Calculator) walk(l *Line, tr *Train, dir Direction, emit func(s, v float64)) {
-	k := l.dir[0]
+// kinksFor is the line as a train running in direction dir sees it.
+func (l *Line) kinksFor(dir Direction) *kinks {
 	if dir == RightToLeft {
-		k = l.dir[1]
+		return l.dir[1]
 	}
-	c.buildEvents(k, tr)
-	ev := c.events
-	if len(ev) == 0 {
-		emit(l.x0, 0)
+	return l.dir[0]
+}
+
+// passageOut receives a walk's points: every one (all, into hist: History), or only their
+// turning points (t: TurningOf and the fatigue check).
+type passageOut struct {
+	all  bool
+	hist []Point
+	t    turning
+}
+
+func (o *passageOut) emit(s, v float64) {
+	if o.all {
+		o.hist = append(o.hist, Point{s, v})
 		return
 	}
-	// Before the first event no load has reached the bridge.
-	emit(ev[0].s-1, 0)
-	var v, g, cc float64 // value, slope and curvature in s
-	sPrev := ev[0].s
+	o.t.push(s, v)
+}
+
+// walkState is where a walk stands at the top of an iteration: the next group of events at
+// index next (0: the walk has not begun), the front at s with the force v, its slope g and
+// curvature cc there; and, for a walk gathering turning points, the number of them so far
+// (turns), the last one's value and the sense (turning.dir).
+type walkState struct {
+	next             int
+	s, v, g, cc      float64
+	turns            int
+	lastTurn, turnTo float64
+}
+
+// state is a walk's state (walkState) at the top of the iteration of the events from next.
+func (o *passageOut) state(next int, s, v, g, cc float64) walkState {
+	st := walkState{next: next, s: s, v: v, g: g, cc: cc, turns: len(o.t.dst), turnTo: o.t.dir}
+	if len(o.t.dst) > 0 {
+		st.lastTurn = o.t.dst[len(o.t.dst)-1]
+	}
+	return st
+}
+
+// walkThin is walk gathering turning points of a train of axles over a line without jumps:
+// one event at a time, a group of events at one position ending where the next begins.
+// At the top of each iteration v is the force with the front at sPrev and g its slope,
+// every event before q applied; when open, the events at sPrev began with the slope before.
+func (c *Calculator) walkThin(k *kinks, tr *Train, ev []event, from walkState, stop float64, o *passageOut) (snap walkState) {
+	v, g, sPrev := from.v, from.g, from.s
+	q := from.next
+	if q == 0 {
+		// Before the first event no load has reached the bridge.
+		o.emit(ev[0].s-1, 0)
+		v, g, sPrev = 0, 0, ev[0].s
+	}
+	snapped, open, before := false, false, g
+	for ; q < len(ev); q++ {
+		e := ev[q]
+		if !open || e.s != sPrev {
+			if open && !(before > 0 && g > 0) && !(before < 0 && g < 0) {
+				o.emit(sPrev, v)
+			}
+			if !snapped && e.s >= stop {
+				snap, snapped = o.state(q, sPrev, v, g, 0), true
+			}
+			if dt := e.s - sPrev; dt > 0 {
+				v += g * dt
+			}
+			sPrev, before, open = e.s, g, true
+		}
+		g += tr.items[e.it].w * k.slope[e.j]
+	}
+	// The last event's value is passed: the final zero is set, not summed.
+	o.emit(sPrev, v)
+	o.emit(sPrev+1, 0)
+	return snap
+}
+
+// walk visits the history of one passage of tr over k (events ev: eventsOf) from the state
+// from (the zero state: the beginning), passing each point to o (see History), and returns
+// the state at the top of the first iteration whose events are at or beyond stop (the zero
+// state if none is).
+//
+// Gathering turning points only (not o.all) of a train of axles over a line without jumps
+// (walkThin), a point on a straight stretch that goes on in the same sense (the slopes
+// before and after it of one sign) is not passed:
+// its neighbours' values bracket it (floating-point sums of terms of one sign are monotonic;
+// the last event's point is passed, as the final zero is set rather than summed),
+// and such a point never changes the turning points (turning.push keeps the last value of a
+// run in one sense, and a value between its neighbours neither starts nor ends a run).
+// Elsewhere (distributed parts: quadratic pieces; jumps at a bearing) every point is passed.
+func (c *Calculator) walk(k *kinks, tr *Train, ev []event, from walkState, stop float64, o *passageOut) (snap walkState) {
+	if len(ev) == 0 {
+		return snap
+	}
 	last := int32(len(k.x) - 1)
 	jumps := k.jump[0] != 0 || k.jump[last] != 0
+	if !o.all && !jumps && !tr.parts {
+		return c.walkThin(k, tr, ev, from, stop, o)
+	}
+	v, g, cc, sPrev := from.v, from.g, from.cc, from.s
+	if from.next == 0 {
+		// Before the first event no load has reached the bridge.
+		o.emit(ev[0].s-1, 0)
+		v, g, cc, sPrev = 0, 0, 0, ev[0].s
+	}
+	snapped := false
 	// At the top of each iteration v, g, cc hold the force and its derivatives with the front
 	// at sPrev, every event before g0 applied, and every point up to sPrev is emitted.
-	for g0 := 0; g0 < len(ev); {
+	for g0 := from.next; g0 < len(ev); {
 		s := ev[g0].s
+		if !snapped && s >= stop {
+			snap, snapped = o.state(g0, sPrev, v, g, cc), true
+		}
 		g1 := g0 + 1
 		for g1 < len(ev) && ev[g1].s == s {
 			g1++
@@ -345,7 +487,7 @@ func (c *Calculator) walk(l *Line, tr *Train, dir Direction, emit func(s, v floa
 		if dt := s - sPrev; dt > 0 {
 			if cc != 0 {
 				if t := -g / cc; t > 0 && t < dt {
-					emit(sPrev+t, v+g*t/2) // v + g t + cc t²/2 at t = -g/cc
+					o.emit(sPrev+t, v+g*t/2) // v + g t + cc t²/2 at t = -g/cc
 				}
 				v += g*dt + cc*dt*dt/2
 				g += cc * dt
@@ -353,7 +495,7 @@ func (c *Calculator) walk(l *Line, tr *Train, dir Direction, emit func(s, v floa
 				v += g * dt
 			}
 		}
-		emit(s, v)
+		o.emit(s, v)
 		if jumps {
 			// Axles arriving at the left bearing: the value with them on it; then those
 			// leaving at the right bearing: the value after.
@@ -365,7 +507,7 @@ func (c *Calculator) walk(l *Line, tr *Train, dir Direction, emit func(s, v floa
 				}
 			}
 			if arrive {
-				emit(s, v)
+				o.emit(s, v)
 			}
 			for _, e := range ev[g0:g1] {
 				if it := tr.items[e.it]; !it.part && e.j == last && k.jump[last] != 0 {
@@ -374,7 +516,7 @@ func (c *Calculator) walk(l *Line, tr *Train, dir Direction, emit func(s, v floa
 				}
 			}
 			if leave {
-				emit(s, v)
+				o.emit(s, v)
 			}
 		}
 		for _, e := range ev[g0:g1] {
@@ -390,97 +532,8 @@ func (c *Calculator) walk(l *Line, tr *Train, dir Direction, emit func(s, v floa
 		g0 = g1
 	}
 	// After the last event every load has left: the value is zero but for rounding.
-	emit(sPrev+1, 0)
-}
-
-// buildEvents lists in c.events every position where an item reaches a kink, in order. The
-// items are in order of offset, so each kink's events are already in order; the lists of the
-// kinks are merged, earlier kinks first among equal positions. Most lines have a few kinks
-// (a chord three, a diagonal four), merged by taking the smallest head each time; a line
-// with many (a continuous truss's members kink at every panel point) goes through a heap.
-func (c *Calculator) buildEvents(k *kinks, tr *Train) {
-	c.events = slices.Grow(c.events[:0], len(k.x)*len(tr.items))
-	if len(k.x) > heapMergeKinks {
-		c.heapEvents(k, tr)
-		return
-	}
-	c.scanEvents(k, tr)
-}
-
-// scanEvents is buildEvents' merge by scanning every kink's head for the smallest.
-func (c *Calculator) scanEvents(k *kinks, tr *Train) {
-	nk, ni := len(k.x), len(tr.items)
-	c.heads = append(c.heads[:0], make([]int32, nk)...)
-	for {
-		best, bs := -1, math.Inf(1)
-		for j, h := range c.heads {
-			if int(h) < ni {
-				if s := k.x[j] + tr.items[h].d; s < bs {
-					best, bs = j, s
-				}
-			}
-		}
-		if best < 0 {
-			return
-		}
-		c.events = append(c.events, event{s: bs, it: c.heads[best], j: int32(best)})
-		c.heads[best]++
-	}
-}
-
-// heapMergeKinks is the number of kinks above which buildEvents merges through a heap: below
-// it, scanning every head costs less than keeping the heap in order (BenchmarkBuildEvents).
-const heapMergeKinks = 4
-
-// heapEvents is buildEvents' merge through a binary heap of the kinks' next events, ordered
-// by position and then by kink: the same order as the scan of the heads.
-func (c *Calculator) heapEvents(k *kinks, tr *Train) {
-	ni := int32(len(tr.items))
-	if ni == 0 {
-		return
-	}
-	h := c.heap[:0]
-	for j, x := range k.x {
-		h = append(h, event{s: x + tr.items[0].d, it: 0, j: int32(j)})
-	}
-	for i := len(h)/2 - 1; i >= 0; i-- {
-		siftDown(h, i)
-	}
-	for len(h) > 0 {
-		top := h[0]
-		c.events = append(c.events, top)
-		if next := top.it + 1; next < ni {
-			h[0] = event{s: k.x[top.j] + tr.items[next].d, it: next, j: top.j}
-		} else {
-			h[0] = h[len(h)-1]
-			h = h[:len(h)-1]
-		}
-		siftDown(h, 0)
-	}
-	c.heap = h
-}
-
-// before orders a heap's events: by position, then by kink.
-func before(a, b event) bool { return a.s < b.s || (a.s == b.s && a.j < b.j) }
-
-// siftDown moves h[i] down the min-heap h to its place.
-func siftDown(h []event, i int) {
-	n := len(h)
-	for {
-		l := 2*i + 1
-		if l >= n {
-			return
-		}
-		m := l
-		if r := l + 1; r < n && before(h[r], h[l]) {
-			m = r
-		}
-		if !before(h[m], h[i]) {
-			return
-		}
-		h[i], h[m] = h[m], h[i]
-		i = m
-	}
+	o.emit(sPrev+1, 0)
+	return snap
 }
 
 // Turning reduces a history to its turning points: the first value, each value where the

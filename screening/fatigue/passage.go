@@ -1,6 +1,9 @@
 package fatigue
 
-import "math"
+import (
+	"math"
+	"slices"
+)
 
 // passageCycles are the cycles of one passage of a train over a member in one direction, at
 // unit force (kN): for a train with a long run of identical vehicles, those of two shorter
@@ -87,6 +90,7 @@ func (c *Calculator) Forget() {
 		c.kept = map[passageKey]int{}
 	}
 	clear(c.kept)
+	c.forgetEvents()
 }
 
 // maxKeptPassages bounds the passages a Calculator keeps: a bridge's members times its
@@ -122,21 +126,64 @@ func (c *Calculator) passage(l *Line, tr *Train, dir Direction, spanM float64) *
 	p := &c.passages[len(c.passages)-1]
 	p.tr, p.k, p.extra, p.maxRange = tr, k, 0, 0
 	n := tr.steady(spanM)
-	count := func(t *Train, dst []Cycle) []Cycle {
-		c.turn = c.TurningOf(l, t, dir, c.turn)
-		dst, c.stack = Rainflow(c.turn, dst, c.stack)
-		for _, cy := range dst {
-			p.maxRange = max(p.maxRange, cy.Range)
-		}
-		return dst
-	}
 	if 2*n+1 >= tr.count {
 		// The two shorter trains would cost more than the train itself.
-		p.a = count(tr, p.a)
+		c.turn = c.TurningOf(l, tr, dir, c.turn)
+		p.a, c.stack = Rainflow(c.turn, p.a, c.stack)
+		p.maxRange = largestRange(p.a)
 		return p
 	}
-	p.a = count(c.withCount(tr, n), p.a)
-	p.b = count(c.withCount(tr, n+1), p.b)
+	c.shorterPassages(p, l, c.withCount(tr, n), c.withCount(tr, n+1), dir)
 	p.extra = float64(tr.count - n)
+	p.maxRange = max(largestRange(p.a), largestRange(p.b))
 	return p
+}
+
+// shorterPassages counts into p.a and p.b the cycles of passages of ta and of tb, which is ta
+// with one more vehicle at its tail, over l in direction dir.
+//
+// tb's passage is ta's until the first of tb's extra items reaches the line's first kink (at
+// stop): until then both trains have the same events, in the same order (tb's items begin
+// with ta's, and the extra items' events all lie at or beyond stop), so the same sums give the
+// same values, bit for bit, and the same turning points. So ta's walk saves its state there
+// (walkState) and tb's walk starts from it with the turning points gathered so far, over tb's
+// events (ta's with the extra items' merged in: eventsExtending). Where tb's items do not
+// begin with ta's (a consist whose axles lie beyond its vehicles' ends), tb is walked whole.
+func (c *Calculator) shorterPassages(p *passageCycles, l *Line, ta, tb *Train, dir Direction) {
+	k := l.kinksFor(dir)
+	tol := PassageTol(l, ta) // ta and tb keep the train's own total load, so tb's too
+	eva := c.eventsOf(k, ta)
+	na := len(ta.items)
+	extends := len(tb.items) > na && slices.Equal(tb.items[:na], ta.items)
+	stop := math.Inf(1)
+	if extends {
+		stop = k.x[0] + tb.items[na].d
+	}
+	oa := passageOut{t: turning{tol: tol, dst: c.turn[:0]}}
+	snap := c.walk(k, ta, eva, walkState{}, stop, &oa)
+	c.turn = oa.t.dst
+	p.a, c.stack = Rainflow(c.turn, p.a, c.stack)
+	ob := passageOut{t: turning{tol: tol, dst: c.turnB[:0]}}
+	var evb []event
+	if extends {
+		evb = c.eventsExtending(k, ta, tb, eva)
+	} else {
+		evb = c.eventsOf(k, tb)
+	}
+	if snap.next > 0 {
+		ob.t.dst = append(ob.t.dst, c.turn[:snap.turns]...)
+		ob.t.dst[snap.turns-1], ob.t.dir = snap.lastTurn, snap.turnTo
+	}
+	c.walk(k, tb, evb, snap, math.Inf(1), &ob)
+	c.turnB = ob.t.dst
+	p.b, c.stack = Rainflow(c.turnB, p.b, c.stack)
+}
+
+// largestRange is the largest range of the cycles (0 for none).
+func largestRange(cycles []Cycle) float64 {
+	m := 0.0
+	for _, cy := range cycles {
+		m = max(m, cy.Range)
+	}
+	return m
 }

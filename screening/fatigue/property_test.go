@@ -173,23 +173,10 @@ func TestSteadyCountsAreLinear(t *testing.T) {
 	rapid.Check(t, func(t *rapid.T) {
 		x, eta := genLine(t)
 		tr := genPassageTrain(t)
-		last := &tr.Consist[len(tr.Consist)-1]
 		span := x[len(x)-1] - x[0]
-		p0, err := PrepareTrain(tr)
-		if err != nil {
-			t.Fatal(err)
-		}
 		// enough vehicles that the shortcut applies, and a few more
-		n := p0.steady(span)
-		if n >= p0.count {
-			n = int(math.Ceil((p0.tailM-p0.r0+span)/p0.unitLen)) + 3
-		}
-		last.Min = n + rapid.IntRange(2, 8).Draw(t, "extra vehicles")
-		last.Max = last.Min
-		p, err := PrepareTrain(tr)
-		if err != nil {
-			t.Fatal(err)
-		}
+		n := steadyCount(t, tr, span)
+		p := withVehicles(t, tr, n+rapid.IntRange(2, 8).Draw(t, "extra vehicles"))
 		l, err := NewLine(x, eta)
 		if err != nil {
 			t.Fatal(err)

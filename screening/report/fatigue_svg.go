@@ -10,7 +10,8 @@ import (
 
 // fatigueChart is a flagged member's fatigue drawing: the stress history of one passage of
 // the train doing most damage, existing against proposed, and a histogram of the stress
-// ranges a year, existing against proposed. Stresses in MPa.
+// ranges a year of every train together (yearlySpectrum), existing against proposed.
+// Stresses in MPa.
 type fatigueChart struct {
 	W, H                float64
 	Existing, Proposed  string // history polylines
@@ -91,26 +92,10 @@ func drawFatigue(run Run, b Bridge, m Member, xs, eta []float64, spanM float64) 
 		elevText{X: c.Left - 6, Y: py(lo) + 4, Anchor: "end", Text: num(lo, 0)},
 		elevText{X: 14, Y: c.BarBase - barH/2, Rotate: -90, Anchor: "middle", Text: "cycles a year"},
 		elevText{X: (c.Left + c.Right) / 2, Y: c.BarBase + 34, Anchor: "middle", Text: "stress range (MPa), before gamma_Mf"})
-	// Histogram: every passage's cycles times its passages a year, in 10 MPa bins.
-	maxR := 0.0
-	for _, p := range rc.passages {
-		for _, cy := range p.Cycles {
-			maxR = max(maxR, cy.Range*p.MPaPerKN)
-		}
-	}
+	// Histogram: the yearly spectrum of each scenario (fatigue_spectrum.go).
 	const bin = 10.0
-	nb := max(int(math.Ceil(maxR/bin)), 1)
-	counts := [2][]float64{make([]float64, nb), make([]float64, nb)}
-	for _, p := range rc.passages {
-		k := 0
-		if p.proposed {
-			k = 1
-		}
-		for _, cy := range p.Cycles {
-			i := min(int(cy.Range*p.MPaPerKN/bin), nb-1)
-			counts[k][i] += cy.Count * p.PerYear
-		}
-	}
+	counts := yearlySpectrum(rc.passages, bin)
+	nb := len(counts[0])
 	top2 := 0.0
 	for k := range counts {
 		for _, v := range counts[k] {
@@ -142,7 +127,7 @@ func drawFatigue(run Run, b Bridge, m Member, xs, eta []float64, spanM float64) 
 	cut := rc.curve.CutOffMPa() / rc.set.GammaMf
 	c.CutOffX = c.Left + cut/bin*bw
 	c.CutOff = fmt.Sprintf("cut-off %s MPa", num(cut, 1))
-	c.Caption = fmt.Sprintf("Fatigue of %s: above, the stress history of one passage of the train doing most damage (existing %s, proposed %s); below, the stress ranges a year by rainflow counting (ASTM E1049), existing against proposed, with the cut-off of detail category %s MPa below which ranges do no damage (EN 1993-1-9, from memory). Yearly damage %s existing, %s proposed.",
+	c.Caption = fmt.Sprintf("Fatigue of %s: above, the stress history of one passage of the train doing most damage (existing %s, proposed %s); below, the stress ranges a year of every train together by rainflow counting (ASTM E1049), existing against proposed, with the cut-off of detail category %s MPa below which ranges do no damage (EN 1993-1-9, from memory). Yearly damage %s existing, %s proposed.",
 		m.Label, ex.Train, pr.Train, num(rc.curve.CategoryMPa, 0), sci(rc.result.PerYearExisting), sci(rc.result.PerYearProposed))
 	return c
 }
