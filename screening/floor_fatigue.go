@@ -78,8 +78,9 @@ func fatigueCurve(category string, size float64, f *FatigueSettings) (c fatigue.
 	return c, err == nil, err
 }
 
-// sharedLine is a line built before that line equals, or the mirror image of one, or else
-// line itself; built gains the line returned.
+// sharedLine is a line built before that line equals, or the mirror image of one, or one
+// that counts another's passages as a multiple of it, or else line itself; built gains the
+// line returned.
 func sharedLine(built []*fatigue.Line, line *fatigue.Line) (*fatigue.Line, []*fatigue.Line) {
 	matched := false
 	for _, o := range built {
