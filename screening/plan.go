@@ -87,8 +87,9 @@ type Plan struct {
 // other results for the same inventory and plan (a new check, a corrected formula, a result
 // column filled differently). It is part of every plan's hash, so a run with --changed after
 // such a change screens every bridge again instead of carrying older results forward.
-// 2: the floor system's fatigue check.
-const MethodVersion = 2
+// 2: the floor system's fatigue check. 3: a passage's cycles counted as one of many
+// (fatigue.RainflowRepeated).
+const MethodVersion = 3
 
 // Hash is a stable digest of the plan and of the method (MethodVersion) that computes it.
 func (p Plan) Hash() string {

@@ -324,7 +324,7 @@ func (c *Calculator) yearly(m Member, b Bridge, s *Settings, traffic []Traffic, 
 			maxRange = max(maxRange, pc.maxRange*counted)
 			if keep != nil {
 				c.hist = c.History(m.Line, t.Train, dir, c.hist)
-				c.cycles, c.stack = Rainflow(Turning(c.hist, PassageTol(m.Line, t.Train), c.turn), c.cycles, c.stack)
+				c.cycles, c.stack, c.rot = RainflowRepeated(Turning(c.hist, PassageTol(m.Line, t.Train), c.turn), c.cycles, c.stack, c.rot)
 				keep(proposed, Passage{Train: t.Train.Name(), Direction: dir, History: c.hist, Cycles: c.cycles, MPaPerKN: scale, PerYear: each, Damage: one})
 			}
 		}

@@ -15,8 +15,10 @@
 // 71's parts where unfavourable, Cooper's trailing load, a uniform load of variable length)
 // are refused with ErrNotAPassage, since no real train applies them.
 //
-// Cycles. Turning keeps the history's peaks and valleys; Rainflow counts their cycles by the
-// three-point rainflow method of ASTM E1049 with half cycles. Stress range = force range
+// Cycles. Turning keeps the history's peaks and valleys; RainflowRepeated counts a passage's
+// cycles as one of the passages that follow one another (ASTM E1049's rainflow counting for
+// repeating histories: the history started at its highest point, then Rainflow, the
+// three-point method), so that a passage's largest range, max - min, is one full cycle. Stress range = force range
 // (kN) times the truss's share of the track, times the fatigue dynamic factor, divided by
 // the member's area (mm², giving MPa via kN/mm² x 1000). A bending element (a stringer or a
 // floor beam, Member.SectionModulusMM3) has a moment line instead: stress range = moment range
@@ -46,7 +48,7 @@
 //	tr, _ := fatigue.PrepareTrain(train)   // once per train
 //	var c fatigue.Calculator
 //	h := c.History(line, tr, fatigue.LeftToRight, nil)
-//	cycles, _ := fatigue.Rainflow(fatigue.Turning(h, fatigue.TurningTol(h), nil), nil, nil)
+//	cycles, _, _ := fatigue.RainflowRepeated(fatigue.Turning(h, fatigue.TurningTol(h), nil), nil, nil, nil)
 //	d := curve.Damage(cycles, share*factor*1000/areaMM2) // damage of one passage
 //
 // Screening is not an assessment of remaining fatigue life: it ranks where a licensed

@@ -318,6 +318,7 @@ type Calculator struct {
 	turn   []float64
 	cycles []Cycle
 	stack  []float64
+	rot    []float64 // RainflowRepeated's scratch
 	// passages are the current member's passages counted so far (valid within one Check),
 	// shorter the trains of fewer vehicles made for them (kept across calls).
 	passages []passageCycles

@@ -129,7 +129,7 @@ func (c *Calculator) passage(l *Line, tr *Train, dir Direction, spanM float64) *
 	if 2*n+1 >= tr.count {
 		// The two shorter trains would cost more than the train itself.
 		c.turn = c.TurningOf(l, tr, dir, c.turn)
-		p.a, c.stack = Rainflow(c.turn, p.a, c.stack)
+		p.a, c.stack, c.rot = RainflowRepeated(c.turn, p.a, c.stack, c.rot)
 		p.maxRange = largestRange(p.a)
 		return p
 	}
@@ -162,7 +162,7 @@ func (c *Calculator) shorterPassages(p *passageCycles, l *Line, ta, tb *Train, d
 	oa := passageOut{t: turning{tol: tol, dst: c.turn[:0]}}
 	snap := c.walk(k, ta, eva, walkState{}, stop, &oa)
 	c.turn = oa.t.dst
-	p.a, c.stack = Rainflow(c.turn, p.a, c.stack)
+	p.a, c.stack, c.rot = RainflowRepeated(c.turn, p.a, c.stack, c.rot)
 	ob := passageOut{t: turning{tol: tol, dst: c.turnB[:0]}}
 	var evb []event
 	if extends {
@@ -176,7 +176,7 @@ func (c *Calculator) shorterPassages(p *passageCycles, l *Line, ta, tb *Train, d
 	}
 	c.walk(k, tb, evb, snap, math.Inf(1), &ob)
 	c.turnB = ob.t.dst
-	p.b, c.stack = Rainflow(c.turnB, p.b, c.stack)
+	p.b, c.stack, c.rot = RainflowRepeated(c.turnB, p.b, c.stack, c.rot)
 }
 
 // largestRange is the largest range of the cycles (0 for none).

@@ -31,8 +31,8 @@ func TestShorterPassagesAreWholeWalks(t *testing.T) {
 			var got passageCycles
 			c.shorterPassages(&got, l, ta, tb, dir)
 			var fresh Calculator
-			wantA, _ := Rainflow(fresh.TurningOf(l, ta, dir, nil), nil, nil)
-			wantB, _ := Rainflow(fresh.TurningOf(l, tb, dir, nil), nil, nil)
+			wantA, _, _ := RainflowRepeated(fresh.TurningOf(l, ta, dir, nil), nil, nil, nil)
+			wantB, _, _ := RainflowRepeated(fresh.TurningOf(l, tb, dir, nil), nil, nil, nil)
 			if !slices.Equal(got.a, wantA) || !slices.Equal(got.b, wantB) {
 				t.Fatalf("%s: cycles %v and %v, of the whole walks %v and %v", dir, got.a, got.b, wantA, wantB)
 			}

@@ -192,7 +192,7 @@ func TestSteadyCountsAreLinear(t *testing.T) {
 			c.Forget()
 			got := c.passage(l, p, dir, span).damage(curve, scale)
 			h := c.History(l, p, dir, nil)
-			cycles, _ := Rainflow(Turning(h, PassageTol(l, p), nil), nil, nil)
+			cycles, _, _ := RainflowRepeated(Turning(h, PassageTol(l, p), nil), nil, nil, nil)
 			want := curve.Damage(cycles, scale)
 			if math.Abs(got-want) > 1e-9*max(want, 1e-12) {
 				t.Fatalf("%s, %d vehicles (steady %d): shortcut damage %v, whole history %v", dir, p.count, p.steady(span), got, want)

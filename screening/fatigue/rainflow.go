@@ -47,3 +47,52 @@ func Rainflow(points []float64, dst []Cycle, stack []float64) ([]Cycle, []float6
 	}
 	return dst, st
 }
+
+// RainflowRepeated counts the cycles of one passage as one of the passages that follow one
+// another over the bridge, each starting and ending with the bridge empty: the history taken
+// as repeating, rearranged to start and end at its highest point, counted by Rainflow
+// (ASTM E1049's simplified rainflow counting for repeating histories, from memory). Every
+// range is then part of a full cycle (two half cycles of one range, at most, make it one), and
+// the passage's largest range, its highest peak to its lowest valley, counts as one full
+// cycle: a single axle over a line that changes sign gives one cycle of max - min, as is
+// common practice. Rainflow on the passage alone would count that range as half a cycle and
+// its two ends as two more halves, which leaves the damage of a member whose force reverses
+// too low (by three eighths for a single axle over equal positive and negative parts, slope
+// 3). Where the force never reverses, both count the same. points are turning points
+// (Turning); rot is scratch space for the rearranged history.
+func RainflowRepeated(points []float64, dst []Cycle, stack, rot []float64) ([]Cycle, []float64, []float64) {
+	n := len(points)
+	if n < 3 {
+		dst, stack = Rainflow(points, dst, stack)
+		return dst, stack, rot
+	}
+	q := points
+	if q[0] == q[n-1] {
+		q = q[:n-1] // the passage closes on itself: the join adds no range
+	}
+	top := 0
+	for k, v := range q {
+		if v > q[top] {
+			top = k
+		}
+	}
+	rot = rot[:0]
+	push := func(v float64) {
+		m := len(rot)
+		switch {
+		case m > 0 && v == rot[m-1]:
+		case m >= 2 && (rot[m-1]-rot[m-2])*(v-rot[m-1]) > 0:
+			rot[m-1] = v // on in the same sense: the join made rot[m-1] no turning point
+		default:
+			rot = append(rot, v)
+		}
+	}
+	for _, v := range q[top:] {
+		push(v)
+	}
+	for _, v := range q[:top+1] {
+		push(v)
+	}
+	dst, stack = Rainflow(rot, dst, stack)
+	return dst, stack, rot
+}
