@@ -50,7 +50,7 @@ func Rainflow(points []float64, dst []Cycle, stack []float64) ([]Cycle, []float6
 
 // RainflowRepeated counts the cycles of one passage as one of the passages that follow one
 // another over the bridge, each starting and ending with the bridge empty: the history taken
-// as repeating, rearranged to start and end at its highest point, counted by Rainflow
+// as repeating, rearranged to start and end at its largest peak or deepest valley, counted by Rainflow
 // (ASTM E1049's simplified rainflow counting for repeating histories, from memory). Every
 // range is then part of a full cycle (two half cycles of one range, at most, make it one), and
 // the passage's largest range, its highest peak to its lowest valley, counts as one full
@@ -70,28 +70,41 @@ func RainflowRepeated(points []float64, dst []Cycle, stack, rot []float64) ([]Cy
 	if q[0] == q[n-1] {
 		q = q[:n-1] // the passage closes on itself: the join adds no range
 	}
-	top := 0
+	// The run starts at its extreme of the larger size (the first of equals), so that a
+	// passage and its negative (a line read with the other sign) pair their points alike.
+	top, bottom := 0, 0
 	for k, v := range q {
 		if v > q[top] {
 			top = k
 		}
+		if v < q[bottom] {
+			bottom = k
+		}
+	}
+	lo, hi := q[bottom], q[top]
+	if math.Abs(lo) > math.Abs(hi) || (math.Abs(lo) == math.Abs(hi) && bottom < top) {
+		top = bottom
+	}
+	// Differences within rounding of the largest value (Turning's tolerance, TurningTol) are
+	// no reversal here either.
+	tol := 1e-9 * max(math.Abs(lo), math.Abs(hi))
+	if len(q) < n && (q[0] <= lo+tol || q[0] >= hi-tol) {
+		// The passage starts and ends at its lowest or highest point (a force that never
+		// reverses): counted from there it is already the repeating run's count.
+		dst, stack = Rainflow(points, dst, stack)
+		return dst, stack, rot
 	}
 	rot = rot[:0]
-	push := func(v float64) {
+	for k := range len(q) + 1 {
+		v := q[(top+k)%len(q)]
 		m := len(rot)
 		switch {
-		case m > 0 && v == rot[m-1]:
+		case m > 0 && math.Abs(v-rot[m-1]) <= tol:
 		case m >= 2 && (rot[m-1]-rot[m-2])*(v-rot[m-1]) > 0:
 			rot[m-1] = v // on in the same sense: the join made rot[m-1] no turning point
 		default:
 			rot = append(rot, v)
 		}
-	}
-	for _, v := range q[top:] {
-		push(v)
-	}
-	for _, v := range q[:top+1] {
-		push(v)
 	}
 	dst, stack = Rainflow(rot, dst, stack)
 	return dst, stack, rot
