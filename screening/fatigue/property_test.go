@@ -125,7 +125,9 @@ func TestHistoryAgreesWithEnvelopeAndBruteForce(t *testing.T) {
 			}
 			for k, pt := range h {
 				hi, lo = max(hi, pt.Value), min(lo, pt.Value)
-				nearJump := (k > 0 && h[k-1].HeadM == pt.HeadM) || (k+1 < len(h) && h[k+1].HeadM == pt.HeadM)
+				// A jump's two values stand at one position, or at two a rounding apart.
+				near := func(j int) bool { return math.Abs(h[j].HeadM-pt.HeadM) <= 1e-9*(1+math.Abs(pt.HeadM)) }
+				nearJump := (k > 0 && near(k-1)) || (k+1 < len(h) && near(k+1))
 				if !nearJump {
 					if want := forceAt(xd, ed, tr, pt.HeadM); math.Abs(want-pt.Value) > tol {
 						t.Fatalf("%s: point %d at %v: history %v, brute force %v", dir, k, pt.HeadM, pt.Value, want)
@@ -137,7 +139,11 @@ func TestHistoryAgreesWithEnvelopeAndBruteForce(t *testing.T) {
 				// Between two points the force is monotonic: any position in between lies
 				// within their values.
 				a := h[k-1]
-				if pt.HeadM > a.HeadM {
+				// An interval a rounding long (two events that differ only by rounding, an
+				// axle reaching a bearing with a jump) has no inside to probe: the brute
+				// force may count the axle on the bridge where the history, a rounding
+				// before, does not.
+				if pt.HeadM-a.HeadM > 1e-9*(1+math.Abs(pt.HeadM)) {
 					// kept off the ends, where a jump at a bearing lies a rounding away
 					s := a.HeadM + (0.001+0.998*rapid.Float64Range(0, 1).Draw(t, "between"))*(pt.HeadM-a.HeadM)
 					if s > a.HeadM && s < pt.HeadM {

@@ -60,8 +60,11 @@ func TestCountedAsIsTheOwnLine(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
+		// Rainflow may pair two points that tie to rounding either way (the two lines'
+		// histories differ by rounding), which moves a damage by about 1e-9 of itself: once
+		// 1.4e-9 in some ten thousand draws, counting each passage as one of a repeating run.
 		near := func(name string, g, w float64) {
-			if math.Abs(g-w) > 1e-9*math.Abs(w) {
+			if math.Abs(g-w) > 1e-8*math.Abs(w) {
 				t.Fatalf("%s: counted as the other line %v, own line %v (factor %v, mirror %v)", name, g, w, c, mirrored)
 			}
 		}
