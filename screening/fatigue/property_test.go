@@ -200,7 +200,12 @@ func TestSteadyCountsAreLinear(t *testing.T) {
 			h := c.History(l, p, dir, nil)
 			cycles, _, _ := RainflowRepeated(Turning(h, PassageTol(l, p), nil), nil, nil, nil)
 			want := curve.Damage(cycles, scale)
-			if math.Abs(got-want) > 1e-9*max(want, 1e-12) {
+			// Within 1e-8: identical vehicles give maxima equal but for rounding, and the
+			// repeating run starts at the first of them, which may be another vehicle's in
+			// the shorter trains than in the whole one; the pairing of such near-ties moves a
+			// damage by some 1e-10 of itself, which the extension over the extra vehicles
+			// multiplies (seen: 3.8e-9 with 6 extra, a few in 10,000 draws).
+			if math.Abs(got-want) > 1e-8*max(want, 1e-12) {
 				t.Fatalf("%s, %d vehicles (steady %d): shortcut damage %v, whole history %v", dir, p.count, p.steady(span), got, want)
 			}
 		}
