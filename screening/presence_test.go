@@ -4,6 +4,7 @@ import (
 	"math"
 	"testing"
 
+	"github.com/trussfleet/trussfleet/internal/proptest"
 	"github.com/trussfleet/trussfleet/screening"
 	"pgregory.net/rapid"
 )
@@ -12,7 +13,7 @@ import (
 // EN 1991-2, each track alone, any two tracks fully loaded, or 0.75 × every track with three
 // or more; AREMA, factors 1, 1, 1/2, 1/4 given to the tracks in every order).
 func TestCombineBruteForce(t *testing.T) {
-	rapid.Check(t, func(rt *rapid.T) {
+	proptest.Check(t, func(rt *rapid.T) {
 		n := rapid.IntRange(1, 5).Draw(rt, "tracks")
 		c := make([]float64, n)
 		for i := range c {

@@ -5,6 +5,7 @@ import (
 	"math"
 	"testing"
 
+	"github.com/trussfleet/trussfleet/internal/proptest"
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/truss"
 	"github.com/trussfleet/trussfleet/screening/truss/trusstest"
@@ -343,7 +344,7 @@ func remove(ms []truss.Member, i int) []truss.Member {
 // EA leaves the forces unchanged (a property of any linear truss: forces depend only on the
 // ratios of the stiffnesses).
 func TestRandomTrusses(t *testing.T) {
-	rapid.Check(t, func(rt *rapid.T) {
+	proptest.Check(t, func(rt *rapid.T) {
 		p := trusstest.RandomParams(rt)
 		tr, err := truss.Build(p)
 		if err != nil {

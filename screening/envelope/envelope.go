@@ -335,7 +335,9 @@ func (c *Calculator) extreme(l *Lines, ld *Load, i int, v float64, f found, isMa
 		gr = l.refinedGrid(sd)
 	}
 	span := l.SpanM()
-	h := f.s + float64(f.side)*1e-9*max(1, span)
+	// A limit at a jump is reported a hair's breadth off it, and never beyond the next event,
+	// where the value may change (an axle spaced within rounding of the span).
+	h := f.s + float64(f.side)*min(1e-9*max(1, span), f.room/2)
 	if r.cnt.report > r.cnt.sweep && h-l.x0 >= ld.r0+float64(r.cnt.sweep-1)*ld.unitLen {
 		h += float64(r.cnt.report-r.cnt.sweep) * ld.unitLen
 	}

@@ -248,3 +248,24 @@ func bruteUniform(x, eta []float64, u traffic.Uniform, sense float64) float64 {
 	}
 	return sense * best
 }
+
+// placementGives reports whether placement p reproduces value within tol, by responseRef: at
+// p itself or, failing that, with the head moved 2e-9 of the span either way. A placement is
+// given to that precision: a limit at a jump of the line stands 1e-9 of the span off it, and a
+// position where axles arrive and leave at once is turned into the truss's coordinates with
+// rounding, which can leave an axle a rounding's width off the bearing it stands on.
+func placementGives(x, eta []float64, t *traffic.Train, p Placement, sense, value, tol float64) (float64, bool) {
+	got := responseRef(x, eta, t, placedAt(p), sense)
+	if math.Abs(got-value) <= tol {
+		return got, true
+	}
+	d := 2e-9 * max(1, x[len(x)-1]-x[0])
+	for _, h := range []float64{p.HeadM - d, p.HeadM + d} {
+		q := placedAt(p)
+		q.head = h
+		if math.Abs(responseRef(x, eta, t, q, sense)-value) <= tol {
+			return got, true
+		}
+	}
+	return got, false
+}

@@ -3,6 +3,7 @@ package envelope
 import (
 	"testing"
 
+	"github.com/trussfleet/trussfleet/internal/proptest"
 	"pgregory.net/rapid"
 )
 
@@ -11,7 +12,7 @@ import (
 // every count from the beginning gives. Reference: the full sweep of each count, an
 // independent run of the same event sweep with no state carried between counts.
 func TestResumedSweepsEqualFullSweeps(t *testing.T) {
-	rapid.Check(t, func(t *rapid.T) {
+	proptest.Check(t, func(t *rapid.T) {
 		x, ord := genLines(t)
 		tr := genTrain(t)
 		l, ld := prepared(t, x, ord, tr)

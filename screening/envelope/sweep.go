@@ -27,9 +27,11 @@ type stream struct {
 
 // found is a candidate extreme: the front at s (grid coordinates), on the side of s (-1:
 // just before, +1: just after, 0: at s) where a jump of the influence line at a bearing
-// makes the extreme a limit, in sweep run of the given stream.
+// makes the extreme a limit, in sweep run of the given stream. room is how far the next event
+// on that side lies (+Inf when none): the placement is reported within it.
 type found struct {
 	s      float64
+	room   float64
 	side   int8
 	stream int8
 	run    int32
@@ -159,7 +161,7 @@ func (c *Calculator) sweep(gr *grid, ld *Load, n int, run int32) {
 			sPrev = ev[0].s - 1
 		}
 		for si := range streams {
-			c.offer(si, sPrev, 0, run)
+			c.offer(si, sPrev, 0, 0, run)
 		}
 	}
 	c.ck.ok = false
@@ -187,6 +189,7 @@ func (c *Calculator) sweep(gr *grid, ld *Load, n int, run int32) {
 			g0 = g1
 			continue
 		}
+		before, after := c.gaps(gr, g0, g1)
 		dt := s - sPrev
 		for si, sm := range streams {
 			st := &c.state[si]
@@ -209,7 +212,7 @@ func (c *Calculator) sweep(gr *grid, ld *Load, n int, run int32) {
 		}
 		if enter {
 			for si := range streams {
-				c.offer(si, s, -1, run)
+				c.offer(si, s, -1, before, run)
 			}
 		}
 		// Value jumps at the point itself: an axle arriving on the bridge, and a cut part's
@@ -242,7 +245,7 @@ func (c *Calculator) sweep(gr *grid, ld *Load, n int, run int32) {
 		}
 		point := pointSide(enter || cutJump, exit)
 		for si := range streams {
-			c.offer(si, s, point, run)
+			c.offer(si, s, point, roomOn(point, before, after), run)
 		}
 		if exit {
 			for _, e := range ev[g0:g1] {
@@ -254,7 +257,7 @@ func (c *Calculator) sweep(gr *grid, ld *Load, n int, run int32) {
 				}
 			}
 			for si := range streams {
-				c.offer(si, s, 1, run)
+				c.offer(si, s, 1, after, run)
 			}
 		}
 		for _, e := range ev[g0:g1] {
@@ -411,7 +414,8 @@ func (c *Calculator) groupJumps(gr *grid, g0, n int, run int32) (g1 int) {
 		st.v[i] += st.g[i] * (s - st.t[i])
 		st.t[i] = s
 	}
-	c.sweepJumps(gr, ev[g0:g1], n, s, run)
+	before, after := c.gaps(gr, g0, g1)
+	c.sweepJumps(gr, ev[g0:g1], n, s, before, after, run)
 	return g1
 }
 
@@ -454,10 +458,10 @@ func (c *Calculator) linearEvents(gr *grid, from, to, n int, run int32, sPrev fl
 // sweepJumps handles a group of events at s that includes an axle reaching a bearing where
 // some line has a non-zero ordinate: the left limit, the value at s (axle on the bridge) and
 // the right limit all count.
-func (c *Calculator) sweepJumps(gr *grid, group []event, n int, s float64, run int32) {
+func (c *Calculator) sweepJumps(gr *grid, group []event, n int, s, before, after float64, run int32) {
 	m, nx := c.m, len(gr.x)
 	v := c.state[0].v
-	c.offer(0, s, -1, run)
+	c.offer(0, s, -1, before, run)
 	for _, e := range group {
 		if it := c.items[e.it]; it.unit <= int32(n) && e.j == 0 {
 			addScaled(v, gr.jump[:m], it.w)
@@ -470,14 +474,51 @@ func (c *Calculator) sweepJumps(gr *grid, group []event, n int, s float64, run i
 			exit = exit || int(e.j) == nx-1
 		}
 	}
-	c.offer(0, s, pointSide(enter, exit), run)
+	point := pointSide(enter, exit)
+	c.offer(0, s, point, roomOn(point, before, after), run)
 	for _, e := range group {
 		if it := c.items[e.it]; it.unit <= int32(n) && int(e.j) == nx-1 {
 			base := int(e.j) * m
 			addScaled(v, gr.jump[base:base+m], it.w)
 		}
 	}
-	c.offer(0, s, 1, run)
+	c.offer(0, s, 1, after, run)
+}
+
+// gaps is how far the events just before and just after the group ev[g0:g1] lie from it
+// (+Inf where there is none), over gr. Events within rounding of the group (1e-12 of the
+// span or of the position, as two axles at one offset reach a vertex) count as at it. Any
+// other event counts, also one of a vehicle beyond the count swept: the room it leaves is
+// smaller than the value's true stretch, never larger.
+func (c *Calculator) gaps(gr *grid, g0, g1 int) (before, after float64) {
+	ev := c.events
+	s := ev[g0].s
+	tiny := 1e-12 * max(1, gr.x[len(gr.x)-1]-gr.x[0], math.Abs(s))
+	before, after = math.Inf(1), math.Inf(1)
+	for k := g0 - 1; k >= 0; k-- {
+		if d := s - ev[k].s; d > tiny {
+			before = d
+			break
+		}
+	}
+	for k := g1; k < len(ev); k++ {
+		if d := ev[k].s - s; d > tiny {
+			after = d
+			break
+		}
+	}
+	return before, after
+}
+
+// roomOn is the room on the given side of a position.
+func roomOn(side int8, before, after float64) float64 {
+	switch side {
+	case -1:
+		return before
+	case 1:
+		return after
+	}
+	return 0
 }
 
 // advanceCurved moves stream si on by dt, offering any interior stationary point.
@@ -507,17 +548,17 @@ func (c *Calculator) advanceCurved(si int, dt, sPrev float64, run int32) {
 }
 
 // offer records stream si's current values where they beat the extremes so far.
-func (c *Calculator) offer(si int, s float64, side int8, run int32) {
+func (c *Calculator) offer(si int, s float64, side int8, room float64, run int32) {
 	sm := c.streams[si]
 	v := c.state[si].v
 	for i := range c.m {
 		if sm.max && v[i] > c.maxV[i] {
 			c.maxV[i] = v[i]
-			c.maxAt[i] = found{s: s, side: side, stream: int8(si), run: run}
+			c.maxAt[i] = found{s: s, room: room, side: side, stream: int8(si), run: run}
 		}
 		if sm.min && v[i] < c.minV[i] {
 			c.minV[i] = v[i]
-			c.minAt[i] = found{s: s, side: side, stream: int8(si), run: run}
+			c.minAt[i] = found{s: s, room: room, side: side, stream: int8(si), run: run}
 		}
 	}
 }

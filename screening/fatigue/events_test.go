@@ -5,6 +5,7 @@ import (
 	"slices"
 	"testing"
 
+	"github.com/trussfleet/trussfleet/internal/proptest"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 	"pgregory.net/rapid"
 )
@@ -27,7 +28,7 @@ func bruteEvents(k *kinks, tr *Train) []event {
 // The merged events are the brute-force sort's, and a line kinking where another does (same
 // positions, other ordinates) takes the kept list, which is still the brute force's.
 func TestMergedEventsAreSorted(t *testing.T) {
-	rapid.Check(t, func(t *rapid.T) {
+	proptest.Check(t, func(t *rapid.T) {
 		x, eta := genLine(t)
 		tr := genPassageTrain(t)
 		l, p := prepared(t, x, eta, tr)

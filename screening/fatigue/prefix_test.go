@@ -5,6 +5,7 @@ import (
 	"slices"
 	"testing"
 
+	"github.com/trussfleet/trussfleet/internal/proptest"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 	"pgregory.net/rapid"
 )
@@ -14,7 +15,7 @@ import (
 // to the bit; and the events built by extending the shorter train's are the longer's merged
 // afresh.
 func TestShorterPassagesAreWholeWalks(t *testing.T) {
-	rapid.Check(t, func(t *rapid.T) {
+	proptest.Check(t, func(t *rapid.T) {
 		x, eta := genLine(t)
 		tr := genPassageTrain(t)
 		span := x[len(x)-1] - x[0]

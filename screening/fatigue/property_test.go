@@ -5,6 +5,7 @@ import (
 	"math"
 	"testing"
 
+	"github.com/trussfleet/trussfleet/internal/proptest"
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/traffic"
@@ -103,7 +104,7 @@ func scaleOf(x, eta []float64, tr *traffic.Train) float64 {
 // a jump is the brute-force force at its position, and the brute force at random positions
 // never leaves the range of the history's neighbouring points.
 func TestHistoryAgreesWithEnvelopeAndBruteForce(t *testing.T) {
-	rapid.Check(t, func(t *rapid.T) {
+	proptest.Check(t, func(t *rapid.T) {
 		x, eta := genLine(t)
 		tr := genPassageTrain(t)
 		l, p := prepared(t, x, eta, tr)
@@ -176,7 +177,7 @@ func mirror(x, eta []float64) ([]float64, []float64) {
 // damage of steady's two shorter trains extended linearly (the shortcut Check takes), on any
 // line and train: the reference counts the real train's whole history (Turning, Rainflow).
 func TestSteadyCountsAreLinear(t *testing.T) {
-	rapid.Check(t, func(t *rapid.T) {
+	proptest.Check(t, func(t *rapid.T) {
 		x, eta := genLine(t)
 		tr := genPassageTrain(t)
 		span := x[len(x)-1] - x[0]

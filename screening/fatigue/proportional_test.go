@@ -4,6 +4,7 @@ import (
 	"math"
 	"testing"
 
+	"github.com/trussfleet/trussfleet/internal/proptest"
 	"pgregory.net/rapid"
 )
 
@@ -11,7 +12,7 @@ import (
 // passages (CountedAs), the check of its own line: the same status, and damages and ranges
 // equal to rounding (the brute force here is the member's own passages, History-exact).
 func TestCountedAsIsTheOwnLine(t *testing.T) {
-	rapid.Check(t, func(t *rapid.T) {
+	proptest.Check(t, func(t *rapid.T) {
 		x, eta := genLine(t)
 		tr := genPassageTrain(t)
 		base, p := prepared(t, x, eta, tr)

@@ -4,6 +4,7 @@ import (
 	"math"
 	"testing"
 
+	"github.com/trussfleet/trussfleet/internal/proptest"
 	"pgregory.net/rapid"
 )
 
@@ -35,7 +36,7 @@ func TestReversalIsOneCycle(t *testing.T) {
 // formulation of repeated loading. Compared by damage at slopes 3 and 5 (sum of count times
 // range^m), the run of K passages less the run of K - 1, for K = 4.
 func TestRepeatedIsTheLongRun(t *testing.T) {
-	rapid.Check(t, func(t *rapid.T) {
+	proptest.Check(t, func(t *rapid.T) {
 		n := rapid.IntRange(1, 8).Draw(t, "inner points")
 		p := []float64{0}
 		for range n {

@@ -4,13 +4,14 @@ import (
 	"slices"
 	"testing"
 
+	"github.com/trussfleet/trussfleet/internal/proptest"
 	"pgregory.net/rapid"
 )
 
 // The turning points a passage gives without passing the points inside straight runs of one
 // sense are those of its whole history (Turning of History), to the bit.
 func TestTurningOfIsTurningOfHistory(t *testing.T) {
-	rapid.Check(t, func(t *rapid.T) {
+	proptest.Check(t, func(t *rapid.T) {
 		x, eta := genLine(t)
 		tr := genPassageTrain(t)
 		l, p := prepared(t, x, eta, tr)

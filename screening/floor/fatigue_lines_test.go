@@ -4,6 +4,7 @@ import (
 	"math"
 	"testing"
 
+	"github.com/trussfleet/trussfleet/internal/proptest"
 	"github.com/trussfleet/trussfleet/screening/fatigue"
 	"pgregory.net/rapid"
 )
@@ -62,7 +63,7 @@ func (s System) stringerLinesChecked(t *testing.T) [][2]float64 {
 // moment anywhere along the span that the strength check rates (MaxMoment), and reaches it
 // for a single axle (P L / 4 at mid-span, textbook).
 func TestFatigueLinesAgreeWithLive(t *testing.T) {
-	rapid.Check(t, func(rt *rapid.T) {
+	proptest.Check(t, func(rt *rapid.T) {
 		tr := drawAxles(rt, 5)
 		n := len(tr.Consist[0].Vehicle.Axles)
 		panels := rapid.IntRange(2, 6).Draw(rt, "panels")

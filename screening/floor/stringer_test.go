@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"github.com/trussfleet/trussfleet/configs"
+	"github.com/trussfleet/trussfleet/internal/proptest"
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 	"pgregory.net/rapid"
@@ -218,7 +219,7 @@ func drawAxles(rt *rapid.T, most int) *traffic.Train {
 // TestMaxMomentRapid: for random axle groups and spans, the exact maximum is never beaten by
 // a brute force over positions and sections, and the envelope at its section reproduces it.
 func TestMaxMomentRapid(t *testing.T) {
-	rapid.Check(t, func(rt *rapid.T) {
+	proptest.Check(t, func(rt *rapid.T) {
 		tr := drawAxles(rt, 6)
 		if rapid.Bool().Draw(rt, "part") {
 			from := rapid.Float64Range(-3, 10).Draw(rt, "from")

@@ -4,6 +4,7 @@ import (
 	"math"
 	"testing"
 
+	"github.com/trussfleet/trussfleet/internal/proptest"
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/network"
@@ -18,7 +19,7 @@ import (
 // of the variable consist is the reference: an independent formulation of the same loading).
 func TestLongTrainEqualsRakes(t *testing.T) {
 	geoms := network.Geometries()
-	rapid.Check(t, func(rt *rapid.T) {
+	proptest.Check(t, func(rt *rapid.T) {
 		p := trusstest.RandomParams(rt)
 		tr, err := truss.Build(p)
 		if err != nil {

@@ -4,6 +4,7 @@ import (
 	"math"
 	"testing"
 
+	"github.com/trussfleet/trussfleet/internal/proptest"
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/network"
 	"pgregory.net/rapid"
@@ -16,7 +17,7 @@ import (
 // of the full trains is the reference).
 func TestFewerWagonsSameEnvelope(t *testing.T) {
 	geoms := network.Geometries()
-	rapid.Check(t, func(rt *rapid.T) {
+	proptest.Check(t, func(rt *rapid.T) {
 		n := rapid.IntRange(2, 12).Draw(rt, "points")
 		span := rapid.Float64Range(4, 200).Draw(rt, "span")
 		x := make([]float64, n)

@@ -4,6 +4,7 @@ import (
 	"math"
 	"testing"
 
+	"github.com/trussfleet/trussfleet/internal/proptest"
 	"pgregory.net/rapid"
 )
 
@@ -68,7 +69,7 @@ func TestMissingSense(t *testing.T) {
 // must then give the same RF as the capacity form for any new loading (algebra of the
 // working-stress rating equation, DOMAIN.md).
 func TestLoadEffectRatioAgreesWithCapacity(t *testing.T) {
-	rapid.Check(t, func(rt *rapid.T) {
+	proptest.Check(t, func(rt *rapid.T) {
 		c := rapid.Float64Range(100, 1e4).Draw(rt, "C")
 		dead := rapid.Float64Range(0, 0.5).Draw(rt, "Dshare") * c
 		ref := Demand{Dead: dead, LiveMax: rapid.Float64Range(10, 2e3).Draw(rt, "Lref"), Impact: rapid.Float64Range(1, 1.7).Draw(rt, "Iref")}

@@ -3,6 +3,7 @@ package truss_test
 import (
 	"testing"
 
+	"github.com/trussfleet/trussfleet/internal/proptest"
 	"github.com/trussfleet/trussfleet/screening/truss"
 	"github.com/trussfleet/trussfleet/screening/truss/trusstest"
 	"pgregory.net/rapid"
@@ -13,7 +14,7 @@ import (
 // practice). Stability is checked by solving, in the analysis package's tests. A deck Warren
 // for example bears on its upper chord: the count holds the same.
 func TestDeterminateCount(t *testing.T) {
-	rapid.Check(t, func(rt *rapid.T) {
+	proptest.Check(t, func(rt *rapid.T) {
 		p := trusstest.RandomParams(rt)
 		tr, err := truss.Build(p)
 		if err != nil {
