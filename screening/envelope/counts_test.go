@@ -27,32 +27,7 @@ func TestSteadyCountEqualsAllCounts(t *testing.T) {
 		if err := tr.Validate(); err != nil {
 			t.Skip(err)
 		}
-		l, ld := prepared(t, x, ord, tr)
-		var steady, all Calculator
-		got, err := steady.Envelope(l, ld, Options{}, nil)
-		if err != nil {
-			t.Fatal(err)
-		}
-		want, err := all.envelope(l, ld, Options{}, nil, plainSweeps{allCounts: true})
-		if err != nil {
-			t.Fatal(err)
-		}
-		for i, eta := range ord {
-			scale := forceScale(x, eta, tr)
-			g, w := senses(got[i]), senses(want[i])
-			for k := range g {
-				if math.Abs(g[k].e.Value-w[k].e.Value) > 1e-9*scale {
-					t.Fatalf("member %d sense %v: steady counts give %v, all counts %v (%+v)", i, g[k].sense, g[k].e.Value, w[k].e.Value, g[k].e.Placement)
-				}
-				p := g[k].e.Placement
-				if !p.Loaded || tr.Uniform != nil {
-					continue
-				}
-				if got, ok := placementGives(x, eta, tr, p, g[k].sense, g[k].e.Value, 1e-7*scale); !ok {
-					t.Fatalf("member %d sense %v: placement %+v gives %v, reported %v", i, g[k].sense, p, got, g[k].e.Value)
-				}
-			}
-		}
+		shortcutAgrees(t, x, ord, tr, plainSweeps{allCounts: true})
 	})
 }
 

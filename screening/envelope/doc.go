@@ -13,7 +13,8 @@
 // a bearing), so the extreme is at one of them; distributed parts make the pieces quadratic,
 // adding their stationary points. One sweep per direction visits those positions in order,
 // carrying every member's value and slope, so a truss costs one sweep per train, not one per
-// member. Parts applied only where unfavourable (Load Model 71) follow the positive or
+// member; each member is brought up to date only at the vertices where its own line kinks
+// (and, for a cut part, where its running extreme moves), so most positions touch few members. Parts applied only where unfavourable (Load Model 71) follow the positive or
 // negative part of each line; a part cut at the unfavourable length (Cooper's trailing load)
 // follows the running extreme of the line's integral. A variable consist is swept only at the
 // counts that show the bridge different loadings (only vehicles on the bridge matter: once

@@ -139,6 +139,9 @@ type plainSweeps struct {
 	// allCounts sweeps every count of a variable consist from its min to its max instead of
 	// only those that show the bridge different loadings (Load.counts).
 	allCounts bool
+	// denseCurved sweeps a train with distributed parts event by event over every member
+	// instead of at each member's own kinks (sweepCurved).
+	denseCurved bool
 }
 
 // MaxEvents bounds the positions one sweep visits: the train's axles and part ends, at the
@@ -272,7 +275,7 @@ func (c *Calculator) train(l *Lines, ld *Load, out []Extremes, plain plainSweeps
 				c.ck.ok = false // no resuming: every count from the beginning
 			}
 			c.runs = append(c.runs, runInfo{dir: d, cnt: k})
-			c.sweep(gr, ld, k.sweep, int32(len(c.runs)-1))
+			c.sweep(gr, ld, k.sweep, int32(len(c.runs)-1), plain.denseCurved)
 		}
 	}
 	out = slices.Grow(out[:0], c.m)[:c.m]

@@ -342,3 +342,40 @@ type sensed struct {
 func senses(e Extremes) []sensed {
 	return []sensed{{1, e.Max}, {-1, e.Min}}
 }
+
+// shortcutAgrees checks that Envelope (every shortcut) gives, member by member, the extremes
+// of the sweeps with the shortcuts in plain turned off, within 1e-9 of the force scale, and
+// that each reported placement reproduces its value by the independent reference response.
+func shortcutAgrees(t interface {
+	Helper()
+	Fatal(...any)
+	Fatalf(string, ...any)
+}, x []float64, ord [][]float64, tr *traffic.Train, plain plainSweeps) {
+	t.Helper()
+	l, ld := prepared(t, x, ord, tr)
+	var short, long Calculator
+	got, err := short.Envelope(l, ld, Options{}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, err := long.envelope(l, ld, Options{}, nil, plain)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, eta := range ord {
+		scale := forceScale(x, eta, tr)
+		g, w := senses(got[i]), senses(want[i])
+		for k := range g {
+			if math.Abs(g[k].e.Value-w[k].e.Value) > 1e-9*scale {
+				t.Fatalf("member %d sense %v: with the shortcut %v, without %v (%+v)", i, g[k].sense, g[k].e.Value, w[k].e.Value, g[k].e.Placement)
+			}
+			p := g[k].e.Placement
+			if !p.Loaded || tr.Uniform != nil {
+				continue
+			}
+			if got, ok := placementGives(x, eta, tr, p, g[k].sense, g[k].e.Value, 1e-7*scale); !ok {
+				t.Fatalf("member %d sense %v: placement %+v gives %v, reported %v", i, g[k].sense, p, got, g[k].e.Value)
+			}
+		}
+	}
+}

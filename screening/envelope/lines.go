@@ -63,8 +63,33 @@ func (l *Lines) refinedGrid(d int) *grid {
 			}
 		}
 		dr.refined = newGrid(rx, rord, true)
+		dr.refined.takeKinks(l.plainGrid(d))
 	})
 	return dr.refined
+}
+
+// takeKinks gives a refined grid the kinks of the plain grid p: a vertex the refined grid adds
+// (a zero crossing) is a straight point of every line, and the slope changes at the panel
+// points are those of the lines as given, not those of the interpolated ordinates, whose short
+// segments' slopes carry rounding. So the kinks' slope changes sum as the plain grid's do, and
+// a curvature built from them by sweepSparse returns to zero where the line ends; filtered
+// noise would stay in it and grow with the square of the train's length.
+func (g *grid) takeKinks(p *grid) {
+	g.kinkStart = make([]int32, len(g.x)+1)
+	g.kinkMember, g.kinkSlope = nil, nil
+	k := 0
+	for j, xv := range g.x {
+		if k < len(p.x) && p.x[k] == xv {
+			lo, hi := p.kinkStart[k], p.kinkStart[k+1]
+			g.kinkMember = append(g.kinkMember, p.kinkMember[lo:hi]...)
+			g.kinkSlope = append(g.kinkSlope, p.kinkSlope[lo:hi]...)
+			k++
+		}
+		g.kinkStart[j+1] = int32(len(g.kinkMember))
+	}
+	if k != len(p.x) {
+		panic("envelope: a refined grid lost a panel point")
+	}
 }
 
 // grid holds, for every vertex j and member i (index j*m+i), how the influence line changes
@@ -88,6 +113,7 @@ type grid struct {
 	jumpPos, slopePos, jumpNeg, slopeNeg []float64
 	area                                 []float64 // integral E(x_j) of the line from x0
 	dropMin, dropMax                     []float64 // fall of min(0, min E(x_k≤j)) at j, rise of the max
+	dropMinAt, dropMaxAt                 byVertex  // their non-zero entries (sweepSparse)
 	argMin, argMax                       []int32   // k attaining that min (max); -1 for 0 (beyond the left bearing)
 	areaNet, areaPos, areaNeg            []float64 // per member
 }
@@ -321,7 +347,31 @@ func newGrid(x []float64, ord [][]float64, refined bool) *grid {
 			g.argMin[j*m+i], g.argMax[j*m+i] = argLo, argHi
 		}
 	}
+	g.dropMinAt, g.dropMaxAt = nonZero(g.dropMin, n, m), nonZero(g.dropMax, n, m)
 	return g
+}
+
+// byVertex lists, vertex by vertex, the members with a non-zero entry of some per-vertex,
+// per-member quantity: vertex j's are member[start[j]:start[j+1]], with their values.
+type byVertex struct {
+	start  []int32
+	member []int32
+	value  []float64
+}
+
+// nonZero gives the non-zero entries of v (index j*m+i) by vertex.
+func nonZero(v []float64, n, m int) byVertex {
+	b := byVertex{start: make([]int32, n+1)}
+	for j := range n {
+		for i, d := range v[j*m : j*m+m] {
+			if d != 0 {
+				b.member = append(b.member, int32(i))
+				b.value = append(b.value, d)
+			}
+		}
+		b.start[j+1] = int32(len(b.member))
+	}
+	return b
 }
 
 // changes gives, at each vertex, the jump in value and the change in slope of f(eta) as a

@@ -250,22 +250,34 @@ func bruteUniform(x, eta []float64, u traffic.Uniform, sense float64) float64 {
 }
 
 // placementGives reports whether placement p reproduces value within tol, by responseRef: at
-// p itself or, failing that, with the head moved 2e-9 of the span either way. A placement is
-// given to that precision: a limit at a jump of the line stands 1e-9 of the span off it, and a
-// position where axles arrive and leave at once is turned into the truss's coordinates with
-// rounding, which can leave an axle a rounding's width off the bearing it stands on.
+// p itself or, failing that, at the precision a placement is given to. That is, with the head
+// moved 2e-9 of the span either way: a limit at a jump of the line stands 1e-9 of the span off
+// it, and a position where axles arrive and leave at once is turned into the truss's
+// coordinates with rounding, which can leave an axle a rounding's width off the bearing it
+// stands on. Or with the bearings moved out by rounding (1e-12 of the lengths involved): the
+// sweep takes positions equal in floating point as one, so where the span is a multiple of an
+// axle spacing to within rounding, an axle arriving and one leaving stand on the bridge
+// together (the larger force, on the safe side).
 func placementGives(x, eta []float64, t *traffic.Train, p Placement, sense, value, tol float64) (float64, bool) {
 	got := responseRef(x, eta, t, placedAt(p), sense)
 	if math.Abs(got-value) <= tol {
 		return got, true
 	}
-	d := 2e-9 * max(1, x[len(x)-1]-x[0])
+	span := x[len(x)-1] - x[0]
+	d := 2e-9 * max(1, span)
 	for _, h := range []float64{p.HeadM - d, p.HeadM + d} {
 		q := placedAt(p)
 		q.head = h
 		if math.Abs(responseRef(x, eta, t, q, sense)-value) <= tol {
 			return got, true
 		}
+	}
+	r := 1e-12 * max(1, span, math.Abs(x[0]), math.Abs(x[len(x)-1]), math.Abs(p.HeadM))
+	wide := slices.Clone(x)
+	wide[0] -= r
+	wide[len(wide)-1] += r
+	if math.Abs(responseRef(wide, eta, t, placedAt(p), sense)-value) <= tol {
+		return got, true
 	}
 	return got, false
 }

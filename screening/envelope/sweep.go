@@ -125,7 +125,7 @@ func mergeEvents(dst, a, b []event) {
 // instead of from the beginning. The skipped positions give the same values, bit for bit, as
 // the earlier sweep already recorded, and the extremes keep the first sweep that reached
 // them, so the result is the same as sweeping every count in full.
-func (c *Calculator) sweep(gr *grid, ld *Load, n int, run int32) {
+func (c *Calculator) sweep(gr *grid, ld *Load, n int, run int32, dense bool) {
 	m := c.m
 	nx := len(gr.x)
 	streams := c.streams
@@ -168,6 +168,10 @@ func (c *Calculator) sweep(gr *grid, ld *Load, n int, run int32) {
 	save := c.firstGroupBeyond(n)
 	if !c.curved && len(streams) == 1 {
 		c.sweepLinear(gr, n, run, sPrev, start, save)
+		return
+	}
+	if !gr.endJumps && !ld.hasUnfav && !dense {
+		c.sweepSparse(gr, n, run, sPrev, start, save)
 		return
 	}
 	endJump := gr.endJumps
