@@ -13,8 +13,9 @@ import (
 	"github.com/trussfleet/trussfleet/screening/truss"
 )
 
-// benchBridges are Pratt spans of 48 m (8 panels) and 96 m (16 panels), every member with
-// capacities, under the default configuration's freight and multiple-unit trains.
+// benchBridges are Pratt spans of 48 m (8 panels) and 96 m (16 panels) and a Pratt
+// continuous over two 48 m spans, every member with capacities, under the default
+// configuration's freight and multiple-unit trains.
 func benchSetup(b *testing.B, withNetwork bool) ([]screening.Bridge, *screening.Settings) {
 	b.Helper()
 	var trains []*traffic.Train
@@ -37,7 +38,7 @@ func benchSetup(b *testing.B, withNetwork bool) ([]screening.Bridge, *screening.
 	}
 	s.ShareTrains()
 	var out []screening.Bridge
-	for _, p := range []truss.Params{{Type: "pratt", SpanM: 48, Panels: 8, DepthM: 6}, {Type: "pratt", SpanM: 96, Panels: 16, DepthM: 11}} {
+	for _, p := range []truss.Params{{Type: "pratt", SpanM: 48, Panels: 8, DepthM: 6}, {Type: "pratt", SpanM: 96, Panels: 16, DepthM: 11}, {Type: "pratt", SpanM: 48, Panels: 8, DepthM: 6, Spans: 2}} {
 		out = append(out, screening.Bridge{ID: p.Type, Truss: p, TrussShare: 0.5, Tracks: 1, DeadLoadKNPerM: 20, Members: withCapacities(b, p)})
 	}
 	return out, s
@@ -49,7 +50,11 @@ func BenchmarkScreenNetwork(b *testing.B) {
 	for _, on := range []bool{false, true} {
 		bridges, s := benchSetup(b, on)
 		for _, br := range bridges {
-			b.Run(fmt.Sprintf("span-%g/network-%v", br.Truss.SpanM, on), func(b *testing.B) {
+			name := fmt.Sprintf("span-%g", br.Truss.SpanM)
+			if br.Truss.Spans > 1 {
+				name = fmt.Sprintf("spans-%dx%g", br.Truss.Spans, br.Truss.SpanM)
+			}
+			b.Run(fmt.Sprintf("%s/network-%v", name, on), func(b *testing.B) {
 				var w screening.Screener
 				for b.Loop() {
 					if r := w.Screen(br, s); r.Err != nil {

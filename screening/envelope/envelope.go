@@ -183,7 +183,7 @@ func (c *Calculator) envelope(l *Lines, ld *Load, opt Options, out []Extremes, p
 	if ld.uniform != nil {
 		out = c.uniform(l, ld, out)
 	} else {
-		if err := ld.fits(l, plain.allCounts); err != nil {
+		if err := ld.fits(l, plain); err != nil {
 			return out[:0], err
 		}
 		out = c.train(l, ld, out, plain)
@@ -199,15 +199,19 @@ func (c *Calculator) envelope(l *Lines, ld *Load, opt Options, out []Extremes, p
 }
 
 // fits refuses a train whose sweeps over l would exceed MaxEvents. The count is taken in
-// floating point, which cannot overflow.
-func (ld *Load) fits(l *Lines, all bool) error {
-	n := ld.lastSwept(l.SpanM(), all)
+// floating point, which cannot overflow. Only the grids swept count: a truss that is its own
+// mirror image is swept left to right alone (mirrorSweeps), and its mirror image's refined
+// grid is never built.
+func (ld *Load) fits(l *Lines, plain plainSweeps) error {
+	n := ld.lastSwept(l.SpanM(), plain.allCounts)
 	items := float64(len(ld.fixed)) + float64(n)*float64(len(ld.unit))
 	gr := l.plainGrid(0)
 	if ld.hasUnfav || ld.hasCut {
 		gr = l.refinedGrid(0)
-		if r := l.refinedGrid(1); len(r.x) > len(gr.x) {
-			gr = r
+		if l.mirror == nil || plain.bothSweeps {
+			if r := l.refinedGrid(1); len(r.x) > len(gr.x) {
+				gr = r
+			}
 		}
 	}
 	vertices := len(gr.x)

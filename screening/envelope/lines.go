@@ -256,6 +256,19 @@ func linesMatch(a, b []float64, tol float64) bool {
 // Members is the number of influence lines.
 func (l *Lines) Members() int { return l.m }
 
+// Only is the lines of the chosen members alone, in the order given: for a train that only
+// some members' lines need.
+func (l *Lines) Only(members []int) (*Lines, error) {
+	ord := make([][]float64, len(members))
+	for k, i := range members {
+		if i < 0 || i >= l.m {
+			return nil, fmt.Errorf("member %d of %d", i, l.m)
+		}
+		ord[k] = l.ord[i]
+	}
+	return NewLines(l.x, ord)
+}
+
 // SpanM is the length over which the lines are non-zero, x[last] - x[0].
 func (l *Lines) SpanM() float64 { return l.xl - l.x0 }
 
@@ -289,28 +302,8 @@ func newGrid(x []float64, ord [][]float64, refined bool) *grid {
 	}
 	g.jump, g.slope = changes(x, ord, func(v float64) float64 { return v })
 	g.endJumps = slices.ContainsFunc(g.jump, func(v float64) bool { return v != 0 })
-	// A line straight through a vertex gives a slope change of rounding noise there, not
-	// zero; below 1e-12 of the steepest slope its ordinates could make, it is taken as none
-	// (which moves a force by less than 1e-12 of the largest it could be).
-	minDx := math.Inf(1)
-	for j := 1; j < n; j++ {
-		minDx = min(minDx, x[j]-x[j-1])
-	}
-	noise := make([]float64, m)
-	for i, o := range ord {
-		for _, v := range o {
-			noise[i] = max(noise[i], 1e-12*math.Abs(v)/minDx)
-		}
-	}
-	g.kinkStart = make([]int32, n+1)
-	for j := range n {
-		for i, d := range g.slope[j*m : j*m+m] {
-			if math.Abs(d) > noise[i] || j == 0 || j == n-1 {
-				g.kinkMember = append(g.kinkMember, int32(i))
-				g.kinkSlope = append(g.kinkSlope, d)
-			}
-		}
-		g.kinkStart[j+1] = int32(len(g.kinkMember))
+	if !refined { // a refined grid takes the plain grid's kinks (takeKinks)
+		g.findKinks(x, ord)
 	}
 	g.areaNet = make([]float64, m)
 	g.areaPos = make([]float64, m)
@@ -349,6 +342,34 @@ func newGrid(x []float64, ord [][]float64, refined bool) *grid {
 	}
 	g.dropMinAt, g.dropMaxAt = nonZero(g.dropMin, n, m), nonZero(g.dropMax, n, m)
 	return g
+}
+
+// findKinks lists the grid's kinks: by vertex, the members whose line's slope changes there.
+func (g *grid) findKinks(x []float64, ord [][]float64) {
+	n, m := len(x), len(ord)
+	// A line straight through a vertex gives a slope change of rounding noise there, not
+	// zero; below 1e-12 of the steepest slope its ordinates could make, it is taken as none
+	// (which moves a force by less than 1e-12 of the largest it could be).
+	minDx := math.Inf(1)
+	for j := 1; j < n; j++ {
+		minDx = min(minDx, x[j]-x[j-1])
+	}
+	noise := make([]float64, m)
+	for i, o := range ord {
+		for _, v := range o {
+			noise[i] = max(noise[i], 1e-12*math.Abs(v)/minDx)
+		}
+	}
+	g.kinkStart = make([]int32, n+1)
+	for j := range n {
+		for i, d := range g.slope[j*m : j*m+m] {
+			if math.Abs(d) > noise[i] || j == 0 || j == n-1 {
+				g.kinkMember = append(g.kinkMember, int32(i))
+				g.kinkSlope = append(g.kinkSlope, d)
+			}
+		}
+		g.kinkStart[j+1] = int32(len(g.kinkMember))
+	}
 }
 
 // byVertex lists, vertex by vertex, the members with a non-zero entry of some per-vertex,
