@@ -255,17 +255,6 @@ func (w *Screener) sweep(l *envelope.Lines, ld *envelope.Load, opt envelope.Opti
 	return s.ext, nil
 }
 
-// remember holds ext as the current bridge's envelope under ld, as if w.sweep had swept it.
-func (w *Screener) remember(ld *envelope.Load, ext []envelope.Extremes) {
-	for k := range w.swept {
-		if w.swept[k].ld == ld {
-			w.swept[k].ext = ext
-			return
-		}
-	}
-	w.swept = append(w.swept, sweptTrain{ld: ld, ext: ext})
-}
-
 // ScreenBridge screens one bridge with a fresh Screener.
 func ScreenBridge(b Bridge, s *Settings) Result {
 	var w Screener

@@ -62,16 +62,16 @@ type NetworkResult struct {
 // scenarios are loaded), by rating.Rate with each member's capacities (or stored rating
 // factor and its reference train, refs) as the scenarios are rated. members holds the truss
 // members' dead loads and labels; the sweeps go through w.sweep, so a train already swept for
-// this bridge is not swept again. Where an influence line (ords) changes sign at most once,
-// the categories' trains are swept over it as long trains at one count, which gives the same
-// envelope (network.LongSuffices) in a fraction of the time (wagonLoads).
+// this bridge is not swept again. Where every influence line (ords) changes sign at most
+// once, the categories' trains are swept as long trains at one count, which gives the same
+// envelope (network.LongSuffices) in a fraction of the time.
 func (w *Screener) rateNetwork(b Bridge, s *Settings, el *envelope.Lines, ords [][]float64, members []MemberResult, refs map[string][][]Envelope, trusses []string, md memberDyn) (*NetworkResult, error) {
 	nt := s.Network
 	envelopes := func(ld *envelope.Load) ([][]Envelope, error) {
 		return w.sectionEnvelopes(el, Scenario{Name: ld.Name(), Trains: []*envelope.Load{ld}}, b, trusses, s.Presence, md)
 	}
 	unit := make([][][]Envelope, len(nt.loads))
-	loads, err := w.wagonLoads(nt, el, ords)
+	loads, err := nt.forSpan(el.SpanM(), network.LongSuffices(ords))
 	if err != nil {
 		return nil, err
 	}

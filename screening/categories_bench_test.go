@@ -38,7 +38,7 @@ func benchSetup(b *testing.B, withNetwork bool) ([]screening.Bridge, *screening.
 	}
 	s.ShareTrains()
 	var out []screening.Bridge
-	for _, p := range []truss.Params{{Type: "pratt", SpanM: 48, Panels: 8, DepthM: 6}, {Type: "pratt", SpanM: 96, Panels: 16, DepthM: 11}, {Type: "pratt", SpanM: 48, Panels: 8, DepthM: 6, Spans: 2}} {
+	for _, p := range []truss.Params{{Type: "pratt", SpanM: 48, Panels: 8, DepthM: 6}, {Type: "pratt", SpanM: 96, Panels: 16, DepthM: 11}, {Type: "pratt", SpanM: 48, Panels: 8, DepthM: 6, Spans: 2}, {Type: "howe", SpanM: 64, Panels: 12, DepthM: 8, Spans: 3}} {
 		out = append(out, screening.Bridge{ID: p.Type, Truss: p, TrussShare: 0.5, Tracks: 1, DeadLoadKNPerM: 20, Members: withCapacities(b, p)})
 	}
 	return out, s

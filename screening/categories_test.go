@@ -11,6 +11,7 @@ import (
 	"github.com/trussfleet/trussfleet/screening/rating"
 	"github.com/trussfleet/trussfleet/screening/traffic"
 	"github.com/trussfleet/trussfleet/screening/truss"
+	"github.com/trussfleet/trussfleet/screening/truss/trusstest"
 )
 
 // categoryBridge is a Pratt span of 48 m (8 panels, 6 m deep), one track centred between two
@@ -183,84 +184,5 @@ func TestCategoryLimits(t *testing.T) {
 // influenceLines are the truss's influence lines and their ordinates, member by member.
 func influenceLines(tb testing.TB, p truss.Params) (*analysis.Lines, [][]float64) {
 	tb.Helper()
-	tr, err := truss.Build(p)
-	if err != nil {
-		tb.Fatal(err)
-	}
-	lines, err := analysis.InfluenceLines(tr, analysis.Options{})
-	if err != nil {
-		tb.Fatal(err)
-	}
-	ords := make([][]float64, len(lines.Members))
-	for i, m := range lines.Members {
-		ords[i] = m.Ordinates
-	}
-	return lines, ords
-}
-
-// TestSplitWagonsGiveTheRakes: where some of a truss's lines change sign twice (a K-truss, a
-// subdivided Baltimore, a Pratt continuous over two or three spans), wagonLoads gives every
-// member, for each wagon geometry, the envelope of the rake of 1 to n wagons swept over all
-// the lines (the reference: the rakes' own sweep, as before the split), within 1e-9 of the
-// force scale, with the long train standing in only on the lines that change sign once. A
-// K-truss and a simple Pratt, whose lines all change sign at most once, take the long trains.
-func TestSplitWagonsGiveTheRakes(t *testing.T) {
-	nt, err := screening.NewNetworkTrains()
-	if err != nil {
-		t.Fatal(err)
-	}
-	split := 0
-	for _, p := range []truss.Params{
-		{Type: "k-truss", SpanM: 72, Panels: 8, DepthM: 10},
-		{Type: "howe", SpanM: 36, Panels: 6, DepthM: 5, Spans: 2},
-		{Type: "pratt", SpanM: 40, Panels: 8, DepthM: 6, Spans: 2},
-		{Type: "warren-verticals", SpanM: 30, Panels: 6, DepthM: 4, Spans: 3},
-		{Type: "pratt", SpanM: 48, Panels: 8, DepthM: 6},
-	} {
-		lines, ords := influenceLines(t, p)
-		needy := 0
-		for _, o := range ords {
-			if !network.LongSufficesFor(o) {
-				needy++
-			}
-		}
-		t.Logf("%s %d spans: %d of %d lines change sign twice", p.Type, max(p.Spans, 1), needy, len(ords))
-		if needy > 0 && needy < len(ords) {
-			split++
-		}
-		el, err := envelope.NewLines(lines.X, ords)
-		if err != nil {
-			t.Fatal(err)
-		}
-		held, rakes, err := screening.NetworkWagons(nt, el, ords)
-		if err != nil {
-			t.Fatal(err)
-		}
-		for g, ld := range rakes {
-			got, err := held(g)
-			if err != nil {
-				t.Fatal(err)
-			}
-			var c envelope.Calculator
-			want, err := c.Envelope(el, rakes[g], envelope.Options{}, nil)
-			if err != nil {
-				t.Fatal(err)
-			}
-			for i := range want {
-				scale := 0.0
-				for _, v := range ords[i] {
-					scale = max(scale, math.Abs(v))
-				}
-				scale *= 4 * float64(network.WagonsMax) // a rake's unit axles at most
-				for _, c := range [][2]envelope.Extreme{{got[i].Max, want[i].Max}, {got[i].Min, want[i].Min}} {
-					if math.Abs(c[0].Value-c[1].Value) > 1e-9*scale {
-						t.Errorf("%s %s, %s: %v, the rakes %v", p.Type, lines.Members[i].Label, ld.Name(), c[0].Value, c[1].Value)
-					}
-				}
-			}
-		}
-	}
-	if split < 3 {
-		t.Fatalf("only %d of the trusses have both kinds of line: the test checks too little", split)
-	}
+	return trusstest.InfluenceLines(tb, p)
 }

@@ -125,6 +125,10 @@ type Calculator struct {
 	// the extremes of the left-to-right sweeps, read while the mirrored ones are merged in
 	snapV  []float64
 	snapAt []found
+	// a rake's sweep by windows (windows.go): each member's best windows, the phases, and the
+	// vehicles' forces at one phase
+	wMax, wMin     []windowBest
+	wPhases, wVals []float64
 }
 
 // plainSweeps turns off the sweeps' shortcuts, for the tests that compare each shortcut with
@@ -140,8 +144,11 @@ type plainSweeps struct {
 	// only those that show the bridge different loadings (Load.counts).
 	allCounts bool
 	// denseCurved sweeps a train with distributed parts event by event over every member
-	// instead of at each member's own kinks (sweepCurved).
+	// instead of at each member's own kinks (sweepSparse).
 	denseCurved bool
+	// countSweeps sweeps a rake of identical vehicles count by count instead of by windows
+	// of an endless train (windows.go).
+	countSweeps bool
 }
 
 // MaxEvents bounds the positions one sweep visits: the train's axles and part ends, at the
@@ -186,7 +193,11 @@ func (c *Calculator) envelope(l *Lines, ld *Load, opt Options, out []Extremes, p
 		if err := ld.fits(l, plain); err != nil {
 			return out[:0], err
 		}
-		out = c.train(l, ld, out, plain)
+		if !plain.countSweeps && ld.rakeWindows(l) {
+			out = c.windows(l, ld, out)
+		} else {
+			out = c.train(l, ld, out, plain)
+		}
 	}
 	f := opt.Factor(l.SpanM())
 	for i := range out {

@@ -256,19 +256,6 @@ func linesMatch(a, b []float64, tol float64) bool {
 // Members is the number of influence lines.
 func (l *Lines) Members() int { return l.m }
 
-// Only is the lines of the chosen members alone, in the order given: for a train that only
-// some members' lines need.
-func (l *Lines) Only(members []int) (*Lines, error) {
-	ord := make([][]float64, len(members))
-	for k, i := range members {
-		if i < 0 || i >= l.m {
-			return nil, fmt.Errorf("member %d of %d", i, l.m)
-		}
-		ord[k] = l.ord[i]
-	}
-	return NewLines(l.x, ord)
-}
-
 // SpanM is the length over which the lines are non-zero, x[last] - x[0].
 func (l *Lines) SpanM() float64 { return l.xl - l.x0 }
 

@@ -236,31 +236,23 @@ const signTol = 1e-9
 // changes or more (a region that reaches neither bearing) needs the rakes.
 func LongSuffices(ordinates [][]float64) bool {
 	for _, eta := range ordinates {
-		if !LongSufficesFor(eta) {
+		big := 0.0
+		for _, v := range eta {
+			big = math.Max(big, math.Abs(v))
+		}
+		changes, last := 0, 0.0
+		for _, v := range eta {
+			if math.Abs(v) <= signTol*math.Max(big, 1) {
+				continue
+			}
+			if last != 0 && (v > 0) != (last > 0) {
+				changes++
+			}
+			last = v
+		}
+		if changes > 1 {
 			return false
 		}
 	}
 	return true
-}
-
-// LongSufficesFor is LongSuffices for one line: the long train's envelope is the rakes'
-// where the line changes sign at most once. The argument above is line by line, so the long
-// train may stand in for the rakes on the members whose lines allow it while the rakes are
-// swept over the others alone.
-func LongSufficesFor(eta []float64) bool {
-	big := 0.0
-	for _, v := range eta {
-		big = math.Max(big, math.Abs(v))
-	}
-	changes, last := 0, 0.0
-	for _, v := range eta {
-		if math.Abs(v) <= signTol*math.Max(big, 1) {
-			continue
-		}
-		if last != 0 && (v > 0) != (last > 0) {
-			changes++
-		}
-		last = v
-	}
-	return changes <= 1
 }

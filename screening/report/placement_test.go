@@ -8,6 +8,7 @@ import (
 	"github.com/trussfleet/trussfleet/screening/analysis"
 	"github.com/trussfleet/trussfleet/screening/envelope"
 	"github.com/trussfleet/trussfleet/screening/truss"
+	"github.com/trussfleet/trussfleet/screening/truss/trusstest"
 )
 
 // The loads drawn on an influence line must be the loads that caused the extreme: placed as
@@ -26,18 +27,7 @@ func TestPlacementReproducesEnvelope(t *testing.T) {
 	}
 	const share = 0.5
 	for _, p := range trusses {
-		tr, err := truss.Build(p)
-		if err != nil {
-			t.Fatal(err)
-		}
-		lines, err := analysis.InfluenceLines(tr, analysis.Options{})
-		if err != nil {
-			t.Fatal(err)
-		}
-		ords := make([][]float64, len(lines.Members))
-		for i, m := range lines.Members {
-			ords[i] = m.Ordinates
-		}
+		lines, ords := trusstest.InfluenceLines(t, p)
 		for _, spec := range specs {
 			train := parseTrain(t, spec)
 			ex, err := envelope.Compute(lines.X, ords, train, envelope.Options{Share: share})
@@ -53,7 +43,7 @@ func TestPlacementReproducesEnvelope(t *testing.T) {
 					if !c.e.Loaded {
 						continue
 					}
-					ob := placeTrain(train, c.e.Placement, tr.SpanM(), lines.X, m.Ordinates, c.sign)
+					ob := placeTrain(train, c.e.Placement, p.SpanM*float64(max(p.Spans, 1)), lines.X, m.Ordinates, c.sign)
 					got := share * ob.effect(lines.X, m.Ordinates)
 					// Tolerance: rounding of the sweep, relative to the force (common practice).
 					if tol := 1e-6 * math.Max(1, math.Abs(c.e.Value)); math.Abs(got-c.e.Value) > tol {
