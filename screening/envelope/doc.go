@@ -19,8 +19,9 @@
 // follows the running extreme of the line's integral. A variable consist is swept only at the
 // counts that show the bridge different loadings (only vehicles on the bridge matter: once
 // more vehicles can reach the bridge only behind everything but the repeated vehicle, more
-// change nothing), and a uniform load of variable length is placed over its best feasible
-// interval directly. A train too large to sweep (MaxEvents) is refused with ErrTooLarge.
+// change nothing); a rake of 1 to n identical vehicles is swept as windows of an endless
+// train, phase by phase (windows.go); and a uniform load of variable length is placed over
+// its best feasible interval directly. A train too large to sweep (MaxEvents) is refused with ErrTooLarge.
 //
 // Typical use in a screening run:
 //
