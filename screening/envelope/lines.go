@@ -332,27 +332,40 @@ func newGrid(x []float64, ord [][]float64, refined bool) *grid {
 }
 
 // findKinks lists the grid's kinks: by vertex, the members whose line's slope changes there.
+// A line straight through a vertex gives a slope change of rounding noise there, not zero;
+// below 1e-12 of the steepest slope its ordinates could make over the panels beside the
+// vertex, it is taken as none (which moves a force by at most 1e-12 of the largest it could
+// be, times the span over the shorter of those panels: far below anything a truss's panel
+// lengths make visible). The last bearing's change is the negative of the others' sum, so
+// that a member's slope changes sum to zero exactly as the line's do: a slope, or a curvature
+// that a distributed part builds from them (sweepSparse), returns to zero once the load has
+// passed, whatever noise was left out.
 func (g *grid) findKinks(x []float64, ord [][]float64) {
 	n, m := len(x), len(ord)
-	// A line straight through a vertex gives a slope change of rounding noise there, not
-	// zero; below 1e-12 of the steepest slope its ordinates could make, it is taken as none
-	// (which moves a force by less than 1e-12 of the largest it could be).
-	minDx := math.Inf(1)
-	for j := 1; j < n; j++ {
-		minDx = min(minDx, x[j]-x[j-1])
-	}
-	noise := make([]float64, m)
+	big := make([]float64, m)
 	for i, o := range ord {
 		for _, v := range o {
-			noise[i] = max(noise[i], 1e-12*math.Abs(v)/minDx)
+			big[i] = max(big[i], math.Abs(v))
 		}
 	}
+	sum := make([]float64, m)
 	g.kinkStart = make([]int32, n+1)
 	for j := range n {
+		inv := 0.0 // the steepest slope per unit ordinate over the panels beside vertex j
+		if j > 0 {
+			inv = max(inv, 1/(x[j]-x[j-1]))
+		}
+		if j+1 < n {
+			inv = max(inv, 1/(x[j+1]-x[j]))
+		}
 		for i, d := range g.slope[j*m : j*m+m] {
-			if math.Abs(d) > noise[i] || j == 0 || j == n-1 {
+			if j == n-1 {
+				d = -sum[i]
+			}
+			if math.Abs(d) > 1e-12*big[i]*inv || j == 0 || j == n-1 {
 				g.kinkMember = append(g.kinkMember, int32(i))
 				g.kinkSlope = append(g.kinkSlope, d)
+				sum[i] += d
 			}
 		}
 		g.kinkStart[j+1] = int32(len(g.kinkMember))

@@ -123,10 +123,16 @@ func responseRef(x, eta []float64, t *traffic.Train, p placedRef, sense float64)
 		case traffic.CutUnfavourable:
 			d2 = d1 + p.trailing
 		}
-		// infinite extents reach past the bridge; a bridge-length margin is enough
-		big := 10 * (x[len(x)-1] - x[0] + 1)
-		d1 = max(d1, -big-math.Abs(p.head))
-		d2 = min(d2, big+math.Abs(p.head))
+		// Only the distances behind the front that can stand on the bridge matter (a metre's
+		// margin): infinite extents are cut there, and a part wholly off the bridge adds none.
+		dLo, dHi := p.head-x[len(x)-1], p.head-x[0]
+		if p.dir == RightToLeft {
+			dLo, dHi = x[0]-p.head, x[len(x)-1]-p.head
+		}
+		d1, d2 = max(d1, dLo-1), min(d2, dHi+1)
+		if d1 >= d2 {
+			continue
+		}
 		a, b := span(d1, d2)
 		f := identity
 		if part.Mode == traffic.WhereUnfavourable {

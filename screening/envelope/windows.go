@@ -31,9 +31,19 @@ func (ld *Load) rakeWindows(l *Lines) bool {
 			return false
 		}
 	}
+	// The windows count an axle within rounding of a bearing (onBearing) as on it, so as
+	// many vehicles as that allows must be a rake.
 	aMin, aMax := ld.unitSpread()
-	touch := math.Floor((l.SpanM()+aMax-aMin)/ld.unitLen) + 1
+	touch := math.Floor((l.SpanM()+aMax-aMin+2*ld.onBearing(l.x0, l.xl))/ld.unitLen) + 1
 	return float64(ld.nMax) >= touch
+}
+
+// onBearing is how near a bearing (at x0 or xl) the windows take an axle to stand on it: the
+// rounding of an axle's position found from a phase (a vertex plus an offset, modulo the
+// vehicle's length, then back), some 50 units in the last place of the lengths involved.
+func (ld *Load) onBearing(x0, xl float64) float64 {
+	_, aMax := ld.unitSpread()
+	return 1e-14 * (1 + max(math.Abs(x0), math.Abs(xl)) + ld.unitLen + math.Abs(aMax))
 }
 
 // unitSpread is the least and largest offset of the vehicle's axles behind its front.
@@ -45,16 +55,18 @@ func (ld *Load) unitSpread() (aMin, aMax float64) {
 	return aMin, aMax
 }
 
-// symmetricUnit reports whether the vehicle is its own mirror image (each axle matched by
-// one of equal load as far from the other end, to 1e-9): then a rake running right to left
-// loads the bridge as one running left to right does, and one direction holds both.
+// symmetricUnit reports whether the vehicle is its own mirror image: its axles matched one
+// to one with axles of equal load as far from the other end (to within rounding, 1e-12 of
+// its length). Then a rake running right to left loads the bridge as one running left to
+// right does, and one direction holds both.
 func (ld *Load) symmetricUnit() bool {
 	L := ld.unitLen
+	used := make([]bool, len(ld.unit))
 	for _, a := range ld.unit {
 		found := false
-		for _, b := range ld.unit {
-			if math.Abs(L-a.d-b.d) <= 1e-9*L && math.Abs(a.w-b.w) <= 1e-9*math.Abs(a.w) {
-				found = true
+		for k, b := range ld.unit {
+			if !used[k] && math.Abs(L-a.d-b.d) <= 1e-12*L && a.w == b.w {
+				used[k], found = true, true
 				break
 			}
 		}
@@ -131,7 +143,7 @@ func (c *Calculator) windowsOver(gr *grid, d int, ld *Load) {
 	point, limits := []int8{0}, []int8{-1, 0, 1}
 	// Positions within rounding of a bearing stand on it: a phase found from a bearing puts
 	// an axle there only to within rounding.
-	tiny := 1e-12 * max(1, xl-x0, math.Abs(x0), math.Abs(xl)+L+aMax)
+	tiny := ld.onBearing(x0, xl)
 	for b, phi := range phases {
 		before, after := phi-phases[(b+len(phases)-1)%len(phases)], phases[(b+1)%len(phases)]-phi
 		if before <= 0 {
