@@ -7,8 +7,6 @@ import (
 
 	"github.com/trussfleet/trussfleet/internal/proptest"
 	"github.com/trussfleet/trussfleet/screening/traffic"
-	"github.com/trussfleet/trussfleet/screening/truss"
-	"github.com/trussfleet/trussfleet/screening/truss/trusstest"
 	"pgregory.net/rapid"
 )
 
@@ -480,52 +478,5 @@ func TestEdgeWindowsSymmetryMultiplicity(t *testing.T) {
 		if math.Abs(s.got.Value-s.want.Value) > 1e-9*scale || math.Abs(s.got.Value-brute) > 1e-6*scale {
 			t.Errorf("sense %v: windows %v (%+v); count sweeps %v (%+v), brute force %v", s.sense, s.got.Value, s.got.Placement, s.want.Value, s.want.Placement, brute)
 		}
-	}
-}
-
-// TestEdgeCooperOnContinuousTruss: Cooper E80 over a truss continuous over three spans
-// (lines by the stiffness method, screening/analysis; kinks at every panel point, several
-// sign changes, rounding noise of computed lines): the sparse sweep against the dense one
-// for every member, and the brute force must not beat it for every tenth member.
-func TestEdgeCooperOnContinuousTruss(t *testing.T) {
-	lines, ord := trusstest.InfluenceLines(t, truss.Params{Type: "howe", SpanM: 64, Panels: 12, DepthM: 8, Spans: 3})
-	x := lines.X
-	tr := traffic.Cooper(80)
-	shortcutAgrees(t, x, ord, tr, plainSweeps{denseCurved: true})
-	l, ld := prepared(t, x, ord, tr)
-	var c Calculator
-	got, err := c.Envelope(l, ld, Options{}, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	for i := 0; i < len(ord); i += 30 { // the brute force is slow: three members
-		scale := forceScale(x, ord[i], tr)
-		for _, s := range senses(got[i]) {
-			if b := bruteTrain(x, ord[i], tr, s.sense); s.sense*(b-s.e.Value) > 1e-9*scale {
-				t.Fatalf("member %d sense %v: brute force %v beats sparse %v", i, s.sense, b, s.e.Value)
-			}
-		}
-	}
-}
-
-// TestEdgeAsymmetricRakeOnContinuousTruss: rakes of an asymmetric wagon (13.5 m; axles of
-// 200, 200, 120, 120 kN at 1.2, 3.0, 11.0, 12.3 m) over trusses continuous over two and three
-// spans and a simple Pratt: both directions run, and the windows give every member the
-// extremes of the count-by-count sweeps, with placements that reproduce their values.
-func TestEdgeAsymmetricRakeOnContinuousTruss(t *testing.T) {
-	for _, p := range []truss.Params{
-		{Type: "howe", SpanM: 64, Panels: 12, DepthM: 8, Spans: 3},
-		{Type: "pratt", SpanM: 48, Panels: 8, DepthM: 6, Spans: 2},
-		{Type: "pratt", SpanM: 60, Panels: 10, DepthM: 8},
-	} {
-		lines, ord := trusstest.InfluenceLines(t, p)
-		span := lines.X[len(lines.X)-1] - lines.X[0]
-		v := traffic.Vehicle{Name: "wagon", LengthM: 13.5, Axles: []traffic.Axle{{AtM: 1.2, LoadKN: 200}, {AtM: 3.0, LoadKN: 200}, {AtM: 11.0, LoadKN: 120}, {AtM: 12.3, LoadKN: 120}}}
-		rake := &traffic.Train{Name: "rake", Consist: []traffic.Group{{Vehicle: v, Min: 1, Max: reviewTouch(v, span)}}}
-		l, ld := prepared(t, lines.X, ord, rake)
-		if !ld.rakeWindows(l) || ld.symmetricUnit() {
-			t.Fatal("expected windows over both directions")
-		}
-		shortcutAgrees(t, lines.X, ord, rake, plainSweeps{countSweeps: true})
 	}
 }

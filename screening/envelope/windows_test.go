@@ -48,10 +48,12 @@ func TestWindowsEqualCountSweeps(t *testing.T) {
 }
 
 // TestWindowsOnContinuousTrusses: rakes of four-axle bogie wagons (10 m and 14 m, axles
-// 1.5 m from the ends and 1.8 m apart in a bogie) over trusses continuous over two and three
-// spans, whose lines kink at every panel point and change sign twice or more, and over a
-// simple Pratt: the windows give every member the extremes of the count-by-count sweeps (the
-// reference), with placements that reproduce their values. Lines by the stiffness method
+// 1.5 m from the ends and 1.8 m apart in a bogie, symmetric: one direction swept) and of an
+// asymmetric wagon (13.5 m; axles of 200, 200, 120, 120 kN at 1.2, 3.0, 11.0, 12.3 m: both
+// directions) over trusses continuous over two and three spans, whose lines kink at every
+// panel point and change sign twice or more, and over a simple Pratt: the windows give every
+// member the extremes of the count-by-count sweeps (the reference), with placements that
+// reproduce their values. Lines by the stiffness method
 // (screening/analysis, itself checked against the method of sections and the force method).
 func TestWindowsOnContinuousTrusses(t *testing.T) {
 	for _, p := range []truss.Params{
@@ -61,11 +63,15 @@ func TestWindowsOnContinuousTrusses(t *testing.T) {
 	} {
 		lines, ord := trusstest.InfluenceLines(t, p)
 		span := lines.X[len(lines.X)-1] - lines.X[0]
-		for _, L := range []float64{10, 14} {
-			v := traffic.Vehicle{Name: "wagon", LengthM: L, Axles: []traffic.Axle{{AtM: 1.5, LoadKN: 225}, {AtM: 3.3, LoadKN: 225}, {AtM: L - 3.3, LoadKN: 225}, {AtM: L - 1.5, LoadKN: 225}}}
-			rake := &traffic.Train{Name: "rake", Consist: []traffic.Group{{Vehicle: v, Min: 1, Max: int(math.Ceil(span/L)) + 2}}}
-			if _, ld := prepared(t, lines.X, ord, rake); !ld.symmetricUnit() {
-				t.Fatalf("the %g m wagon is not found symmetric", L)
+		bogie := func(L float64) traffic.Vehicle {
+			return traffic.Vehicle{Name: "wagon", LengthM: L, Axles: []traffic.Axle{{AtM: 1.5, LoadKN: 225}, {AtM: 3.3, LoadKN: 225}, {AtM: L - 3.3, LoadKN: 225}, {AtM: L - 1.5, LoadKN: 225}}}
+		}
+		odd := traffic.Vehicle{Name: "wagon", LengthM: 13.5, Axles: []traffic.Axle{{AtM: 1.2, LoadKN: 200}, {AtM: 3.0, LoadKN: 200}, {AtM: 11.0, LoadKN: 120}, {AtM: 12.3, LoadKN: 120}}}
+		for k, v := range []traffic.Vehicle{bogie(10), bogie(14), odd} {
+			rake := &traffic.Train{Name: "rake", Consist: []traffic.Group{{Vehicle: v, Min: 1, Max: int(math.Ceil(span/v.LengthM)) + 2}}}
+			l, ld := prepared(t, lines.X, ord, rake)
+			if !ld.rakeWindows(l) || ld.symmetricUnit() != (k < 2) {
+				t.Fatalf("wagon %d: windows %v, symmetric %v", k, ld.rakeWindows(l), ld.symmetricUnit())
 			}
 			shortcutAgrees(t, lines.X, ord, rake, plainSweeps{countSweeps: true})
 		}
