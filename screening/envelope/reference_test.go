@@ -278,6 +278,17 @@ func placementGives(x, eta []float64, t *traffic.Train, p Placement, sense, valu
 			return got, true
 		}
 	}
+	// A limit at a jump is the value approached as the head nears the jump from the side the
+	// placement stands on, up to 1e-9 of the span away: where the force is steep, the value
+	// at the placement differs from it by the slope times that. Heads nearer the jump, in
+	// steps of 1e-10 of the span, approach the limit.
+	for k := -9; k <= 9; k++ {
+		q := placedAt(p)
+		q.head = p.HeadM + float64(k)*1e-10*max(1, span)
+		if k != 0 && math.Abs(responseRef(x, eta, t, q, sense)-value) <= tol {
+			return got, true
+		}
+	}
 	r := 1e-12 * max(1, span, math.Abs(x[0]), math.Abs(x[len(x)-1]), math.Abs(p.HeadM))
 	wide := slices.Clone(x)
 	wide[0] -= r
