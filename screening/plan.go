@@ -88,8 +88,10 @@ type Plan struct {
 // column filled differently). It is part of every plan's hash, so a run with --changed after
 // such a change screens every bridge again instead of carrying older results forward.
 // 2: the floor system's fatigue check. 3: a passage's cycles counted as one of many
-// (fatigue.RainflowRepeated).
-const MethodVersion = 3
+// (fatigue.RainflowRepeated). 4: the sweeps' limits placed within the next event, rakes swept
+// by windows, rounding noise of slope changes judged per vertex (forces change by rounding;
+// a placement may name another of equal force).
+const MethodVersion = 4
 
 // Hash is a stable digest of the plan and of the method (MethodVersion) that computes it.
 func (p Plan) Hash() string {
