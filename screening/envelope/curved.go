@@ -137,18 +137,7 @@ func (c *Calculator) bring(si int, i int32, s float64, run int32) {
 	dt := s - t
 	v, g, cc := st.v[i], st.g[i], st.c[i]
 	if cc != 0 {
-		gEnd := g + cc*dt
-		if sm.max && cc < 0 && g > 0 && gEnd < 0 {
-			tt := -g / cc
-			if val := v + g*tt/2; val > c.maxV[i] {
-				c.maxV[i], c.maxAt[i] = val, found{s: t + tt, stream: int8(si), run: run}
-			}
-		} else if sm.min && cc > 0 && g < 0 && gEnd > 0 {
-			tt := -g / cc
-			if val := v + g*tt/2; val < c.minV[i] {
-				c.minV[i], c.minAt[i] = val, found{s: t + tt, stream: int8(si), run: run}
-			}
-		}
+		c.turn(sm, si, int(i), v, g, cc, t, dt, run)
 	}
 	v += g*dt + cc*dt*dt/2
 	st.v[i], st.g[i], st.t[i] = v, g+cc*dt, s

@@ -353,9 +353,7 @@ func (c *Calculator) extreme(l *Lines, ld *Load, i int, v float64, f found, isMa
 		gr = l.refinedGrid(sd)
 	}
 	span := l.SpanM()
-	// A limit at a jump is reported a hair's breadth off it, and never beyond the next event,
-	// where the value may change (an axle spaced within rounding of the span).
-	h := f.s + float64(f.side)*min(1e-9*max(1, span), f.room/2)
+	h := f.s + offJump(f.side, f.room, span)
 	if r.cnt.report > r.cnt.sweep && h-l.x0 >= ld.r0+float64(r.cnt.sweep-1)*ld.unitLen {
 		h += float64(r.cnt.report-r.cnt.sweep) * ld.unitLen
 	}
@@ -399,11 +397,24 @@ func (c *Calculator) extreme(l *Lines, ld *Load, i int, v float64, f found, isMa
 	}
 	p.LoadedFromM, p.LoadedToM = max(lo, l.x0), min(hi, l.xl)
 	p.HeadM = h
-	if r.dir == 1 {
-		p.HeadM = l.x0 + l.xl - h
+	l.inTruss(&p, r.dir)
+	return Extreme{Value: v, Placement: p}
+}
+
+// offJump is how far off a jump of the line at a bearing a limit there is reported, on the
+// side where it holds: a hair's breadth (1e-9 of the span), and never beyond the next event,
+// room away, where the value may change (an axle spaced within rounding of the span).
+func offJump(side int8, room, span float64) float64 {
+	return float64(side) * min(1e-9*max(1, span), room/2)
+}
+
+// inTruss turns a placement found on direction dir's grid into the truss's own coordinates
+// (direction 1's grid is the truss's mirror image).
+func (l *Lines) inTruss(p *Placement, dir int) {
+	if dir == 1 {
+		p.HeadM = l.x0 + l.xl - p.HeadM
 		p.LoadedFromM, p.LoadedToM = l.x0+l.xl-p.LoadedToM, l.x0+l.xl-p.LoadedFromM
 	}
-	return Extreme{Value: v, Placement: p}
 }
 
 // signExtent bounds the stretches of [a, b] where member i's line has the given sign.

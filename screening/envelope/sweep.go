@@ -193,7 +193,10 @@ func (c *Calculator) sweep(gr *grid, ld *Load, n int, run int32, dense bool) {
 			g0 = g1
 			continue
 		}
-		before, after := c.gaps(gr, g0, g1)
+		var before, after float64 // needed only where a jump makes a limit
+		if endJump || ld.hasCut {
+			before, after = c.gaps(gr, g0, g1)
+		}
 		dt := s - sPrev
 		for si, sm := range streams {
 			st := &c.state[si]
@@ -532,22 +535,28 @@ func (c *Calculator) advanceCurved(si int, dt, sPrev float64, run int32) {
 	for i := range c.m {
 		v, g, cc := st.v[i], st.g[i], st.c[i]
 		if cc != 0 {
-			gEnd := g + cc*dt
-			if (cc < 0 && sm.max && g > 0 && gEnd < 0) || (cc > 0 && sm.min && g < 0 && gEnd > 0) {
-				t := -g / cc
-				val := v + g*t/2 // v + g t + cc t²/2 with t = -g/cc
-				if cc < 0 && val > c.maxV[i] {
-					c.maxV[i] = val
-					c.maxAt[i] = found{s: sPrev + t, stream: int8(si), run: run}
-				}
-				if cc > 0 && val < c.minV[i] {
-					c.minV[i] = val
-					c.minAt[i] = found{s: sPrev + t, stream: int8(si), run: run}
-				}
-			}
+			c.turn(sm, si, i, v, g, cc, sPrev, dt, run)
 		}
 		st.v[i] = v + g*dt + cc*dt*dt/2
 		st.g[i] = g + cc*dt
+	}
+}
+
+// turn offers member i's top (or bottom) of the parabola v + g t + cc t²/2 of stream si,
+// from position from over dt, where it lies inside and the stream looks for that sense.
+func (c *Calculator) turn(sm stream, si, i int, v, g, cc, from, dt float64, run int32) {
+	gEnd := g + cc*dt
+	if (cc < 0 && sm.max && g > 0 && gEnd < 0) || (cc > 0 && sm.min && g < 0 && gEnd > 0) {
+		t := -g / cc
+		val := v + g*t/2 // v + g t + cc t²/2 with t = -g/cc
+		if cc < 0 && val > c.maxV[i] {
+			c.maxV[i] = val
+			c.maxAt[i] = found{s: from + t, stream: int8(si), run: run}
+		}
+		if cc > 0 && val < c.minV[i] {
+			c.minV[i] = val
+			c.minAt[i] = found{s: from + t, stream: int8(si), run: run}
+		}
 	}
 }
 

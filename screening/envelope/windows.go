@@ -243,14 +243,10 @@ func (c *Calculator) windowExtreme(l *Lines, ld *Load, b windowBest) Extreme {
 	if math.Abs(b.v) < 1e-9 {
 		return Extreme{}
 	}
-	span := l.SpanM()
-	h := b.phi + float64(b.j1)*ld.unitLen + float64(b.side)*min(1e-9*max(1, span), b.room/2)
+	h := b.phi + float64(b.j1)*ld.unitLen + offJump(b.side, b.room, l.SpanM())
 	k := b.j1 - b.j0 + 1
 	p := Placement{Loaded: true, Direction: Direction(b.dir), HeadM: h, Count: k, LengthM: ld.lengthM(k)}
 	p.LoadedFromM, p.LoadedToM = max(h-p.LengthM, l.x0), min(h, l.xl)
-	if b.dir == 1 {
-		p.HeadM = l.x0 + l.xl - h
-		p.LoadedFromM, p.LoadedToM = l.x0+l.xl-p.LoadedToM, l.x0+l.xl-p.LoadedFromM
-	}
+	l.inTruss(&p, b.dir)
 	return Extreme{Value: b.v, Placement: p}
 }
